@@ -1,0 +1,18 @@
+import type { Metadata } from 'next';
+import { cookies } from 'next/headers';
+import { mono, sans } from './fonts';
+import './globals.css';
+
+export const metadata: Metadata = {
+  title: { default: 'Veilmeter', template: '%s · Veilmeter' },
+  description: 'Contrast, ghost and see-through measurements for see-through displays',
+};
+
+export default async function RootLayout({ children }: { children: React.ReactNode }) {
+  const theme = (await cookies()).get('vm-theme')?.value === 'light' ? 'light' : 'dark';
+  return (
+    <html lang="en" data-theme={theme} className={`${sans.variable} ${mono.variable}`}>
+      <body className="min-h-screen font-sans antialiased">{children}</body>
+    </html>
+  );
+}

@@ -1,0 +1,51 @@
+'use client';
+
+import { signIn } from 'next-auth/react';
+import Link from 'next/link';
+import { useRouter } from 'next/navigation';
+import { useActionState, useEffect, useRef } from 'react';
+import { signUpAction } from '@/app/(auth)/actions';
+import { Button } from '@/components/ui/button';
+import { Field } from '@/components/ui/field';
+import type { FormState } from '@/lib/auth/action';
+
+export function SignUpForm() {
+  const [state, action, pending] = useActionState<FormState, FormData>(signUpAction, {});
+  const formRef = useRef<HTMLFormElement>(null);
+  const router = useRouter();
+
+  useEffect(() => {
+    if (!state.ok || !formRef.current) return;
+    const form = new FormData(formRef.current);
+    void signIn('credentials', { email: String(form.get('email')), password: String(form.get('password')), redirect: false }).then(() => {
+      router.replace('/projects');
+      router.refresh();
+    });
+  }, [state, router]);
+
+  const fe = state.fieldErrors ?? {};
+  return (
+    <form ref={formRef} action={action} className="space-y-4" noValidate>
+      <h1 className="text-lg font-semibold">Start a lab</h1>
+      <p className="text-sm text-muted">You become the lab&apos;s admin and can invite your team afterwards.</p>
+      {state.message && !state.ok ? (
+        <p role="alert" className="text-sm text-fail">
+          {state.message}
+        </p>
+      ) : null}
+      <Field label="Your name" name="name" autoComplete="name" errors={fe.name} required />
+      <Field label="E-mail" name="email" type="email" autoComplete="email" errors={fe.email} required />
+      <Field label="Password" name="password" type="password" autoComplete="new-password" errors={fe.password} hint="10 characters or more" required />
+      <Field label="Lab name" name="labName" errors={fe.labName} placeholder="e.g. Optics bench B" required />
+      <Button type="submit" className="w-full" disabled={pending || state.ok}>
+        {pending || state.ok ? 'Creating…' : 'Create lab'}
+      </Button>
+      <p className="text-center text-xs text-muted">
+        Already have an account?{' '}
+        <Link href="/sign-in" className="text-beam">
+          Sign in
+        </Link>
+      </p>
+    </form>
+  );
+}

@@ -1,0 +1,69 @@
+'use client';
+
+import { useActionState, useEffect, useRef } from 'react';
+import { createProjectAction, deleteProjectAction, renameProjectAction } from '@/app/(lab)/projects/actions';
+import { Button } from '@/components/ui/button';
+import { Field } from '@/components/ui/field';
+import type { FormState } from '@/lib/auth/action';
+
+function Status({ state }: { state: FormState }) {
+  if (!state.message) return null;
+  return (
+    <p role={state.ok ? 'status' : 'alert'} className={state.ok ? 'text-sm text-pass' : 'text-sm text-fail'}>
+      {state.message}
+    </p>
+  );
+}
+
+export function CreateProjectForm() {
+  const [state, action, pending] = useActionState<FormState, FormData>(createProjectAction, {});
+  const ref = useRef<HTMLFormElement>(null);
+  useEffect(() => {
+    if (state.ok) ref.current?.reset();
+  }, [state]);
+  return (
+    <form ref={ref} action={action} className="space-y-3" noValidate>
+      <Field label="Name" name="name" placeholder="e.g. Visor V2 birdbath" errors={state.fieldErrors?.name} maxLength={500} />
+      <Field label="Description (optional)" name="description" errors={state.fieldErrors?.description} />
+      <div className="flex items-center gap-3">
+        <Button type="submit" disabled={pending}>
+          {pending ? 'Creating…' : 'Create project'}
+        </Button>
+        <Status state={state} />
+      </div>
+    </form>
+  );
+}
+
+export function RenameProjectForm({ id, name }: { id: string; name: string }) {
+  const [state, action, pending] = useActionState<FormState, FormData>(renameProjectAction, {});
+  return (
+    <form action={action} className="flex flex-wrap items-end gap-3" noValidate>
+      <input type="hidden" name="id" value={id} />
+      <Field label="Project name" name="name" defaultValue={name} errors={state.fieldErrors?.name} className="min-w-64 flex-1" />
+      <Button type="submit" tone="quiet" disabled={pending}>
+        {pending ? 'Saving…' : 'Rename'}
+      </Button>
+      <Status state={state} />
+    </form>
+  );
+}
+
+export function DeleteProjectForm({ id, name }: { id: string; name: string }) {
+  const [state, action, pending] = useActionState<FormState, FormData>(deleteProjectAction, {});
+  return (
+    <form
+      action={action}
+      onSubmit={(e) => {
+        if (!window.confirm(`Delete “${name}” with all its revisions, captures and readings? This cannot be undone.`)) e.preventDefault();
+      }}
+      className="flex items-center gap-3"
+    >
+      <input type="hidden" name="id" value={id} />
+      <Button type="submit" tone="danger" disabled={pending}>
+        Delete project
+      </Button>
+      <Status state={state} />
+    </form>
+  );
+}

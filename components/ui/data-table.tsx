@@ -1,0 +1,109 @@
+'use client';
+
+import clsx from 'clsx';
+import Link from 'next/link';
+import { useMemo, useState } from 'react';
+
+export type Column = { key: string; label: string; numeric?: boolean };
+/** A cell carries what to show and what to sort by; both are plain data (server → client). */
+export type Cell = { text: string; sort?: number | string | null };
+export type Row = { id: string; href?: string; cells: Record<string, Cell> };
+
+function csvEscape(s: string): string {
+  return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+}
+
+/** A table that sorts on any column and exports what it shows as CSV. */
+export function DataTable({ columns, rows, csvName, empty }: { columns: Column[]; rows: Row[]; csvName: string; empty?: React.ReactNode }) {
+  const [sortKey, setSortKey] = useState<string | null>(null);
+  const [desc, setDesc] = useState(false);
+
+  const sorted = useMemo(() => {
+    if (!sortKey) return rows;
+    const key = sortKey;
+    const val = (r: Row) => r.cells[key]?.sort ?? r.cells[key]?.text ?? null;
+    return [...rows].sort((a, b) => {
+      const va = val(a);
+      const vb = val(b);
+      if (va === vb) return 0;
+      if (va === null) return 1;
+      if (vb === null) return -1;
+      const cmp = typeof va === 'number' && typeof vb === 'number' ? va - vb : String(va).localeCompare(String(vb), undefined, { numeric: true });
+      return desc ? -cmp : cmp;
+    });
+  }, [rows, sortKey, desc]);
+
+  function exportCsv() {
+    const lines = [columns.map((c) => csvEscape(c.label)).join(',')];
+    for (const r of sorted) lines.push(columns.map((c) => csvEscape(r.cells[c.key]?.text ?? '')).join(','));
+    const blob = new Blob([lines.join('\r\n') + '\r\n'], { type: 'text/csv;charset=utf-8' });
+    const a = document.createElement('a');
+    a.href = URL.createObjectURL(blob);
+    a.download = `${csvName}.csv`;
+    a.click();
+    URL.revokeObjectURL(a.href);
+  }
+
+  if (rows.length === 0 && empty) return <>{empty}</>;
+
+  return (
+    <div>
+      <div className="mb-2 flex justify-end">
+        <button type="button" onClick={exportCsv} className="text-xs text-muted underline-offset-2 hover:text-beam hover:underline">
+          Export CSV
+        </button>
+      </div>
+      <div className="overflow-x-auto rounded-md border border-line">
+        <table className="w-full text-sm">
+          <thead className="bg-raised text-left text-xs uppercase tracking-wider text-muted">
+            <tr>
+              {columns.map((c) => {
+                const active = sortKey === c.key;
+                return (
+                  <th key={c.key} scope="col" className={clsx('px-3 py-2 font-medium', c.numeric && 'text-right')} aria-sort={active ? (desc ? 'descending' : 'ascending') : 'none'}>
+                    <button
+                      type="button"
+                      className="inline-flex items-center gap-1 hover:text-ink"
+                      onClick={() => {
+                        if (active) setDesc(!desc);
+                        else {
+                          setSortKey(c.key);
+                          setDesc(false);
+                        }
+                      }}
+                    >
+                      {c.label}
+                      <span aria-hidden className={clsx('text-[10px]', active ? 'text-beam' : 'opacity-30')}>
+                        {active && desc ? '▼' : '▲'}
+                      </span>
+                    </button>
+                  </th>
+                );
+              })}
+            </tr>
+          </thead>
+          <tbody>
+            {sorted.map((r) => (
+              <tr key={r.id} className="border-t border-line hover:bg-raised/60">
+                {columns.map((c, i) => {
+                  const text = r.cells[c.key]?.text ?? '';
+                  return (
+                    <td key={c.key} className={clsx('px-3 py-2', c.numeric && 'text-right font-mono tabular-nums')}>
+                      {i === 0 && r.href ? (
+                        <Link href={r.href} className="font-medium text-ink hover:text-beam">
+                          {text}
+                        </Link>
+                      ) : (
+                        text
+                      )}
+                    </td>
+                  );
+                })}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+    </div>
+  );
+}

@@ -1,0 +1,50 @@
+import { getDb } from '../index';
+import type { Role } from '../../lib/auth/permissions';
+
+export type User = { id: string; email: string; name: string; createdAt: Date };
+export type UserWithHash = User & { passwordHash: string };
+export type Membership = { labId: string; labName: string; role: Role };
+
+type UserRow = { id: string; email: string; name: string; password_hash: string; created_at: Date };
+
+const toUser = (r: UserRow): UserWithHash => ({ id: r.id, email: r.email, name: r.name, passwordHash: r.password_hash, createdAt: r.created_at });
+
+export async function getUserByEmail(email: string): Promise<UserWithHash | null> {
+  const row = await getDb()<UserRow>('users').whereRaw('lower(email) = lower(?)', [email]).first();
+  return row ? toUser(row) : null;
+}
+
+export async function getUserById(id: string): Promise<User | null> {
+  const row = await getDb()<UserRow>('users').where({ id }).first();
+  if (!row) return null;
+  const { passwordHash: _omit, ...user } = toUser(row);
+  return user;
+}
+
+export async function listMemberships(userId: string): Promise<Membership[]> {
+  const rows = await getDb()('memberships as m')
+    .join('labs as l', 'l.id', 'm.lab_id')
+    .where('m.user_id', userId)
+    .orderBy([{ column: 'm.created_at' }, { column: 'l.name' }])
+    .select<{ lab_id: string; name: string; role: Role }[]>('m.lab_id', 'l.name', 'm.role');
+  return rows.map((r) => ({ labId: r.lab_id, labName: r.name, role: r.role }));
+}
+
+export async function getMembership(userId: string, labId: string): Promise<Membership | null> {
+  const r = await getDb()('memberships as m')
+    .join('labs as l', 'l.id', 'm.lab_id')
+    .where({ 'm.user_id': userId, 'm.lab_id': labId })
+    .first<{ lab_id: string; name: string; role: Role } | undefined>('m.lab_id', 'l.name', 'm.role');
+  return r ? { labId: r.lab_id, labName: r.name, role: r.role } : null;
+}
+
+/** Creates a person and a new lab whose admin they are, in one transaction. */
+export async function createUserWithLab(input: { email: string; name: string; passwordHash: string; labName: string }): Promise<{ userId: string; labId: string }> {
+  return getDb().transaction(async (trx) => {
+    const [user] = await trx('users').insert({ email: input.email, name: input.name, password_hash: input.passwordHash }).returning<{ id: string }[]>('id');
+    const [lab] = await trx('labs').insert({ name: input.labName }).returning<{ id: string }[]>('id');
+    if (!user || !lab) throw new Error('insert returned nothing');
+    await trx('memberships').insert({ lab_id: lab.id, user_id: user.id, role: 'admin' });
+    return { userId: user.id, labId: lab.id };
+  });
+}

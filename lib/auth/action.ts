@@ -1,0 +1,39 @@
+import 'server-only';
+import { ZodError, type z } from 'zod';
+import { AppError, toErrorResponse, zodFieldErrors } from '../errors';
+import { actorWith, type Actor } from './session';
+import type { Permission } from './permissions';
+
+/** What every form action returns: field errors to show beside inputs, or a message. */
+export type FormState = { ok?: boolean; message?: string; fieldErrors?: Record<string, string[]> };
+
+/**
+ * Wraps a server action: session → role from the database → zod → body. The body returns a
+ * message (or nothing); errors come back as form state and never as stack traces.
+ */
+export function formAction<S extends z.ZodType>(
+  permission: Permission,
+  schema: S,
+  body: (actor: Actor, input: z.infer<S>, form: FormData) => Promise<string | void>,
+) {
+  return async (_prev: FormState, form: FormData): Promise<FormState> => {
+    try {
+      const actor = await actorWith(permission);
+      const input = schema.parse(Object.fromEntries(form.entries()));
+      const message = await body(actor, input, form);
+      return { ok: true, message: message ?? undefined };
+    } catch (err) {
+      if (isNextControlFlow(err)) throw err;
+      if (err instanceof ZodError) return { ok: false, message: 'Check the highlighted fields', fieldErrors: zodFieldErrors(err) };
+      if (err instanceof AppError) return { ok: false, message: err.message, fieldErrors: err.fieldErrors };
+      const { body: safe } = toErrorResponse(err);
+      return { ok: false, message: safe.error.message };
+    }
+  };
+}
+
+// redirect() and notFound() signal by throwing; they must pass through untouched.
+function isNextControlFlow(err: unknown): boolean {
+  const digest = (err as { digest?: unknown } | null)?.digest;
+  return typeof digest === 'string' && (digest.startsWith('NEXT_REDIRECT') || digest.startsWith('NEXT_HTTP_ERROR_FALLBACK') || digest === 'NEXT_NOT_FOUND');
+}

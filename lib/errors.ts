@@ -1,0 +1,48 @@
+import { ZodError } from 'zod';
+
+/** An error whose message is safe to show: it carries the HTTP status to answer with. */
+export class AppError extends Error {
+  constructor(
+    readonly status: number,
+    message: string,
+    readonly code = 'error',
+    readonly fieldErrors?: Record<string, string[]>,
+  ) {
+    super(message);
+    this.name = 'AppError';
+  }
+}
+
+export const notFound = (what = 'Not found') => new AppError(404, what, 'not_found');
+export const forbidden = (what = 'Your role in this lab does not allow this') => new AppError(403, what, 'forbidden');
+export const unauthorized = () => new AppError(401, 'Sign in first', 'unauthorized');
+
+export type ErrorBody = { error: { code: string; message: string; fieldErrors?: Record<string, string[]> } };
+
+export function zodFieldErrors(err: ZodError): Record<string, string[]> {
+  const out: Record<string, string[]> = {};
+  for (const issue of err.issues) {
+    const key = issue.path.length ? issue.path.join('.') : '_';
+    (out[key] ??= []).push(issue.message);
+  }
+  return out;
+}
+
+/** Turns any thrown value into a status and a body that leaks nothing internal. */
+export function toErrorResponse(err: unknown): { status: number; body: ErrorBody } {
+  if (err instanceof ZodError) {
+    return { status: 422, body: { error: { code: 'invalid', message: 'Some fields are not valid', fieldErrors: zodFieldErrors(err) } } };
+  }
+  if (err instanceof AppError) {
+    return { status: err.status, body: { error: { code: err.code, message: err.message, fieldErrors: err.fieldErrors } } };
+  }
+  if (isUniqueViolation(err)) {
+    return { status: 409, body: { error: { code: 'conflict', message: 'That name is already taken' } } };
+  }
+  console.error('[veilmeter] unexpected error', err);
+  return { status: 500, body: { error: { code: 'internal', message: 'Something went wrong on our side. Try again; if it persists, tell your lab admin.' } } };
+}
+
+export function isUniqueViolation(err: unknown): boolean {
+  return typeof err === 'object' && err !== null && (err as { code?: unknown }).code === '23505';
+}

@@ -1,0 +1,161 @@
+#!/usr/bin/env bash
+# Shared helpers for start.sh, test.sh and stop.sh: installing what is missing and running
+# PostgreSQL, Redis and the mail catcher on 127.0.0.1 inside one data folder.
+set -euo pipefail
+
+ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
+PG_BIN="${PG_BIN:-}"
+
+log() { printf '\033[36m[veilmeter]\033[0m %s\n' "$*"; }
+fail() { printf '\033[31m[veilmeter]\033[0m %s\n' "$*" >&2; exit 1; }
+
+as_root() {
+  if [ "$(id -u)" = 0 ]; then "$@"; elif command -v sudo >/dev/null; then sudo "$@"; else
+    fail "need root to run: $* (install it by hand, then re-run)"; fi
+}
+
+apt_updated=0
+apt_install() {
+  if [ "$apt_updated" = 0 ]; then
+    log "apt-get update"
+    as_root env DEBIAN_FRONTEND=noninteractive apt-get update -qq
+    apt_updated=1
+  fi
+  log "apt-get install $*"
+  as_root env DEBIAN_FRONTEND=noninteractive apt-get install -y -qq "$@" >/dev/null
+}
+
+find_pg_bin() {
+  local d
+  for d in /usr/lib/postgresql/*/bin; do
+    if [ -x "$d/initdb" ] && [ -x "$d/pg_ctl" ]; then PG_BIN="$d"; fi
+  done
+}
+
+# Installs Debian packages and npm dependencies that are missing. $1 = "with-browser" for tests.
+ensure_system() {
+  find_pg_bin
+  local pkgs=()
+  [ -n "$PG_BIN" ] || pkgs+=(postgresql)
+  command -v redis-server >/dev/null || pkgs+=(redis-server)
+  if [ "${1:-}" = with-browser ] && [ ! -x /usr/bin/chromium ]; then pkgs+=(chromium); fi
+  if [ "${#pkgs[@]}" -gt 0 ]; then apt_install "${pkgs[@]}"; find_pg_bin; fi
+  [ -n "$PG_BIN" ] || fail "PostgreSQL server binaries not found after install"
+  id postgres >/dev/null 2>&1 || fail "the postgres system user is missing (Debian's postgresql package creates it)"
+}
+
+ensure_node_modules() {
+  local stamp="$ROOT/node_modules/.veilmeter-lock"
+  if [ ! -d "$ROOT/node_modules" ] || ! cmp -s "$ROOT/package-lock.json" "$stamp"; then
+    log "npm ci"
+    (cd "$ROOT" && npm ci --include=dev --no-audit --no-fund --loglevel=error)
+    cp "$ROOT/package-lock.json" "$stamp"
+  fi
+}
+
+# The postgres user must be able to reach the cluster folder; a checkout under /root is not
+# reachable, so the cluster then lives in /var/lib/veilmeter and .data/pg links to it.
+pg_dir_for() {
+  local data="$1" want="$1/pg"
+  mkdir -p "$data"
+  if [ -L "$want" ]; then readlink -f "$want"; return; fi
+  if runuser -u postgres -- test -x "$data" 2>/dev/null; then echo "$want"; return; fi
+  local alt="/var/lib/veilmeter/$(printf '%s' "$data" | sha1sum | cut -c1-12)/pg"
+  mkdir -p "$(dirname "$alt")"
+  ln -sfn "$alt" "$want"
+  echo "$alt"
+}
+
+# pg_start DATA_DIR PORT durable|throwaway
+pg_start() {
+  local data="$1" port="$2" mode="$3" dir
+  dir="$(pg_dir_for "$data")"
+  if [ ! -f "$dir/PG_VERSION" ]; then
+    log "initdb $dir"
+    mkdir -p "$dir"; chown postgres:postgres "$dir"; chmod 700 "$dir"
+    local pw="$data/.pgpass-init"
+    printf '%s\n' "$PGPASSWORD" > "$pw"; chown postgres "$pw"
+    runuser -u postgres -- "$PG_BIN/initdb" -D "$dir" -U veilmeter --pwfile="$pw" \
+      --auth-local=scram-sha-256 --auth-host=scram-sha-256 -E UTF8 --locale=C.UTF-8 >/dev/null
+    rm -f "$pw"
+  fi
+  local opts="-c listen_addresses=127.0.0.1 -p $port -c unix_socket_directories=''"
+  if [ "$mode" = throwaway ]; then opts="$opts -c fsync=off -c synchronous_commit=off -c full_page_writes=off"; fi
+  if runuser -u postgres -- "$PG_BIN/pg_ctl" -D "$dir" status >/dev/null 2>&1; then
+    log "PostgreSQL already running on 127.0.0.1:$port"
+  else
+    runuser -u postgres -- "$PG_BIN/pg_ctl" -D "$dir" -w -t 60 -l "$dir/server.log" -o "$opts" start >/dev/null \
+      || { tail -20 "$dir/server.log" >&2; fail "PostgreSQL did not start (log above)"; }
+    log "PostgreSQL on 127.0.0.1:$port"
+  fi
+}
+
+pg_ensure_db() {
+  local port="$1" name="$2"
+  PGPASSWORD="$PGPASSWORD" psql -h 127.0.0.1 -p "$port" -U veilmeter -d postgres -tAc \
+    "SELECT 1 FROM pg_database WHERE datname='$name'" | grep -q 1 \
+    || PGPASSWORD="$PGPASSWORD" psql -h 127.0.0.1 -p "$port" -U veilmeter -d postgres -qc "CREATE DATABASE \"$name\"" >/dev/null
+}
+
+pg_stop() {
+  local data="$1" dir
+  [ -e "$data/pg" ] || return 0
+  dir="$(readlink -f "$data/pg")"
+  if [ -f "$dir/postmaster.pid" ]; then
+    runuser -u postgres -- "$PG_BIN/pg_ctl" -D "$dir" -w -t 60 -m fast stop >/dev/null 2>&1 || true
+  fi
+}
+
+# redis_start DATA_DIR PORT durable|throwaway
+redis_start() {
+  local data="$1" port="$2" mode="$3" dir="$1/redis"
+  mkdir -p "$dir"
+  if redis-cli -p "$port" -a "$REDIS_PASSWORD" --no-auth-warning ping >/dev/null 2>&1; then
+    log "Redis already running on 127.0.0.1:$port"; return
+  fi
+  local persist=(--appendonly yes --appendfsync everysec)
+  [ "$mode" = throwaway ] && persist=(--save '' --appendonly no)
+  redis-server --bind 127.0.0.1 --port "$port" --daemonize yes --dir "$dir" \
+    --pidfile "$dir/redis.pid" --logfile "$dir/redis.log" --requirepass "$REDIS_PASSWORD" \
+    --maxmemory-policy noeviction "${persist[@]}"
+  local i
+  for i in $(seq 1 100); do
+    redis-cli -p "$port" -a "$REDIS_PASSWORD" --no-auth-warning ping >/dev/null 2>&1 && { log "Redis on 127.0.0.1:$port"; return; }
+    sleep 0.05
+  done
+  fail "Redis did not start (see $dir/redis.log)"
+}
+
+redis_stop() {
+  local data="$1" port="$2"
+  redis-cli -p "$port" -a "$REDIS_PASSWORD" --no-auth-warning shutdown nosave >/dev/null 2>&1 || true
+  rm -f "$data/redis/redis.pid"
+}
+
+# Secrets are made once per data folder and kept there (git-ignored).
+load_secrets() {
+  local data="$1" f="$1/secrets.env"
+  mkdir -p "$data"; chmod 755 "$data"
+  if [ ! -f "$f" ]; then
+    umask 077
+    {
+      echo "PGPASSWORD=$(head -c 18 /dev/urandom | base64 | tr -dc 'A-Za-z0-9')"
+      echo "REDIS_PASSWORD=$(head -c 18 /dev/urandom | base64 | tr -dc 'A-Za-z0-9')"
+      echo "NEXTAUTH_SECRET=$(head -c 32 /dev/urandom | base64 | tr -dc 'A-Za-z0-9')"
+    } > "$f"
+    umask 022
+  fi
+  set -a; . "$f"; set +a
+}
+
+stop_pidfile() {
+  local f="$1" pid
+  [ -f "$f" ] || return 0
+  pid="$(cat "$f")"
+  if kill -0 "$pid" 2>/dev/null; then
+    kill -TERM -- "-$pid" 2>/dev/null || kill -TERM "$pid" 2>/dev/null || true
+    local i; for i in $(seq 1 50); do kill -0 "$pid" 2>/dev/null || break; sleep 0.2; done
+    kill -KILL -- "-$pid" 2>/dev/null || true
+  fi
+  rm -f "$f"
+}

@@ -1,0 +1,67 @@
+#!/usr/bin/env bash
+# npm start: install what is missing, start PostgreSQL and Redis on 127.0.0.1, migrate, seed the
+# demo when the database is empty, build, then serve the web app and the worker until Ctrl-C.
+set -euo pipefail
+. "$(dirname "$0")/lib.sh"
+cd "$ROOT"
+
+export PORT="${PORT:-3000}" PGPORT="${PGPORT:-54329}" REDIS_PORT="${REDIS_PORT:-63799}"
+export SMTP_PORT="${SMTP_PORT:-2529}" WORKERS="${WORKERS:-1}"
+DATA_DIR="${DATA_DIR:-.data}"; mkdir -p "$DATA_DIR"; export DATA_DIR="$(cd "$DATA_DIR" && pwd)"
+export PGDATABASE="${PGDATABASE:-veilmeter}" NODE_ENV=production
+RUN="$DATA_DIR/run"; mkdir -p "$RUN"
+
+ensure_system
+ensure_node_modules
+load_secrets "$DATA_DIR"
+. "$ROOT/scripts/env.sh"
+
+stopping=0
+shutdown() {
+  [ "$stopping" = 1 ] && return; stopping=1
+  log "stopping"
+  bash "$ROOT/scripts/stop.sh" >/dev/null 2>&1 || true
+  log "stopped; data kept in $DATA_DIR"
+}
+trap shutdown EXIT
+trap 'exit 130' INT TERM
+
+pg_start "$DATA_DIR" "$PGPORT" durable
+pg_ensure_db "$PGPORT" "$PGDATABASE"
+redis_start "$DATA_DIR" "$REDIS_PORT" durable
+cat > "$RUN/ports.env" <<EOT
+PGPORT=$PGPORT
+REDIS_PORT=$REDIS_PORT
+EOT
+
+log "migrating"
+npx tsx db/migrate.ts latest
+npx tsx db/seeds/run.ts --if-empty
+
+log "building"
+npx next build >"$RUN/build.log" 2>&1 || { tail -40 "$RUN/build.log" >&2; fail "build failed (log above, full log in $RUN/build.log)"; }
+
+setsid npx tsx scripts/mail-catcher.ts >"$RUN/mail.log" 2>&1 & echo $! > "$RUN/mail.pid"
+for i in $(seq 1 "$WORKERS"); do
+  setsid npx tsx worker/index.ts >"$RUN/worker-$i.log" 2>&1 & echo $! > "$RUN/worker-$i.pid"
+done
+setsid npx next start -p "$PORT" -H "${HOST:-127.0.0.1}" >"$RUN/web.log" 2>&1 & echo $! > "$RUN/web.pid"
+
+for i in $(seq 1 150); do
+  curl -fsS "http://127.0.0.1:$PORT/api/health" >/dev/null 2>&1 && break
+  kill -0 "$(cat "$RUN/web.pid")" 2>/dev/null || { tail -20 "$RUN/web.log" >&2; fail "web app exited"; }
+  sleep 0.2
+done
+
+cat <<EOT
+
+  Veilmeter is running at http://localhost:$PORT
+  (PostgreSQL 127.0.0.1:$PGPORT, Redis 127.0.0.1:$REDIS_PORT, $WORKERS worker(s), mail catcher 127.0.0.1:$SMTP_PORT)
+
+  Demo sign-ins: admin@example.test, lead@example.test, tester@example.test, viewer@example.test
+  Demo password: $(npx tsx -e "import('./db/seeds/demo-data.ts').then(m => console.log(m.DEMO_PASSWORD))")
+
+  Logs in $RUN. Ctrl-C or \`npm run stop\` stops everything; the data stays in $DATA_DIR.
+
+EOT
+wait -n "$(cat "$RUN/web.pid")" 2>/dev/null || true

@@ -1,0 +1,61 @@
+#!/usr/bin/env bash
+# npm test: the same bootstrap as npm start on a throwaway data folder and other ports, then
+# typecheck, lint, vitest (unit + integration against the real services) and Playwright.
+set -uo pipefail
+. "$(dirname "$0")/lib.sh"
+cd "$ROOT"
+set -e
+
+export PORT="${TEST_PORT:-3107}" PGPORT="${TEST_PGPORT:-54339}" REDIS_PORT="${TEST_REDIS_PORT:-63809}"
+export SMTP_PORT="${TEST_SMTP_PORT:-2539}"
+mkdir -p .test-data
+export DATA_DIR="$(mktemp -d "$ROOT/.test-data/run-XXXXXX")"
+export PGDATABASE=veilmeter_test NODE_ENV=production VEILMETER_TEST=1
+RUN="$DATA_DIR/run"; mkdir -p "$RUN"
+
+ensure_system with-browser
+ensure_node_modules
+load_secrets "$DATA_DIR"
+. "$ROOT/scripts/env.sh"
+
+cleanup() {
+  set +e
+  for f in "$RUN"/*.pid; do [ -e "$f" ] && stop_pidfile "$f"; done
+  redis_stop "$DATA_DIR" "$REDIS_PORT"
+  pg_stop "$DATA_DIR"
+  local dir; dir="$(readlink -f "$DATA_DIR/pg" 2>/dev/null || true)"
+  case "$dir" in /var/lib/veilmeter/*) rm -rf "$(dirname "$dir")";; esac
+  rm -rf "$DATA_DIR"
+}
+trap cleanup EXIT
+trap 'exit 130' INT TERM
+
+pg_start "$DATA_DIR" "$PGPORT" throwaway
+pg_ensure_db "$PGPORT" "$PGDATABASE"
+redis_start "$DATA_DIR" "$REDIS_PORT" throwaway
+setsid npx tsx scripts/mail-catcher.ts >"$RUN/mail.log" 2>&1 & echo $! > "$RUN/mail.pid"
+
+npx tsx db/migrate.ts latest
+npx tsx db/seeds/run.ts --if-empty
+set +e
+
+status=0
+step() {
+  local name="$1"; shift
+  log "── $name"
+  local t0=$SECONDS
+  if "$@"; then log "── $name passed ($((SECONDS - t0)) s)"; else log "── $name FAILED"; status=1; fi
+}
+
+step typecheck npx tsc --noEmit
+step lint npx eslint --max-warnings=0 .
+step vitest npx vitest run --reporter=default
+step build bash -c 'npx next build > "$0/build.log" 2>&1 || { tail -60 "$0/build.log"; exit 1; }' "$RUN"
+if [ -f .next/BUILD_ID ]; then
+  setsid npx tsx worker/index.ts >"$RUN/worker.log" 2>&1 & echo $! > "$RUN/worker.pid"
+  step e2e npx playwright test
+  [ "$status" = 0 ] || { echo "--- worker log (tail)"; tail -30 "$RUN/worker.log"; }
+fi
+
+if [ "$status" = 0 ]; then log "all tests passed"; else log "some tests FAILED"; fi
+exit "$status"
