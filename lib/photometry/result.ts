@@ -1,0 +1,80 @@
+import type { LuminanceHistogram } from './histogram';
+import type { Offset, Pattern, Plane, PhotoRole, Rect } from './types';
+
+/** Every warning the engine can attach to a reading. */
+export const WARNING_CODES = [
+  'clipped',
+  'shifted',
+  'exposure-unknown',
+  'transmission-over-screen',
+  'checkerboard-unclear',
+  'low-signal',
+  'ghost-band-clipped',
+  'calibration-needs-exposure',
+] as const;
+
+export type WarningCode = (typeof WARNING_CODES)[number];
+
+export interface EngineWarning {
+  code: WarningCode;
+  message: string;
+}
+
+export interface GhostResult {
+  /** Ghost luminance over primary luminance, second-order corrected. */
+  ratio: number;
+  /** Ghost position minus screen position, full-resolution pixels. */
+  dx: number;
+  dy: number;
+  source: 'marked' | 'detected';
+  /** B/S1, the uncorrected first-order estimate. */
+  firstOrder: number;
+  /** Detection strength in standard errors; null when the offset was marked. */
+  snr: number | null;
+}
+
+export interface GhostAndUniformity {
+  ghost: GhostResult | null;
+  uniformity: number | null;
+  uniformityCells: number[] | null;
+}
+
+/** One reading of the engine: the JSON shape of PRODUCT.md §5 plus a few extra keys. */
+export interface CaptureResult {
+  engineVersion: string;
+  image: { width: number; height: number };
+  pattern: Pattern;
+  registration: { off: Offset; ambient: Offset | null; dark: Offset | null };
+  screen: Rect & { source: 'marked' | 'detected' };
+  background: Rect | null;
+  luminance: { on: number; off: number; ambient: number | null; dark: number | null };
+  /** cd/m² from a camera profile (`calibrated`) or from the meter equation (`rough-estimate`). */
+  absoluteLuminance: { kind: 'calibrated' | 'rough-estimate'; on: number; off: number; ambient: number | null } | null;
+  ambientContrastRatio: number | null;
+  michelson: number | null;
+  ansiContrast: number | null;
+  checkerboard: { white: number; black: number; whiteParity: 0 | 1; separation: number } | null;
+  uniformity: number | null;
+  uniformityCells: number[] | null;
+  ghost: GhostResult | null;
+  /** Ghost and uniformity from on − off and, with a dark photo, from the dark photo (which the main keys prefer). */
+  variants: { onMinusOff: GhostAndUniformity; dark: GhostAndUniformity | null };
+  transmission: number | null;
+  tint: { dx: number; dy: number; deltaE00: number; off: { x: number; y: number }; ambient: { x: number; y: number } } | null;
+  clippedFraction: number;
+  clippedByPhoto: Partial<Record<PhotoRole, number>>;
+  exposure: { known: boolean; scales: Partial<Record<PhotoRole, number>> };
+  warnings: EngineWarning[];
+}
+
+/** Downsampled planes behind the artifacts. */
+export interface AnalysisMaps {
+  /** Downsampling factor from the photos to these planes. */
+  factor: number;
+  /** log10(on/off) per pixel, aligned. */
+  logContrast: Plane;
+  /** D = on − off (aligned), on the on photo's scale. */
+  difference: Plane;
+  /** Histograms of each photo's normalised luminance. */
+  histograms: Partial<Record<PhotoRole, LuminanceHistogram>>;
+}
