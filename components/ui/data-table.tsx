@@ -88,7 +88,7 @@ export function DataTable({ columns, rows, csvName, empty }: { columns: Column[]
                 {columns.map((c, i) => {
                   const text = r.cells[c.key]?.text ?? '';
                   return (
-                    <td key={c.key} className={clsx('px-3 py-2', c.numeric && 'text-right font-mono tabular-nums')}>
+                    <td key={c.key} className={clsx('px-3 py-2', c.numeric ? 'whitespace-nowrap text-right font-mono tabular-nums' : i > 0 && 'whitespace-nowrap')}>
                       {i === 0 && r.href ? (
                         <Link href={r.href} className="font-medium text-ink hover:text-beam">
                           {text}
