@@ -1,7 +1,6 @@
 // Runs knex migrations: `tsx db/migrate.ts latest|rollback|down-all|status`.
 import { closeDb, getDb } from './index';
-
-const migrations = { directory: new URL('./migrations', import.meta.url).pathname, extension: 'ts', loadExtensions: ['.ts'] };
+import { migrationConfig as migrations } from './migration-source';
 
 async function main(cmd: string): Promise<void> {
   const db = getDb();
