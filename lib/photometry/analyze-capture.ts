@@ -372,7 +372,7 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     logContrast[i] = a > 0 && b > 0 ? Math.log10(a / b) : Number.NaN;
   }
   const histograms: AnalysisMaps['histograms'] = {};
-  for (const [role, p] of Object.entries(small) as [PhotoRole, Plane][]) histograms[role] = luminanceHistogram(p.data);
+  for (const [role, p] of Object.entries(small) as [PhotoRole, Plane][]) histograms[role] = luminanceHistogram(p.data, 96, -14, 2, Math.max(1, Math.floor(p.data.length / 250_000)));
 
   const result: CaptureResult = {
     engineVersion: ENGINE_VERSION,

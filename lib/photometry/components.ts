@@ -31,16 +31,10 @@ export function connectedComponents(mask: Uint8Array, width: number, height: num
       if (x > x1) x1 = x;
       if (y < y0) y0 = y;
       if (y > y1) y1 = y;
-      const push = (q: number): void => {
-        if (mask[q] !== 0 && (label[q] as number) < 0) {
-          label[q] = id;
-          stack[top++] = q;
-        }
-      };
-      if (x > 0) push(p - 1);
-      if (x < width - 1) push(p + 1);
-      if (y > 0) push(p - width);
-      if (y < height - 1) push(p + width);
+      if (x > 0 && mask[p - 1] !== 0 && (label[p - 1] as number) < 0) { label[p - 1] = id; stack[top++] = p - 1; }
+      if (x < width - 1 && mask[p + 1] !== 0 && (label[p + 1] as number) < 0) { label[p + 1] = id; stack[top++] = p + 1; }
+      if (y > 0 && mask[p - width] !== 0 && (label[p - width] as number) < 0) { label[p - width] = id; stack[top++] = p - width; }
+      if (y < height - 1 && mask[p + width] !== 0 && (label[p + width] as number) < 0) { label[p + width] = id; stack[top++] = p + width; }
     }
     out.push({ area, box: { x: x0, y: y0, w: x1 - x0 + 1, h: y1 - y0 + 1 } });
   }

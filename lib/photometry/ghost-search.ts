@@ -1,5 +1,6 @@
 import { forEachBandPixel } from './band';
 import { crossCorrelate, nextPow2, toComplex } from './fft2d';
+import { strided } from './detect-screen';
 import { robustSigma } from './percentile';
 import type { Offset, Plane, Rect } from './types';
 
@@ -73,7 +74,7 @@ export function searchGhost(d: Plane, screen: Rect, minOffset: number): GhostCan
     }
   }
   if (outside.length === 0) return null;
-  const sigma = Math.max(robustSigma(outside), 1e-12);
+  const sigma = Math.max(robustSigma(strided(outside, 100_000)), 1e-12);
 
   // coarse search on a box-reduced copy of the domain by FFT cross-correlation
   const q = Math.max(1, Math.ceil(Math.max(dom.w, dom.h) / COARSE_SIZE));

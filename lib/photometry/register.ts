@@ -74,7 +74,8 @@ export function registerPhotos(input: RegistrationInput): Offset & { peak: numbe
   const d0: Offset = { dx: coarse.dx * scale, dy: coarse.dy * scale };
   if (scale === 1) return coarse;
 
-  const fineSize = Math.min(FINE_SIZE, reference.width, reference.height);
+  // the window plus the search reach fits one power-of-two transform
+  const fineSize = Math.min(FINE_SIZE - (scale + 2), reference.width, reference.height);
   const win = texturedWindow(ga, gb, coarse, Math.max(1, Math.round(fineSize / scale)));
   const rect: Rect = {
     x: Math.min(reference.width - fineSize, win.x * scale),

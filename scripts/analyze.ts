@@ -1,0 +1,131 @@
+/**
+ * Command-line front of the photometry engine:
+ * npm run -s analyze -- --on FILE --off FILE [--ambient FILE] [--dark FILE] [--pattern full|checkerboard]
+ *   [--screen x,y,w,h] [--background x,y,w,h] [--ghost-offset dx,dy|none] [--calibration K] [--linear16]
+ *   [--artifacts DIR] [--json]
+ * Bad input exits with status 2 and one line on stderr.
+ */
+import { parseArgs } from 'node:util';
+import { analyzeFiles, writeArtifacts } from '../lib/image';
+import { EngineInputError } from '../lib/photometry/errors';
+import type { CaptureResult } from '../lib/photometry/result';
+import type { Offset, Pattern, Rect } from '../lib/photometry/types';
+
+function ints(name: string, text: string, count: number): number[] {
+  const parts = text.split(',').map((s) => s.trim());
+  const values = parts.map(Number);
+  if (parts.length !== count || parts.some((p) => p === '') || !values.every(Number.isInteger)) {
+    throw new EngineInputError('bad-argument', `--${name} needs ${count} whole numbers separated by commas, got "${text}"`);
+  }
+  return values;
+}
+
+function rect(name: string, text: string | undefined): Rect | null {
+  if (text === undefined) return null;
+  const [x, y, w, h] = ints(name, text, 4) as [number, number, number, number];
+  return { x, y, w, h };
+}
+
+function fmt(v: number | null | undefined, digits = 4): string {
+  if (v === null || v === undefined) return '—';
+  return Math.abs(v) >= 1000 || (Math.abs(v) < 1e-3 && v !== 0) ? v.toExponential(3) : v.toFixed(digits);
+}
+
+function table(r: CaptureResult): string {
+  const rows: [string, string][] = [
+    ['engine', r.engineVersion],
+    ['image', `${r.image.width} × ${r.image.height}`],
+    ['pattern', r.pattern],
+    ['screen', `${r.screen.x},${r.screen.y},${r.screen.w},${r.screen.h} (${r.screen.source})`],
+    ['registration off', `${r.registration.off.dx},${r.registration.off.dy} px`],
+    ['registration ambient', r.registration.ambient ? `${r.registration.ambient.dx},${r.registration.ambient.dy} px` : '—'],
+    ['luminance on / off / ambient', `${fmt(r.luminance.on)} / ${fmt(r.luminance.off)} / ${fmt(r.luminance.ambient)} (relative)`],
+    ['ambient contrast ratio', fmt(r.ambientContrastRatio, 3)],
+    ['Michelson', fmt(r.michelson)],
+    ['ANSI checkerboard contrast', fmt(r.ansiContrast, 2)],
+    ['uniformity (min/max)', fmt(r.uniformity, 3)],
+    ['ghost ratio', r.ghost ? `${(100 * r.ghost.ratio).toFixed(2)}% at ${r.ghost.dx},${r.ghost.dy} px (${r.ghost.source})` : 'none found'],
+    ['transmission', r.transmission === null ? '—' : `${(100 * r.transmission).toFixed(1)}%`],
+    ['tint Δx, Δy / ΔE00', r.tint ? `${fmt(r.tint.dx, 4)}, ${fmt(r.tint.dy, 4)} / ${fmt(r.tint.deltaE00, 2)}` : '—'],
+    ['clipped', `${(100 * r.clippedFraction).toFixed(3)}%`],
+  ];
+  if (r.absoluteLuminance) {
+    const a = r.absoluteLuminance;
+    rows.push([`cd/m² on / off / ambient (${a.kind})`, `${fmt(a.on, 1)} / ${fmt(a.off, 1)} / ${fmt(a.ambient, 1)}`]);
+  }
+  const width = Math.max(...rows.map(([k]) => k.length));
+  const lines = rows.map(([k, v]) => `${k.padEnd(width)}  ${v}`);
+  for (const w of r.warnings) lines.push(`warning ${w.code}: ${w.message}`);
+  return lines.join('\n');
+}
+
+async function main(): Promise<void> {
+  let values: Record<string, string | boolean | undefined>;
+  try {
+    ({ values } = parseArgs({
+      options: {
+        on: { type: 'string' },
+        off: { type: 'string' },
+        ambient: { type: 'string' },
+        dark: { type: 'string' },
+        pattern: { type: 'string', default: 'full' },
+        screen: { type: 'string' },
+        background: { type: 'string' },
+        'ghost-offset': { type: 'string' },
+        calibration: { type: 'string' },
+        linear16: { type: 'boolean', default: false },
+        artifacts: { type: 'string' },
+        json: { type: 'boolean', default: false },
+      },
+      strict: true,
+      allowPositionals: false,
+    }));
+  } catch (e) {
+    throw new EngineInputError('bad-argument', (e as Error).message.split('\n')[0] ?? 'bad arguments');
+  }
+  const str = (k: string): string | undefined => (typeof values[k] === 'string' ? (values[k] as string) : undefined);
+  const on = str('on');
+  const off = str('off');
+  if (!on || !off) throw new EngineInputError('bad-argument', 'both --on FILE and --off FILE are required');
+  const pattern = str('pattern') as Pattern;
+  if (pattern !== 'full' && pattern !== 'checkerboard') throw new EngineInputError('bad-argument', `--pattern must be full or checkerboard, got "${pattern}"`);
+  const go = str('ghost-offset');
+  let ghostOffset: Offset | 'none' | null = null;
+  if (go === 'none') ghostOffset = 'none';
+  else if (go !== undefined) {
+    const [dx, dy] = ints('ghost-offset', go, 2) as [number, number];
+    ghostOffset = { dx, dy };
+  }
+  const cal = str('calibration');
+  const calibration = cal === undefined ? null : Number(cal);
+  if (calibration !== null && !(Number.isFinite(calibration) && calibration > 0)) {
+    throw new EngineInputError('bad-argument', `--calibration must be a positive number, got "${cal}"`);
+  }
+  const wantArtifacts = str('artifacts');
+  const { result, artifacts } = await analyzeFiles({
+    on,
+    off,
+    ambient: str('ambient') ?? null,
+    dark: str('dark') ?? null,
+    pattern,
+    screen: rect('screen', str('screen')),
+    background: rect('background', str('background')),
+    ghostOffset,
+    calibration,
+    linear16: values.linear16 === true,
+    artifacts: wantArtifacts !== undefined,
+  });
+  if (wantArtifacts !== undefined && artifacts) await writeArtifacts(wantArtifacts, artifacts);
+  process.stdout.write(values.json === true ? `${JSON.stringify(result)}\n` : `${table(result)}\n`);
+}
+
+main().catch((e: unknown) => {
+  if (e instanceof EngineInputError) {
+    process.stderr.write(`error: ${e.message.replace(/\s+/g, ' ')}\n`);
+    process.exit(2);
+  }
+  // a bug, not the user's input: still one line, with the stack only on request
+  process.stderr.write(`internal error: ${e instanceof Error ? e.message.replace(/\s+/g, ' ') : String(e)}\n`);
+  if (process.env.VEILMETER_DEBUG && e instanceof Error && e.stack) process.stderr.write(`${e.stack}\n`);
+  process.exit(1);
+});
