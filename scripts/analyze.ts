@@ -124,8 +124,7 @@ main().catch((e: unknown) => {
     process.stderr.write(`error: ${e.message.replace(/\s+/g, ' ')}\n`);
     process.exit(2);
   }
-  // a bug, not the user's input: still one line, with the stack only on request
+  // a bug, not the user's input: still one line; run the engine under a debugger for the stack
   process.stderr.write(`internal error: ${e instanceof Error ? e.message.replace(/\s+/g, ' ') : String(e)}\n`);
-  if (process.env.VEILMETER_DEBUG && e instanceof Error && e.stack) process.stderr.write(`${e.stack}\n`);
   process.exit(1);
 });

@@ -240,11 +240,11 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
   for (const [role, p] of Object.entries(photos) as [PhotoRole, CapturePhoto][]) {
     crops[role] = luminanceCrop(p.raster, cropRect, registration[role] as Offset, scaleOf(role));
   }
+  progress('crops', 0.65);
   const local = (r: Rect): Rect => translateRect(r, -cropRect.x, -cropRect.y);
   const meanOver = (role: PhotoRole, r: Rect): number => regionMean((crops[role] as LuminanceCrop).plane, local(r));
   const cropOn = crops.on as LuminanceCrop;
   const cropOff = crops.off as LuminanceCrop;
-  const diffCrop = subtractPlanes(cropOn.plane, cropOff.plane);
 
   const lOn = meanOver('on', screen);
   const lOff = meanOver('off', screen);
@@ -272,10 +272,10 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     if (!(cb.separation > 1.2)) warnings.push({ code: 'checkerboard-unclear', message: 'the white and black cells overlap in level: check the pattern is a 4 × 4 checkerboard filling the screen region' });
   }
 
-  const ghostAndUniformity = (d: Plane, found: Found): GhostAndUniformity => {
+  const ghostAndUniformity = (d: Plane, minus: Plane | undefined, found: Found): GhostAndUniformity => {
     let ghost: GhostResult | null = null;
     if (found) {
-      const m = measureGhost(d, { x: cropRect.x, y: cropRect.y }, screen, found.offset);
+      const m = measureGhost(d, { x: cropRect.x, y: cropRect.y }, screen, found.offset, minus);
       if (m && Number.isFinite(m.ratio)) {
         ghost = { ratio: m.ratio, dx: found.offset.dx, dy: found.offset.dy, source: found.source, firstOrder: m.firstOrder, snr: found.snr };
       }
@@ -283,16 +283,18 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     let u: number | null = null;
     let cells: number[] | null = null;
     if (pattern === 'full' && screen.w >= 3 && screen.h >= 3) {
-      cells = gridCells(screen, 3, 3).map((c) => regionMean(d, local(c)));
+      cells = gridCells(screen, 3, 3).map((c) => regionMean(d, local(c)) - (minus ? regionMean(minus, local(c)) : 0));
       if (cells.every(Number.isFinite)) u = finiteOrNull(uniformity(cells).minOverMax);
       else cells = null;
     }
     return { ghost, uniformity: u, uniformityCells: cells };
   };
-  const onMinusOff = ghostAndUniformity(diffCrop, ghostOnOff);
-  const darkVariant = photos.dark ? ghostAndUniformity((crops.dark as LuminanceCrop).plane, ghostDark) : null;
+  progress('ghost-ratio', 0.68);
+  const onMinusOff = ghostAndUniformity(cropOn.plane, cropOff.plane, ghostOnOff);
+  const darkVariant = photos.dark ? ghostAndUniformity((crops.dark as LuminanceCrop).plane, undefined, ghostDark) : null;
   const primary = darkVariant ?? onMinusOff;
 
+  progress('see-through', 0.7);
   // transmission and tint over the background, or the screen when none is marked
   let transmission: number | null = null;
   let tint: CaptureResult['tint'] = null;
@@ -318,6 +320,7 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     }
   }
 
+  progress('clipping', 0.75);
   // clipping inside the analysed regions (PRODUCT.md §5.5)
   const analysed = background ? [screen, background] : [screen];
   const clippedByPhoto: Partial<Record<PhotoRole, number>> = {};

@@ -13,17 +13,21 @@ export interface GhostMeasurement {
 }
 
 /**
- * Second-order ghost ratio from a difference plane whose pixel (0, 0) sits at `origin` in screen
+ * Second-order ghost ratio from a difference plane (d, or d − minus) whose pixel (0, 0) sits at `origin` in screen
  * coordinates: B over the band (the displaced screen minus the screen), S1 and S2 over the band
  * shifted back by one and two offsets. Null when the band has no data or the screen no light.
  */
-export function measureGhost(d: Plane, origin: { x: number; y: number }, screen: Rect, offset: Offset): GhostMeasurement | null {
+export function measureGhost(d: Plane, origin: { x: number; y: number }, screen: Rect, offset: Offset, minus?: Plane): GhostMeasurement | null {
+  if (minus && (minus.width !== d.width || minus.height !== d.height)) throw new RangeError('planes must have the same size');
   if (!Number.isInteger(offset.dx) || !Number.isInteger(offset.dy)) throw new RangeError('ghost offset must be integer');
   if (offset.dx === 0 && offset.dy === 0) throw new RangeError('ghost offset must not be zero');
   const at = (x: number, y: number): number => {
     const u = x - origin.x;
     const v = y - origin.y;
-    return u < 0 || v < 0 || u >= d.width || v >= d.height ? Number.NaN : (d.data[v * d.width + u] as number);
+    if (u < 0 || v < 0 || u >= d.width || v >= d.height) return Number.NaN;
+    const i = v * d.width + u;
+    // with `minus`, D = d − minus is formed only where the band needs it
+    return minus ? (d.data[i] as number) - (minus.data[i] as number) : (d.data[i] as number);
   };
   let b = 0;
   let s1 = 0;

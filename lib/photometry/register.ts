@@ -15,7 +15,8 @@ export interface RegistrationInput {
   maxShift: number;
 }
 
-const COARSE_SIZE = 256;
+// small enough that the frame plus a 10% search reach fits a 256-point transform
+const COARSE_SIZE = 200;
 const FINE_SIZE = 256;
 
 function fillNaN(p: Plane): Plane {

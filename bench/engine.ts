@@ -1,0 +1,77 @@
+/**
+ * Engine benchmark: decode-only time of a 6000 × 4000 JPEG triplet (the floor) against the full
+ * analysis (decode through artifacts), medians of 5 runs after a warm-up, and peak RSS.
+ * `npm run bench -- --json` prints one JSON object; either way bench/RESULTS.md is rewritten.
+ */
+import { execFileSync } from 'node:child_process';
+import { existsSync, mkdirSync, readFileSync } from 'node:fs';
+import { writeFile } from 'node:fs/promises';
+import { cpus, tmpdir, totalmem } from 'node:os';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { analyzeFiles, decodeRawOnly, writeArtifacts } from '../lib/image';
+
+const RUNS = 5;
+const here = dirname(fileURLToPath(import.meta.url));
+const dir = join(tmpdir(), 'veilmeter-bench-6000x4000-q90-v1');
+const names = ['on.jpg', 'off.jpg', 'ambient.jpg'] as const;
+const paths = names.map((n) => join(dir, n));
+if (!paths.every((p) => existsSync(p))) {
+  mkdirSync(dir, { recursive: true });
+  execFileSync(process.execPath, ['--import', 'tsx', join(here, 'make-photos.ts'), dir], { stdio: 'inherit' });
+}
+const bytes = paths.map((p) => readFileSync(p));
+const outDir = join(dir, 'artifacts');
+
+async function decodeOnly(): Promise<number> {
+  const t = performance.now();
+  await Promise.all(bytes.map((b) => decodeRawOnly(b)));
+  return performance.now() - t;
+}
+
+async function analysis(): Promise<number> {
+  const t = performance.now();
+  const { artifacts } = await analyzeFiles({
+    on: { name: 'on.jpg', bytes: bytes[0] as Buffer },
+    off: { name: 'off.jpg', bytes: bytes[1] as Buffer },
+    ambient: { name: 'ambient.jpg', bytes: bytes[2] as Buffer },
+  });
+  if (artifacts) await writeArtifacts(outDir, artifacts);
+  return performance.now() - t;
+}
+
+const median = (xs: number[]): number => {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.floor(s.length / 2)] as number;
+};
+
+await decodeOnly();
+await analysis();
+const decodes: number[] = [];
+const analyses: number[] = [];
+for (let i = 0; i < RUNS; i++) {
+  decodes.push(await decodeOnly());
+  analyses.push(await analysis());
+}
+const decodeMs = Math.round(median(decodes));
+const analysisMs = Math.round(median(analyses));
+const ratio = Math.round((analysisMs / decodeMs) * 100) / 100;
+const peakRssMb = Math.round(process.resourceUsage().maxRSS / 1024);
+const figures = { decodeMs, analysisMs, ratio, peakRssMb };
+
+const machine = `${cpus().length} × ${cpus()[0]?.model.trim() ?? 'cpu'}, ${Math.round(totalmem() / 2 ** 30)} GB, Node ${process.version}`;
+const md = `# Engine benchmark
+
+6000 × 4000 JPEG triplet (on, off, ambient; quality 90), median of ${RUNS} runs after a warm-up, one process.
+Run on ${new Date().toISOString().slice(0, 10)}, ${machine}. Reproduce with \`npm run bench\`.
+
+| figure | value | target |
+| --- | --- | --- |
+| decode only, three photos (sharp, the floor) | ${decodeMs} ms | |
+| full analysis, decode through artifacts | ${analysisMs} ms | |
+| ratio | ${ratio} | ≤ 1.6 |
+| peak RSS | ${peakRssMb} MB | ≤ 1024 MB |
+`;
+await writeFile(join(here, 'RESULTS.md'), md);
+if (process.argv.includes('--json')) process.stdout.write(`${JSON.stringify(figures)}\n`);
+else process.stdout.write(`decode ${decodeMs} ms · analysis ${analysisMs} ms · ratio ${ratio} · peak RSS ${peakRssMb} MB\nall runs: decode ${decodes.map(Math.round).join(', ')}; analysis ${analyses.map(Math.round).join(', ')}\n`);
