@@ -4,7 +4,7 @@ import { getEnv } from './lib/env';
 
 // The first gate only: visitors without a session go to sign-in. Every page, action and
 // handler still checks the role itself against the database.
-const PUBLIC = [/^\/sign-in/, /^\/sign-up/, /^\/invite\//, /^\/reset/, /^\/api\/auth\//, /^\/api\/health$/, /^\/api\/patterns\//, /^\/api\/v1\//, /^\/patterns\/show/];
+const PUBLIC = [/^\/sign-in/, /^\/sign-up/, /^\/invite\//, /^\/reset/, /^\/api\/auth\//, /^\/api\/health$/, /^\/api\/password-reset/, /^\/api\/patterns\//, /^\/api\/v1\//, /^\/patterns\/show/];
 
 export async function proxy(req: NextRequest) {
   const { pathname } = req.nextUrl;

@@ -22,6 +22,8 @@ const envSchema = z.object({
   QUEUE_PREFIX: z.string().default('vm'),
   WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(16).default(1),
   VEILMETER_TEST: z.string().optional(),
+  /** Set by the start and test scripts when mail goes to the local catcher: enables the inbox page. */
+  MAIL_CATCHER: z.enum(['0', '1']).default('0'),
 });
 
 export type Env = z.infer<typeof envSchema>;

@@ -1,7 +1,14 @@
 'use server';
 
+import { cookies } from 'next/headers';
 import { ZodError } from 'zod';
-import { hashPassword } from '@/lib/auth/password';
+import { acceptInvitation, findOpenInvitation } from '@/db/queries/invitations';
+import { getUserByEmail } from '@/db/queries/users';
+import { hashPassword, verifyPassword } from '@/lib/auth/password';
+import { LAB_COOKIE } from '@/lib/auth/lab-cookie';
+import { getEnv } from '@/lib/env';
+import { AppError } from '@/lib/errors';
+import { invitationAcceptSchema, newAccountSchema } from '@/lib/schemas/team';
 import type { FormState } from '@/lib/auth/action';
 import { isUniqueViolation, zodFieldErrors } from '@/lib/errors';
 import { signUpSchema } from '@/lib/schemas/user';
@@ -20,5 +27,35 @@ export async function signUpAction(_prev: FormState, form: FormData): Promise<Fo
     if (isUniqueViolation(err)) return { ok: false, fieldErrors: { email: ['An account with this e-mail already exists. Sign in instead.'] } };
     console.error('[veilmeter] sign-up failed', err);
     return { ok: false, message: 'We could not create the account. Try again.' };
+  }
+}
+
+/** Accepts an invitation: signs into the existing account's password, or creates the account. */
+export async function acceptInvitationAction(_prev: FormState, form: FormData): Promise<FormState> {
+  try {
+    const input = invitationAcceptSchema.parse(Object.fromEntries(form.entries()));
+    const inv = await findOpenInvitation(input.token);
+    if (!inv) return { ok: false, message: 'This invitation has been used, withdrawn or has expired. Ask your lab admin for a new one.' };
+    let account: { name: string; password: string } | null = null;
+    if (!inv.accountExists) account = newAccountSchema.parse({ name: input.name ?? '', password: input.password ?? '' });
+    const passwordHash = account ? await hashPassword(account.password) : '';
+    const done = await acceptInvitation(input.token, async (trx, open) => {
+      if (account) {
+        const [u] = await trx('users').insert({ email: open.email, name: account.name, password_hash: passwordHash }).returning<{ id: string }[]>('id');
+        if (!u) throw new Error('user insert failed');
+        return u.id;
+      }
+      const user = await getUserByEmail(open.email);
+      if (!user || !(await verifyPassword(input.password ?? '', user.passwordHash))) throw new AppError(401, 'That password does not match the account of this address', 'bad_password', { password: ['Wrong password for this account'] });
+      return user.id;
+    });
+    if (!done) return { ok: false, message: 'This invitation has been used, withdrawn or has expired. Ask your lab admin for a new one.' };
+    (await cookies()).set(LAB_COOKIE, done.labId, { httpOnly: true, sameSite: 'lax', path: '/', secure: getEnv().NEXTAUTH_URL.startsWith('https://') });
+    return { ok: true, message: inv.email };
+  } catch (err) {
+    if (err instanceof ZodError) return { ok: false, message: 'Check the highlighted fields', fieldErrors: zodFieldErrors(err) };
+    if (err instanceof AppError) return { ok: false, message: err.message, fieldErrors: err.fieldErrors };
+    console.error('[veilmeter] invitation acceptance failed', err);
+    return { ok: false, message: 'We could not accept the invitation. Try again.' };
   }
 }

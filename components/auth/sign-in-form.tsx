@@ -42,12 +42,14 @@ export function SignInForm() {
       <Button type="submit" className="w-full" disabled={busy}>
         {busy ? 'Signing in…' : 'Sign in'}
       </Button>
-      <p className="text-center text-xs text-muted">
-        New here?{' '}
-        <Link href="/sign-up" className="text-beam">
+      <div className="flex justify-between text-xs text-muted">
+        <Link href="/sign-up" className="hover:text-beam">
           Start a lab
         </Link>
-      </p>
+        <Link href="/reset" className="hover:text-beam">
+          Forgot password?
+        </Link>
+      </div>
     </form>
   );
 }

@@ -5,7 +5,7 @@ import { actorWith, type Actor } from './session';
 import type { Permission } from './permissions';
 
 /** What every form action returns: field errors to show beside inputs, or a message. */
-export type FormState = { ok?: boolean; message?: string; fieldErrors?: Record<string, string[]> };
+export type FormState = { ok?: boolean; message?: string; fieldErrors?: Record<string, string[]>; secret?: string };
 
 /**
  * Wraps a server action: session → role from the database → zod → body. The body returns a
@@ -14,14 +14,17 @@ export type FormState = { ok?: boolean; message?: string; fieldErrors?: Record<s
 export function formAction<S extends z.ZodType>(
   permission: Permission,
   schema: S,
-  body: (actor: Actor, input: z.infer<S>, form: FormData) => Promise<string | void>,
+  body: (actor: Actor, input: z.infer<S>, form: FormData) => Promise<string | void | FormState>,
 ) {
-  return async (_prev: FormState, form: FormData): Promise<FormState> => {
+  // Called as (state, form) by useActionState, or as (form) by a plain <form action> and by a
+  // post without JavaScript.
+  return async (prevOrForm: FormState | FormData, maybeForm?: FormData): Promise<FormState> => {
+    const form = maybeForm ?? (prevOrForm instanceof FormData ? prevOrForm : new FormData());
     try {
       const actor = await actorWith(permission);
       const input = schema.parse(Object.fromEntries(form.entries()));
-      const message = await body(actor, input, form);
-      return { ok: true, message: message ?? undefined };
+      const out = await body(actor, input, form);
+      return typeof out === 'object' ? { ok: true, ...out } : { ok: true, message: out ?? undefined };
     } catch (err) {
       if (isNextControlFlow(err)) throw err;
       if (err instanceof ZodError) return { ok: false, message: 'Check the highlighted fields', fieldErrors: zodFieldErrors(err) };

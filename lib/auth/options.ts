@@ -1,6 +1,6 @@
 import type { NextAuthOptions } from 'next-auth';
 import CredentialsProvider from 'next-auth/providers/credentials';
-import { getUserByEmail } from '../../db/queries/users';
+import { getUserByEmail, listMemberships } from '../../db/queries/users';
 import { recordAudit } from '../../db/queries/audit';
 import { getEnv } from '../env';
 import { signInSchema } from '../schemas/user';
@@ -29,7 +29,7 @@ export function getAuthOptions(): NextAuthOptions {
           const user = await getUserByEmail(parsed.data.email);
           if (!user) return verifyNothing(parsed.data.password).then(() => null);
           if (!(await verifyPassword(parsed.data.password, user.passwordHash))) return null;
-          await recordAudit({ labId: null, userId: user.id, action: 'auth.sign-in' });
+          for (const m of await listMemberships(user.id)) await recordAudit({ labId: m.labId, userId: user.id, action: 'auth.sign-in' });
           return { id: user.id, email: user.email, name: user.name };
         },
       }),

@@ -8,7 +8,9 @@ import { AppError, forbidden, unauthorized } from '../errors';
 import { getAuthOptions } from './options';
 import { can, type Permission, type Role } from './permissions';
 
-export const LAB_COOKIE = 'vm-lab';
+import { LAB_COOKIE } from './lab-cookie';
+
+export { LAB_COOKIE };
 
 /** Who is acting, in which lab, with which role: the role always comes from the database. */
 export type Actor = { user: User; labId: string; labName: string; role: Role; memberships: Membership[] };

@@ -19,3 +19,25 @@ export async function signIn(page: Page, email: string, password = DEMO_PASSWORD
   await page.getByRole('button', { name: 'Sign in' }).click();
   await page.waitForURL('**/projects');
 }
+
+/** Waits for the local mail catcher to have saved a message to `to`; returns its text. */
+export async function waitForMail(to: string, subject: RegExp, timeoutMs = 15_000): Promise<{ subject: string; text: string }> {
+  const { readdir, readFile } = await import('node:fs/promises');
+  const dir = `${process.env.DATA_DIR}/mail`;
+  const deadline = Date.now() + timeoutMs;
+  while (Date.now() < deadline) {
+    const files = (await readdir(dir).catch(() => [] as string[])).filter((f) => f.endsWith('.json')).sort().reverse();
+    for (const f of files) {
+      const m = JSON.parse(await readFile(`${dir}/${f}`, 'utf8')) as { to: string[]; subject: string; text: string };
+      if (m.to.includes(to) && subject.test(m.subject)) return m;
+    }
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  throw new Error(`no mail to ${to} matching ${subject} within ${timeoutMs} ms`);
+}
+
+export function linkIn(text: string, path: string): string {
+  const m = new RegExp(`https?://[^\\s]+${path}[^\\s]+`).exec(text);
+  if (!m) throw new Error(`no ${path} link in mail`);
+  return new URL(m[0]).pathname;
+}

@@ -1,0 +1,18 @@
+import { NextResponse } from 'next/server';
+import { listProjects } from '@/db/queries/projects';
+import { listRevisions } from '@/db/queries/revisions';
+import { withToken } from '@/lib/auth/with-token';
+
+/** The token's lab: projects with their revisions, so a rig can find where to upload. */
+export const GET = withToken(
+  async (_req, { actor }) => {
+    const projects = await listProjects(actor.labId);
+    const out = [];
+    for (const p of projects) {
+      const revisions = await listRevisions(actor.labId, p.id);
+      out.push({ id: p.id, name: p.name, revisions: revisions.map((r) => ({ id: r.id, label: r.label, position: r.position, status: r.status })) });
+    }
+    return NextResponse.json({ projects: out });
+  },
+  { scope: 'read', permission: 'project.read' },
+);

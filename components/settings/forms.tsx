@@ -1,0 +1,138 @@
+'use client';
+
+import { useActionState, useEffect, useRef } from 'react';
+import { changeRoleAction, createTokenAction, inviteMemberAction, removeMemberAction, revokeInvitationAction, revokeTokenAction } from '@/app/(lab)/settings/actions';
+import { Button } from '@/components/ui/button';
+import { Field } from '@/components/ui/field';
+import type { FormState } from '@/lib/auth/action';
+import { ROLE_LABELS, ROLES, type Role } from '@/lib/auth/permissions';
+
+function Status({ state }: { state: FormState }) {
+  if (!state.message) return null;
+  return (
+    <span role={state.ok ? 'status' : 'alert'} className={state.ok ? 'text-xs text-pass' : 'text-xs text-fail'}>
+      {state.message}
+    </span>
+  );
+}
+
+function RoleSelect({ name, defaultValue, label }: { name: string; defaultValue?: Role; label: string }) {
+  return (
+    <select name={name} defaultValue={defaultValue} aria-label={label} className="rounded-md border border-line bg-canvas px-2 py-1.5 text-sm text-ink">
+      {ROLES.map((r) => (
+        <option key={r} value={r}>
+          {ROLE_LABELS[r]}
+        </option>
+      ))}
+    </select>
+  );
+}
+
+export function MemberControls({ userId, role, name }: { userId: string; role: Role; name: string }) {
+  const [roleState, roleAction, rolePending] = useActionState<FormState, FormData>(changeRoleAction, {});
+  const [rmState, rmAction, rmPending] = useActionState<FormState, FormData>(removeMemberAction, {});
+  return (
+    <div className="flex flex-wrap items-center gap-2">
+      <form action={roleAction} className="flex items-center gap-2">
+        <input type="hidden" name="userId" value={userId} />
+        <RoleSelect name="role" defaultValue={role} label={`Role of ${name}`} />
+        <Button type="submit" tone="quiet" disabled={rolePending}>
+          Change
+        </Button>
+      </form>
+      <form
+        action={rmAction}
+        onSubmit={(e) => {
+          if (!window.confirm(`Remove ${name} from this lab?`)) e.preventDefault();
+        }}
+      >
+        <input type="hidden" name="userId" value={userId} />
+        <Button type="submit" tone="danger" disabled={rmPending}>
+          Remove
+        </Button>
+      </form>
+      <Status state={roleState.message ? roleState : rmState} />
+    </div>
+  );
+}
+
+export function InviteForm() {
+  const [state, action, pending] = useActionState<FormState, FormData>(inviteMemberAction, {});
+  const ref = useRef<HTMLFormElement>(null);
+  useEffect(() => {
+    if (state.ok) ref.current?.reset();
+  }, [state]);
+  return (
+    <form ref={ref} action={action} className="flex flex-wrap items-end gap-3" noValidate>
+      <Field label="E-mail" name="email" type="email" errors={state.fieldErrors?.email} className="min-w-64 flex-1" />
+      <label className="text-sm">
+        <span className="mb-1 block text-muted">Role</span>
+        <RoleSelect name="role" defaultValue="tester" label="Role" />
+      </label>
+      <Button type="submit" disabled={pending}>
+        {pending ? 'Sending…' : 'Send invitation'}
+      </Button>
+      <Status state={state} />
+    </form>
+  );
+}
+
+export function RevokeInvitationButton({ id }: { id: string }) {
+  const [state, action, pending] = useActionState<FormState, FormData>(revokeInvitationAction, {});
+  return (
+    <form action={action} className="flex items-center gap-2">
+      <input type="hidden" name="id" value={id} />
+      <Button type="submit" tone="quiet" disabled={pending}>
+        Withdraw
+      </Button>
+      <Status state={state} />
+    </form>
+  );
+}
+
+export function CreateTokenForm() {
+  const [state, action, pending] = useActionState<FormState, FormData>(createTokenAction, {});
+  return (
+    <div className="space-y-3">
+      <form action={action} className="flex flex-wrap items-end gap-3" noValidate>
+        <Field label="Token name" name="name" placeholder="e.g. Bench rig 2" errors={state.fieldErrors?.name} className="min-w-64 flex-1" />
+        <fieldset className="flex items-center gap-3 text-sm">
+          <legend className="sr-only">Scopes</legend>
+          <label className="flex items-center gap-1">
+            <input type="checkbox" name="scopeRead" defaultChecked /> read
+          </label>
+          <label className="flex items-center gap-1">
+            <input type="checkbox" name="scopeCapture" defaultChecked /> capture:write
+          </label>
+        </fieldset>
+        <Button type="submit" disabled={pending}>
+          Create token
+        </Button>
+      </form>
+      {state.fieldErrors?.scopes ? <p className="text-xs text-fail">{state.fieldErrors.scopes.join(' ')}</p> : null}
+      {state.secret ? (
+        <div className="rounded-md border border-glow/50 bg-glow/10 p-3 text-sm">
+          <p className="mb-2 text-ink">{state.message}</p>
+          <code data-testid="new-token" className="block break-all rounded bg-canvas px-2 py-1 font-mono text-xs text-glow">
+            {state.secret}
+          </code>
+        </div>
+      ) : (
+        <Status state={state} />
+      )}
+    </div>
+  );
+}
+
+export function RevokeTokenButton({ id }: { id: string }) {
+  const [state, action, pending] = useActionState<FormState, FormData>(revokeTokenAction, {});
+  return (
+    <form action={action} className="flex items-center gap-2">
+      <input type="hidden" name="id" value={id} />
+      <Button type="submit" tone="danger" disabled={pending}>
+        Revoke
+      </Button>
+      <Status state={state} />
+    </form>
+  );
+}

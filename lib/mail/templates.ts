@@ -1,0 +1,22 @@
+import type { Role } from '../auth/permissions';
+import { ROLE_LABELS } from '../auth/permissions';
+import type { Mail } from './transport';
+
+const esc = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
+
+function wrap(title: string, lines: string[], link: { href: string; label: string }): string {
+  return `<!doctype html><html><body style="font-family:system-ui,sans-serif;color:#1b2430">
+<h2 style="margin:0 0 12px">${esc(title)}</h2>${lines.map((l) => `<p>${esc(l)}</p>`).join('')}
+<p><a href="${esc(link.href)}" style="background:#0d8076;color:#fff;padding:8px 14px;border-radius:6px;text-decoration:none">${esc(link.label)}</a></p>
+<p style="color:#5c687a;font-size:12px">Or paste this address into your browser: ${esc(link.href)}</p></body></html>`;
+}
+
+export function invitationMail(to: string, labName: string, role: Role, inviter: string, link: string): Mail {
+  const lines = [`${inviter} invited you to the lab “${labName}” on Veilmeter as ${ROLE_LABELS[role].toLowerCase()}.`, 'The link works once and expires in 7 days.'];
+  return { to, subject: `Join ${labName} on Veilmeter`, text: `${lines.join('\n')}\n\nAccept: ${link}\n`, html: wrap(`Join ${labName}`, lines, { href: link, label: 'Accept the invitation' }) };
+}
+
+export function resetMail(to: string, link: string): Mail {
+  const lines = ['Someone asked to reset the password of this Veilmeter account. If it was not you, ignore this message.', 'The link works once and expires in one hour.'];
+  return { to, subject: 'Reset your Veilmeter password', text: `${lines.join('\n')}\n\nReset: ${link}\n`, html: wrap('Reset your password', lines, { href: link, label: 'Choose a new password' }) };
+}
