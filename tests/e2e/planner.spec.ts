@@ -1,0 +1,213 @@
+import { expect, test, type Page } from '@playwright/test';
+import { closeDb, getDb } from '../../db/index';
+import { formatPercent } from '../../components/stack/format';
+import { applyWhatIf, NO_WHAT_IF } from '../../components/stack/planner-model';
+import { getStackTemplate, predictStack } from '../../lib/optics';
+import { signIn } from './helpers';
+
+// The planner is checked on the demo project's newest revision. Its stored stack is put back
+// afterwards, and every reading made here is removed with its capture set.
+let labId = '';
+let projectId = '';
+let revisionId = '';
+let originalStack: unknown = null;
+const captureSetIds: string[] = [];
+
+const birdbath = getStackTemplate('birdbath').stack;
+
+test.beforeAll(async () => {
+  const db = getDb();
+  const project = await db('projects').where({ name: 'Visor VX birdbath' }).first<{ id: string; lab_id: string }>('id', 'lab_id');
+  projectId = project.id;
+  labId = project.lab_id;
+  const rev = await db('revisions').where({ project_id: projectId, label: 'VX-C' }).first<{ id: string; stack: unknown }>('id', 'stack');
+  revisionId = rev.id;
+  originalStack = rev.stack;
+  await db('revisions').where({ id: revisionId }).update({ stack: JSON.stringify({ elements: [] }) });
+});
+
+test.afterAll(async () => {
+  const db = getDb();
+  if (captureSetIds.length) await db('capture_sets').whereIn('id', captureSetIds).delete();
+  await db('revisions').where({ id: revisionId }).update({ stack: JSON.stringify(originalStack ?? { elements: [] }) });
+  await closeDb();
+});
+
+const stackPage = () => `/projects/${projectId}/revisions/${revisionId}/stack`;
+
+async function storedStack(): Promise<{ elements: Record<string, unknown>[] }> {
+  const row = await getDb()('revisions').where({ id: revisionId }).first<{ stack: { elements: Record<string, unknown>[] } }>('stack');
+  return row.stack;
+}
+
+async function readingsOfRevision(): Promise<number> {
+  const r = await getDb()('readings').where({ revision_id: revisionId }).count<{ count: string }[]>('* as count').first();
+  return Number(r?.count ?? 0);
+}
+
+async function openAs(page: Page, email: string) {
+  await signIn(page, email);
+  await page.goto(stackPage());
+  await expect(page.getByTestId('revision-label')).toContainText('VX-C');
+}
+
+test('a lead applies the birdbath template, sees the predicted budget, tries a what-if, saves and finds it after a reload', async ({ page }) => {
+  await openAs(page, 'lead@example.test');
+  await expect(page.getByText('No stack yet')).toBeVisible();
+  if ((await readingsOfRevision()) === 0) await expect(page.getByTestId('no-readings')).toBeVisible();
+
+  await page.getByLabel('Starting template').selectOption('birdbath');
+  await page.getByRole('button', { name: 'Apply template' }).click();
+  await expect(page.getByTestId('element-3')).toHaveAttribute('data-kind', 'combiner');
+
+  const expected = predictStack(birdbath);
+  // R_bs·R_c·T_bs of the template's 48/48 splitter and R 0.5 combiner.
+  expect(expected.eta).toBeCloseTo(0.48 * 0.5 * 0.48, 10);
+  expect(expected.tau).toBeCloseTo(0.47 * 0.48, 10);
+  await expect(page.getByTestId('pred-eta')).toHaveText(formatPercent(expected.eta));
+  await expect(page.getByTestId('pred-eta')).toHaveText('11.5 %');
+  await expect(page.getByTestId('pred-tau')).toHaveText(formatPercent(expected.tau));
+  await expect(page.getByTestId('pred-ghost-u')).toHaveText(formatPercent(expected.ghost?.unpolarised));
+  await expect(page.getByTestId('pred-ghost-s')).toHaveText(formatPercent(expected.ghost?.s));
+  await expect(page.getByTestId('pred-handedness')).toContainText('not mirrored');
+  await expect(page.getByTestId('contrast-chart').locator('.vm-curve-stack path.recharts-line-curve')).toHaveCount(1);
+  await expect(page.getByTestId('planner-cautions')).toContainText('sun');
+
+  // A slider changes the prediction, not the stack.
+  await page.getByLabel('What-if combiner reflectance R').fill('0.7');
+  const whatIf = predictStack(applyWhatIf(birdbath, { ...NO_WHAT_IF, combinerR: 0.7 }));
+  await expect(page.getByTestId('pred-eta')).toHaveText(formatPercent(whatIf.eta));
+  expect(formatPercent(whatIf.eta)).not.toBe(formatPercent(expected.eta));
+  await expect(page.getByTestId('contrast-chart').locator('.vm-curve-whatif path.recharts-line-curve')).toHaveCount(1);
+  await expect(page.getByTestId('element-3').getByLabel('Reflectance R')).toHaveValue('0.5');
+  expect((await storedStack()).elements).toHaveLength(0);
+
+  await page.getByRole('button', { name: 'Apply to stack' }).click();
+  await expect(page.getByTestId('element-3').getByLabel('Reflectance R')).toHaveValue('0.7');
+  await expect(page.getByTestId('save-state')).toHaveText('Unsaved changes');
+  await page.getByRole('button', { name: 'Save stack' }).click();
+  await expect(page.getByTestId('save-status')).toContainText('saved');
+  const saved = await storedStack();
+  expect(saved.elements.map((e) => e.kind)).toEqual(['display', 'plate-beam-splitter', 'combiner']);
+  expect(saved.elements[2]?.R).toBe(0.7);
+
+  await page.reload();
+  await expect(page.getByTestId('element-3').getByLabel('Reflectance R')).toHaveValue('0.7');
+  await expect(page.getByTestId('save-state')).toHaveText('Saved');
+  await expect(page.getByTestId('pred-eta')).toHaveText(formatPercent(whatIf.eta));
+});
+
+test('R + T above 1 shows a field error beside the input and saves nothing', async ({ page }) => {
+  await getDb()('revisions').where({ id: revisionId }).update({ stack: JSON.stringify(birdbath) });
+  await openAs(page, 'lead@example.test');
+  const splitter = page.getByTestId('element-2');
+  const t = splitter.getByLabel('Transmittance T');
+  await t.fill('0.6');
+  await expect(t).toHaveAttribute('aria-invalid', 'true');
+  await expect(splitter.getByRole('alert')).toContainText('R + T must not exceed 1');
+  await expect(page.getByText('No prediction yet')).toBeVisible();
+  await page.getByRole('button', { name: 'Save stack' }).click();
+  await expect(page.getByTestId('save-status')).toContainText('nothing was saved');
+  expect(await storedStack()).toEqual(birdbath);
+
+  // An index outside 1.0–2.5 is refused the same way.
+  await t.fill('0.48');
+  const n = splitter.getByLabel('Substrate index n');
+  await n.fill('3.1');
+  await expect(splitter.getByRole('alert')).toContainText('between 1.0 and 2.5');
+  await n.fill('1.52');
+  await expect(page.getByTestId('pred-eta')).toHaveText('11.5 %');
+});
+
+test('a viewer sees the stack and the planner read-only, with no way to save', async ({ page }) => {
+  await getDb()('revisions').where({ id: revisionId }).update({ stack: JSON.stringify(birdbath) });
+  await openAs(page, 'viewer@example.test');
+  await expect(page.getByTestId('read-only')).toBeVisible();
+  await expect(page.getByTestId('pred-eta')).toHaveText('11.5 %');
+  await expect(page.getByRole('button', { name: 'Save stack' })).toHaveCount(0);
+  await expect(page.getByRole('button', { name: 'Apply template' })).toHaveCount(0);
+  await expect(page.getByRole('button', { name: /Remove element/ })).toHaveCount(0);
+  const r = page.getByTestId('element-2').getByLabel('Reflectance R');
+  await expect(r).toHaveAttribute('readonly', '');
+  // The sliders still work for a viewer: they change nothing stored.
+  await page.getByLabel('What-if splitter reflectance R').fill('0.3');
+  await expect(page.getByTestId('pred-eta')).not.toHaveText('11.5 %');
+  await expect(page.getByRole('button', { name: 'Apply to stack' })).toHaveCount(0);
+  expect(await storedStack()).toEqual(birdbath);
+});
+
+test('measured readings sit on the curve at their background luminance; one without a background is listed beside it', async ({ page }) => {
+  const db = getDb();
+  await db('revisions').where({ id: revisionId }).update({ stack: JSON.stringify(birdbath) });
+  const pred = predictStack(birdbath);
+  const at = (bg: number) => 1 + (pred.eta * 3000) / (pred.tau * bg);
+  const shots = [
+    { label: 'e2e office', variant: 'no polariser', bg: 200, acr: at(200) * 0.97 },
+    { label: 'e2e window', variant: 'no polariser', bg: 2000, acr: at(2000) * 1.02 },
+    { label: 'e2e unknown light', variant: 'with polariser', bg: null, acr: 2.4 },
+  ];
+  for (const s of shots) {
+    const [cs] = await db('capture_sets').insert({ lab_id: labId, revision_id: revisionId, label: s.label, variant: s.variant, pattern: 'full' }).returning<{ id: string }[]>('id');
+    if (!cs) throw new Error('no capture set');
+    captureSetIds.push(cs.id);
+    // An older analysis of the same shot, at a different background: only the newest may count.
+    for (const [age, bg, acr] of [
+      ['2 hours', 35_000, 1.01],
+      ['1 minute', s.bg, s.acr],
+    ] as const) {
+      const [an] = await db('analyses').insert({ lab_id: labId, capture_set_id: cs.id, status: 'done', engine_version: 'e2e' }).returning<{ id: string }[]>('id');
+      if (!an) throw new Error('no analysis');
+      await db('readings').insert({
+        lab_id: labId,
+        analysis_id: an.id,
+        capture_set_id: cs.id,
+        revision_id: revisionId,
+        project_id: projectId,
+        variant: s.variant,
+        engine_version: 'e2e',
+        ambient_contrast_ratio: acr,
+        ghost_ratio: 0.004,
+        transmission: 0.21,
+        background_cdm2: bg,
+        result: JSON.stringify({}),
+        created_at: db.raw(`now() - interval '${age}'`),
+      });
+    }
+  }
+
+  await openAs(page, 'lead@example.test');
+  const chart = page.getByTestId('contrast-chart');
+  await expect(chart.locator('svg.recharts-surface')).toBeVisible();
+  await expect(chart.locator('.vm-curve-stack path.recharts-line-curve')).toHaveCount(1);
+  const points = chart.getByTestId('measured-point');
+  await expect(points).toHaveCount(2);
+  await expect(page.getByTestId('unplotted-readings')).toContainText('no background luminance recorded');
+  await expect(page.getByTestId('unplotted-readings')).toContainText('with polariser');
+
+  // Placement on the log axis: 200 cd/m² between the 100 and 1k ticks, 2000 between 1k and 10k.
+  const tickX = async (text: string) => {
+    const box = await chart.locator('.recharts-xAxis .recharts-cartesian-axis-tick-value', { hasText: new RegExp(`^${text}$`) }).boundingBox();
+    if (!box) throw new Error(`no tick ${text}`);
+    return box.x + box.width / 2;
+  };
+  const dots = await points.locator('circle').evaluateAll((els) => els.map((e) => ({ cx: Number(e.getAttribute('cx')), cy: Number(e.getAttribute('cy')) })));
+  const svgBox = await chart.locator('svg.recharts-surface').boundingBox();
+  if (!svgBox) throw new Error('no svg');
+  const xs = dots.map((d) => d.cx + svgBox.x).sort((a, b) => a - b);
+  const [x100, x1k, x10k] = [await tickX('100'), await tickX('1k'), await tickX('10k')];
+  const x200 = xs[0] ?? 0;
+  const x2000 = xs[1] ?? 0;
+  expect(x200).toBeGreaterThan(x100);
+  expect(x200).toBeLessThan(x1k);
+  expect(x2000).toBeGreaterThan(x1k);
+  expect(x2000).toBeLessThan(x10k);
+  // log10(200/100) of a decade past the 100 tick.
+  expect((x200 - x100) / (x1k - x100)).toBeCloseTo(Math.log10(2), 1);
+
+  const table = page.getByTestId('comparison-table');
+  const row = table.locator('tr', { hasText: 'VX-C' });
+  await expect(row).toContainText('3');
+  await expect(row).toContainText(formatPercent(pred.tau));
+  await expect(row).toContainText('21.0 %');
+  await page.screenshot({ path: `${test.info().outputDir}/planner.png`, fullPage: true });
+});
