@@ -1,0 +1,104 @@
+import type { Knex } from 'knex';
+import { getDb } from '../index';
+import type { PhotoRole } from '../../lib/schemas/upload';
+import { recordAudit } from './audit';
+
+export type PhotoExif = { exposureTime?: number; fNumber?: number; iso?: number; make?: string; model?: string; lens?: string; takenAt?: string; orientation?: number };
+
+export type Photo = {
+  id: string;
+  captureSetId: string;
+  role: PhotoRole;
+  storageKey: string;
+  previewKey: string | null;
+  sha256: string;
+  bytes: number;
+  width: number;
+  height: number;
+  format: string;
+  bitDepth: number;
+  exif: PhotoExif;
+  originalName: string;
+  createdAt: Date;
+};
+
+type Row = { id: string; capture_set_id: string; role: PhotoRole; storage_key: string; preview_key: string | null; sha256: string; bytes: string | number; width: number; height: number; format: string; bit_depth: number; exif: PhotoExif | null; original_name: string; created_at: Date };
+
+const toPhoto = (r: Row): Photo => ({
+  id: r.id,
+  captureSetId: r.capture_set_id,
+  role: r.role,
+  storageKey: r.storage_key,
+  previewKey: r.preview_key,
+  sha256: r.sha256.trim(),
+  bytes: Number(r.bytes),
+  width: r.width,
+  height: r.height,
+  format: r.format,
+  bitDepth: r.bit_depth,
+  exif: r.exif ?? {},
+  originalName: r.original_name,
+  createdAt: r.created_at,
+});
+
+const ROLE_ORDER = "CASE role WHEN 'on' THEN 1 WHEN 'off' THEN 2 WHEN 'ambient' THEN 3 ELSE 4 END";
+
+export async function listPhotos(labId: string, captureSetId: string, trx: Knex | Knex.Transaction = getDb()): Promise<Photo[]> {
+  const rows: Row[] = await trx('photos').where({ lab_id: labId, capture_set_id: captureSetId }).orderByRaw(`${ROLE_ORDER}, created_at`);
+  return rows.map(toPhoto);
+}
+
+export async function getPhoto(labId: string, id: string): Promise<Photo | null> {
+  const row: Row | undefined = await getDb()('photos').where({ lab_id: labId, id }).first();
+  return row ? toPhoto(row) : null;
+}
+
+/** The photo with this content in the lab, and the capture set that holds it. */
+export async function findPhotoBySha(labId: string, sha256: string): Promise<(Photo & { captureSetLabel: string }) | null> {
+  const row = await getDb()('photos as ph').join('capture_sets as c', 'c.id', 'ph.capture_set_id').where({ 'ph.lab_id': labId, 'ph.sha256': sha256 }).first('ph.*', 'c.label as capture_set_label');
+  return row ? { ...toPhoto(row as Row), captureSetLabel: (row as { capture_set_label: string }).capture_set_label } : null;
+}
+
+export type PhotoWrite = Omit<Photo, 'id' | 'createdAt' | 'captureSetId'>;
+
+/**
+ * Stores a photo for a role, replacing the set's earlier photo of that role (one photo per role);
+ * returns the new photo and the storage keys the replaced one used.
+ */
+export async function putPhoto(labId: string, userId: string, captureSetId: string, p: PhotoWrite): Promise<{ photo: Photo; replacedKeys: string[] }> {
+  return getDb().transaction(async (trx) => {
+    const old: Row[] = await trx('photos').where({ lab_id: labId, capture_set_id: captureSetId, role: p.role }).forUpdate();
+    if (old.length) await trx('photos').whereIn('id', old.map((o) => o.id)).delete();
+    const [row] = await trx('photos')
+      .insert({
+        lab_id: labId,
+        capture_set_id: captureSetId,
+        role: p.role,
+        storage_key: p.storageKey,
+        preview_key: p.previewKey,
+        sha256: p.sha256,
+        bytes: p.bytes,
+        width: p.width,
+        height: p.height,
+        format: p.format,
+        bit_depth: p.bitDepth,
+        exif: JSON.stringify(p.exif),
+        original_name: p.originalName,
+      })
+      .returning<Row[]>('*');
+    if (!row) throw new Error('insert returned nothing');
+    await recordAudit({ labId, userId, action: 'photo.upload', targetType: 'photo', targetId: row.id, details: { captureSetId, role: p.role, bytes: p.bytes } }, trx);
+    const replacedKeys = old.flatMap((o) => [o.storage_key, ...(o.preview_key ? [o.preview_key] : [])]);
+    return { photo: toPhoto(row), replacedKeys };
+  });
+}
+
+/** Returns the storage keys to remove, or null when no such photo is in the lab. */
+export async function deletePhoto(labId: string, userId: string, id: string): Promise<string[] | null> {
+  return getDb().transaction(async (trx) => {
+    const [row] = await trx('photos').where({ lab_id: labId, id }).delete().returning<Row[]>('*');
+    if (!row) return null;
+    await recordAudit({ labId, userId, action: 'photo.delete', targetType: 'photo', targetId: id, details: { role: row.role } }, trx);
+    return [row.storage_key, ...(row.preview_key ? [row.preview_key] : [])];
+  });
+}

@@ -1,0 +1,103 @@
+import { getDb } from '../../db/index';
+import { markAnalysisDone, setAnalysisProgress, startAnalysisRun } from '../../db/queries/analyses';
+import { getCaptureSet } from '../../db/queries/capture-sets';
+import { listPhotos, type Photo } from '../../db/queries/photos';
+import { listRegions } from '../../db/queries/regions';
+import { upsertReading, type ReadingArtifacts } from '../../db/queries/readings';
+import { analyzeFiles, type PhotoSource } from '../../lib/image';
+import { EngineInputError } from '../../lib/photometry/errors';
+import type { PhotoRole } from '../../lib/photometry/types';
+import { artifactKey, getStorage } from '../../lib/storage';
+
+export type RunOutcome = { status: 'done'; readingId: string } | { status: 'skipped' };
+
+/** Progress is written to the row at most this often (or on a stage change), to spare the database. */
+const PROGRESS_EVERY_MS = 400;
+
+/**
+ * One analysis end to end: photos from storage → engine → artifacts to storage → reading upsert
+ * and status done in one transaction. Throws EngineInputError for input the tester must fix.
+ */
+export async function runAnalysis(labId: string, analysisId: string, onProgress?: (percent: number) => void): Promise<RunOutcome> {
+  const analysis = await startAnalysisRun(labId, analysisId);
+  if (!analysis) return { status: 'skipped' };
+  const set = await getCaptureSet(labId, analysis.captureSetId);
+  if (!set) throw new EngineInputError('file-missing', 'the capture set was deleted before it could be analysed');
+  const [photos, regions] = await Promise.all([listPhotos(labId, set.id), listRegions(labId, set.id)]);
+  const byRole = new Map<PhotoRole, Photo>();
+  for (const p of photos) if (!byRole.has(p.role)) byRole.set(p.role, p);
+  for (const role of ['on', 'off'] as const) {
+    if (!byRole.has(role)) throw new EngineInputError('file-missing', `the capture set has no ${role} photo: upload the display-${role} photo, then analyse again`);
+  }
+
+  let lastStage = '';
+  let lastWrite = 0;
+  let pending: Promise<void> = Promise.resolve();
+  const report = (stage: string, percent: number, force = false) => {
+    onProgress?.(percent);
+    const now = Date.now();
+    if (!force && stage === lastStage && now - lastWrite < PROGRESS_EVERY_MS) return;
+    lastStage = stage;
+    lastWrite = now;
+    // chained so writes land in order; a failed progress write must not fail the analysis
+    pending = pending.then(() => setAnalysisProgress(labId, analysisId, stage, percent)).catch(() => undefined);
+  };
+
+  report('loading', 3, true);
+  const storage = getStorage();
+  const load = async (role: PhotoRole): Promise<PhotoSource | null> => {
+    const p = byRole.get(role);
+    if (!p) return null;
+    const bytes = await storage.get(p.storageKey);
+    if (!bytes) throw new EngineInputError('file-missing', `the stored ${role} photo ${p.originalName || ''} is missing: upload it again`);
+    return { name: p.originalName || `${role} photo`, bytes };
+  };
+  const [on, off, ambient, dark] = await Promise.all((['on', 'off', 'ambient', 'dark'] as const).map(load));
+
+  const screen = regions.find((r) => r.kind === 'screen') ?? null;
+  const background = regions.find((r) => r.kind === 'background') ?? null;
+  const ghost = regions.find((r) => r.kind === 'ghost') ?? null;
+  const rect = (r: { x: number; y: number; w: number; h: number } | null) => (r ? { x: r.x, y: r.y, w: r.w, h: r.h } : null);
+  // a marked ghost rectangle is the screen's copy: its offset is what the engine wants
+  const ghostOffset = ghost && screen ? { dx: ghost.x - screen.x, dy: ghost.y - screen.y } : null;
+
+  const { result, artifacts } = await analyzeFiles({
+    on: on as PhotoSource,
+    off: off as PhotoSource,
+    ambient,
+    dark,
+    pattern: set.pattern,
+    screen: rect(screen),
+    background: rect(background),
+    ghostOffset,
+    onProgress: (stage, fraction) => report(stage === 'done' ? 'artifacts' : stage, 5 + 85 * fraction),
+  });
+
+  report('artifacts', 92, true);
+  const stored: ReadingArtifacts = {};
+  if (artifacts) {
+    const lc = artifactKey(labId, analysisId, 'log-contrast');
+    const df = artifactKey(labId, analysisId, 'difference');
+    await Promise.all([storage.put(lc, artifacts.logContrastPng, { contentType: 'image/png' }), storage.put(df, artifacts.differencePng, { contentType: 'image/png' })]);
+    stored.logContrastKey = lc;
+    stored.differenceKey = df;
+    stored.data = artifacts.data as ReadingArtifacts['data'];
+  }
+
+  report('saving', 96, true);
+  await pending;
+  const readingId = await getDb().transaction(async (trx) => {
+    const id = await upsertReading(trx, { labId, analysisId, backgroundCdm2: set.conditions.backgroundCdm2 ?? null, result, artifacts: stored });
+    await markAnalysisDone(labId, analysisId, result.engineVersion, trx);
+    return id;
+  });
+  onProgress?.(100);
+  return { status: 'done', readingId };
+}
+
+/** A one-line message a tester can act on, from the engine's lower-case message. */
+export function testerMessage(message: string): string {
+  const s = message.trim();
+  const sentence = s.charAt(0).toUpperCase() + s.slice(1);
+  return /[.!?]$/.test(sentence) ? sentence : `${sentence}.`;
+}

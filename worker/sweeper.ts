@@ -1,0 +1,32 @@
+import type { Queue } from 'bullmq';
+import { getDb } from '../db/index';
+import { listUnfinishedAnalyses } from '../db/queries/analyses';
+import { addAnalysisJob } from '../lib/queue/jobs';
+import { analysisJobId } from '../lib/queue/names';
+
+/**
+ * Puts back on the queue every unfinished analysis whose job Redis does not have (Redis restarted
+ * without its data, or the web app could not reach it). The table is the truth; the queue is rebuilt
+ * from it. Returns how many were re-enqueued.
+ */
+export async function sweepAnalyses(queue: Queue, graceSeconds: number): Promise<number> {
+  const candidates = await listUnfinishedAnalyses(graceSeconds);
+  let restored = 0;
+  for (const a of candidates) {
+    const job = await queue.getJob(analysisJobId(a.id));
+    if (job) {
+      const state = await job.getState();
+      // a job BullMQ gave up on while the row still says queued: the row catches up
+      if (state === 'failed' && a.status !== 'running') {
+        await getDb()('analyses').where({ lab_id: a.labId, id: a.id }).whereIn('status', ['queued']).update({ status: 'failed', stage: 'failed', error: 'The analysis could not be completed. Run it again.', finished_at: getDb().fn.now() });
+      }
+      continue;
+    }
+    if (a.status === 'running') {
+      await getDb()('analyses').where({ lab_id: a.labId, id: a.id, status: 'running' }).update({ status: 'queued', stage: 'queued', updated_at: getDb().fn.now() });
+    }
+    await addAnalysisJob(queue, { analysisId: a.id, labId: a.labId });
+    restored++;
+  }
+  return restored;
+}
