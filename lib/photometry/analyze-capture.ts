@@ -15,7 +15,7 @@ import { robustSigma } from './percentile';
 import { assertRaster, downsampleFactor } from './raster';
 import { gridCells, intersectRects, translateRect, unionRects } from './rect';
 import { regionMean } from './region-stats';
-import { registerPhotos } from './register';
+import { registerPhotos, registerPlanes } from './register';
 import type { AnalysisMaps, CaptureResult, EngineWarning, GhostAndUniformity, GhostResult } from './result';
 import { scalePlane, shiftPlane, subtractPlanes } from './shift-plane';
 import { uniformity } from './uniformity';
@@ -137,14 +137,23 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
   for (const role of ROLES_AFTER_ON) {
     const p = photos[role];
     if (!p) continue;
-    const r = registerPhotos({
-      reference: on,
-      moving: p.raster,
-      referenceSmall: small.on as Plane,
-      movingSmall: small[role] as Plane,
-      factor,
-      maxShift,
-    });
+    let r: Offset;
+    if (role === 'dark') {
+      // the dark photo shares the display's light with on − off, not the room
+      const o = registration.off as Offset;
+      const dOn = subtractPlanes(small.on as Plane, shiftPlane(small.off as Plane, Math.round(o.dx / factor), Math.round(o.dy / factor)));
+      const rs = registerPlanes(dOn, small.dark as Plane, Math.ceil(maxShift / factor));
+      r = { dx: rs.dx * factor, dy: rs.dy * factor };
+    } else {
+      r = registerPhotos({
+        reference: on,
+        moving: p.raster,
+        referenceSmall: small.on as Plane,
+        movingSmall: small[role] as Plane,
+        factor,
+        maxShift,
+      });
+    }
     const d = { dx: r.dx, dy: r.dy };
     const dist = Math.hypot(d.dx, d.dy);
     if (dist > MAX_SHIFT_SHARE * W) {

@@ -25,7 +25,7 @@ export { detectScreen } from './detect-screen';
 export { fft2d, nextPow2, crossCorrelate, toComplex, multiplyConj } from './fft2d';
 export { phaseCorrelate } from './phase-correlation';
 export { logGradient } from './gradient';
-export { registerPhotos, type RegistrationInput } from './register';
+export { registerPhotos, registerPlanes, type RegistrationInput } from './register';
 export { shiftPlane, subtractPlanes, scalePlane } from './shift-plane';
 export { linearRgbToXyz, chromaticity, xyzToLab, D65_XY, D65_WHITE, type Xyz, type Lab } from './color';
 export { deltaE2000 } from './ciede2000';

@@ -2,6 +2,8 @@ import { luminanceCrop } from './crop';
 import { boxDownsample } from './downsample';
 import { logGradient } from './gradient';
 import { phaseCorrelate } from './phase-correlation';
+import { strided } from './detect-screen';
+import { percentile } from './percentile';
 import type { Offset, Plane, PhotoRaster, Rect } from './types';
 
 export interface RegistrationInput {
@@ -19,6 +21,13 @@ export interface RegistrationInput {
 const COARSE_SIZE = 200;
 const FINE_SIZE = 256;
 
+// a fine peak this low means the window held no shared structure: keep the coarse answer
+const MIN_FINE_PEAK = 0.05;
+
+function trustFine(d0: Offset, fine: Offset & { peak: number }, coarsePeak: number): Offset & { peak: number } {
+  return fine.peak >= MIN_FINE_PEAK ? { dx: d0.dx + fine.dx, dy: d0.dy + fine.dy, peak: fine.peak } : { ...d0, peak: coarsePeak };
+}
+
 function fillNaN(p: Plane): Plane {
   let sum = 0;
   let n = 0;
@@ -28,30 +37,69 @@ function fillNaN(p: Plane): Plane {
   return { data, width: p.width, height: p.height };
 }
 
-// where both photos have texture: the window for the full-resolution step, in coarse pixels
-function texturedWindow(ga: Plane, gb: Plane, shift: Offset, size: number): { x: number; y: number } {
-  const { width: w, height: h } = ga;
-  const s = Math.min(size, w, h);
-  const common = new Float64Array((w + 1) * (h + 1));
+function logPlane(p: Plane): Float32Array {
+  const p99 = percentile(strided(p.data, 50_000), 99);
+  // a higher floor than the correlation's own, so noise in dark areas never looks like corners
+  const floor = p99 > 0 ? 0.05 * p99 : 1e-6;
+  return p.data.map((v) => Math.log((v === v ? Math.max(0, v) : 0) + floor));
+}
+
+function summedArea(w: number, h: number, value: (i: number) => number): Float64Array {
+  const sat = new Float64Array((w + 1) * (h + 1));
   for (let y = 0; y < h; y++) {
     let row = 0;
     for (let x = 0; x < w; x++) {
-      const xb = x + shift.dx;
-      const yb = y + shift.dy;
-      const vb = xb >= 0 && xb < w && yb >= 0 && yb < h ? (gb.data[yb * w + xb] as number) : 0;
-      row += Math.min(ga.data[y * w + x] as number, vb);
-      common[(y + 1) * (w + 1) + x + 1] = (common[y * (w + 1) + x + 1] as number) + row;
+      row += value(y * w + x);
+      sat[(y + 1) * (w + 1) + x + 1] = (sat[y * (w + 1) + x + 1] as number) + row;
     }
   }
+  return sat;
+}
+
+// Window for the full-resolution step, in coarse pixels: the one whose weaker photo has the
+// largest smaller eigenvalue of the gradient structure tensor, i.e. corners in both photos.
+// A window holding one straight edge would leave the shift along that edge undetermined.
+function texturedWindow(a: Plane, b: Plane, shift: Offset, size: number): { x: number; y: number } {
+  const { width: w, height: h } = a;
+  const s = Math.min(size, w, h);
+  const tensors = [a, b].map((p, k) => {
+    const l = logPlane(p);
+    const gx = new Float32Array(w * h);
+    const gy = new Float32Array(w * h);
+    const sx = k === 0 ? 0 : shift.dx;
+    const sy = k === 0 ? 0 : shift.dy;
+    for (let y = 0; y < h; y++) {
+      for (let x = 0; x < w; x++) {
+        // the moving photo is read where the reference pixel's feature lies
+        const u = Math.min(w - 2, Math.max(1, x + sx));
+        const v = Math.min(h - 2, Math.max(1, y + sy));
+        gx[y * w + x] = ((l[v * w + u + 1] as number) - (l[v * w + u - 1] as number)) / 2;
+        gy[y * w + x] = ((l[(v + 1) * w + u] as number) - (l[(v - 1) * w + u] as number)) / 2;
+      }
+    }
+    return [
+      summedArea(w, h, (i) => (gx[i] as number) ** 2),
+      summedArea(w, h, (i) => (gy[i] as number) ** 2),
+      summedArea(w, h, (i) => (gx[i] as number) * (gy[i] as number)),
+    ];
+  });
+  const box = (sat: Float64Array, x: number, y: number): number =>
+    (sat[(y + s) * (w + 1) + x + s] as number) - (sat[y * (w + 1) + x + s] as number) - (sat[(y + s) * (w + 1) + x] as number) + (sat[y * (w + 1) + x] as number);
   let best = -1;
   let bx = 0;
   let by = 0;
-  for (let y = 0; y + s <= h; y++) {
-    for (let x = 0; x + s <= w; x++) {
-      const e =
-        (common[(y + s) * (w + 1) + x + s] as number) - (common[y * (w + 1) + x + s] as number) -
-        (common[(y + s) * (w + 1) + x] as number) + (common[y * (w + 1) + x] as number);
-      if (e > best) { best = e; bx = x; by = y; }
+  const step = Math.max(1, Math.floor(s / 8));
+  for (let y = 0; y + s <= h; y += step) {
+    for (let x = 0; x + s <= w; x += step) {
+      let score = Infinity;
+      for (const [xx, yy, xy] of tensors as [Float64Array, Float64Array, Float64Array][]) {
+        const p = box(xx, x, y);
+        const q = box(yy, x, y);
+        const r = box(xy, x, y);
+        const minEig = (p + q) / 2 - Math.sqrt(((p - q) / 2) ** 2 + r * r);
+        score = Math.min(score, minEig);
+      }
+      if (score > best) { best = score; bx = x; by = y; }
     }
   }
   return { x: bx, y: by };
@@ -77,7 +125,7 @@ export function registerPhotos(input: RegistrationInput): Offset & { peak: numbe
 
   // the window plus the search reach fits one power-of-two transform
   const fineSize = Math.min(FINE_SIZE - (scale + 2), reference.width, reference.height);
-  const win = texturedWindow(ga, gb, coarse, Math.max(1, Math.round(fineSize / scale)));
+  const win = texturedWindow(boxDownsample(referenceSmall, r), boxDownsample(movingSmall, r), coarse, Math.max(1, Math.round(fineSize / scale)));
   const rect: Rect = {
     x: Math.min(reference.width - fineSize, win.x * scale),
     y: Math.min(reference.height - fineSize, win.y * scale),
@@ -87,5 +135,38 @@ export function registerPhotos(input: RegistrationInput): Offset & { peak: numbe
   const fa = logGradient(fillNaN(luminanceCrop(reference, rect, { dx: 0, dy: 0 }, 1).plane));
   const fb = logGradient(fillNaN(luminanceCrop(moving, rect, d0, 1).plane));
   const fine = phaseCorrelate(fa, fb, Math.min(scale + 2, fineSize - 1));
-  return { dx: d0.dx + fine.dx, dy: d0.dy + fine.dy, peak: fine.peak };
+  return trustFine(d0, fine, coarse.peak);
+}
+
+function cropPlane(p: Plane, rect: Rect, offset: Offset): Plane {
+  const out = new Float32Array(rect.w * rect.h).fill(Number.NaN);
+  for (let j = 0; j < rect.h; j++) {
+    const sy = rect.y + j + offset.dy;
+    if (sy < 0 || sy >= p.height) continue;
+    for (let i = 0; i < rect.w; i++) {
+      const sx = rect.x + i + offset.dx;
+      if (sx >= 0 && sx < p.width) out[j * rect.w + i] = p.data[sy * p.width + sx] as number;
+    }
+  }
+  return { data: out, width: rect.w, height: rect.h };
+}
+
+/**
+ * Registration of two planes of the same (downsampled) grid, e.g. a dark photo against the on − off
+ * difference, which share the display's content rather than the room's. Same two steps as
+ * registerPhotos, with the plane itself as the finest level; the result is in the plane's pixels.
+ */
+export function registerPlanes(reference: Plane, moving: Plane, maxShift: number): Offset & { peak: number } {
+  if (reference.width !== moving.width || reference.height !== moving.height) throw new RangeError('planes must have the same size');
+  const r = Math.max(1, Math.ceil(Math.max(reference.width, reference.height) / COARSE_SIZE));
+  const ca = boxDownsample(reference, r);
+  const cb = boxDownsample(moving, r);
+  const coarse = phaseCorrelate(logGradient(ca), logGradient(cb), Math.min(Math.max(1, Math.ceil(maxShift / r) + 1), ca.width, ca.height));
+  if (r === 1) return coarse;
+  const d0: Offset = { dx: coarse.dx * r, dy: coarse.dy * r };
+  const size = Math.min(FINE_SIZE - (r + 2), reference.width, reference.height);
+  const win = texturedWindow(ca, cb, coarse, Math.max(1, Math.round(size / r)));
+  const rect: Rect = { x: Math.min(reference.width - size, win.x * r), y: Math.min(reference.height - size, win.y * r), w: size, h: size };
+  const fine = phaseCorrelate(logGradient(fillNaN(cropPlane(reference, rect, { dx: 0, dy: 0 }))), logGradient(fillNaN(cropPlane(moving, rect, d0))), Math.min(r + 2, size - 1));
+  return trustFine(d0, fine, coarse.peak);
 }

@@ -9,7 +9,7 @@ describe('exposure normalisation — ISO 2720:1974, ISO 12232 (published; values
   });
 
   it('scales every photo onto the on photo: E_on / E_photo', () => {
-    const { scales, known } = exposureScales(
+    const { scales, known } = exposureScales<'on' | 'off'>(
       { on: { exposureTime: 1 / 100, fNumber: 8, iso: 100 }, off: { exposureTime: 1 / 50, fNumber: 5.6, iso: 200 } },
       'on',
     );
@@ -19,7 +19,7 @@ describe('exposure normalisation — ISO 2720:1974, ISO 12232 (published; values
   });
 
   it('assumes equal exposure and reports which photo lacks EXIF', () => {
-    const r = exposureScales({ on: { exposureTime: 0.01, fNumber: 8, iso: 100 }, off: { fNumber: 8 } }, 'on');
+    const r = exposureScales<'on' | 'off'>({ on: { exposureTime: 0.01, fNumber: 8, iso: 100 }, off: { fNumber: 8 } }, 'on');
     expect(r.known).toBe(false);
     expect(r.missing).toEqual(['off']);
     expect(r.scales).toEqual({ on: 1, off: 1 });
