@@ -1,5 +1,6 @@
 import { notFound } from 'next/navigation';
 import { DeleteProjectForm, RenameProjectForm } from '@/components/projects/project-forms';
+import { CreateRevisionForm } from '@/components/revisions/revision-forms';
 import { DataTable } from '@/components/ui/data-table';
 import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
 import { getProject } from '@/db/queries/projects';
@@ -33,6 +34,7 @@ export default async function ProjectPage({ params }: { params: Promise<{ projec
             ]}
             rows={revisions.map((r) => ({
               id: r.id,
+              href: `/projects/${project.id}/revisions/${r.id}`,
               cells: {
                 label: { text: r.label },
                 position: { text: String(r.position), sort: r.position },
@@ -44,6 +46,11 @@ export default async function ProjectPage({ params }: { params: Promise<{ projec
             empty={<EmptyState title="No revisions yet">Revisions are the builds of this optical stack, in order.</EmptyState>}
           />
         </Panel>
+        {can(actor.role, 'revision.write') ? (
+          <Panel title="New revision">
+            <CreateRevisionForm projectId={project.id} />
+          </Panel>
+        ) : null}
         {can(actor.role, 'project.write') || can(actor.role, 'project.delete') ? (
           <Panel title="Project settings">
             <div className="space-y-6">

@@ -1,0 +1,83 @@
+import Link from 'next/link';
+import { notFound } from 'next/navigation';
+import { CreateCaptureSetForm } from '@/components/capture/capture-set-form';
+import { EditRevisionForm } from '@/components/revisions/revision-forms';
+import { DataTable } from '@/components/ui/data-table';
+import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
+import { listCaptureSets } from '@/db/queries/capture-sets';
+import { getRevision } from '@/db/queries/revision-edits';
+import { can } from '@/lib/auth/permissions';
+import { requireActor } from '@/lib/auth/session';
+import { uuidSchema } from '@/lib/schemas/common';
+
+const STATUS_TEXT: Record<string, string> = { queued: 'Queued', running: 'Running', done: 'Measured', failed: 'Failed' };
+
+export default async function RevisionPage({ params }: { params: Promise<{ projectId: string; revisionId: string }> }) {
+  const { projectId, revisionId } = await params;
+  const actor = await requireActor();
+  if (!uuidSchema.safeParse(revisionId).success) notFound();
+  const revision = await getRevision(actor.labId, revisionId);
+  if (!revision || revision.projectId !== projectId) notFound();
+  const sets = await listCaptureSets(actor.labId, revision.id);
+
+  return (
+    <>
+      <PageTitle
+        kicker={
+          <Link href={`/projects/${projectId}`} className="hover:text-beam">
+            {revision.projectName} · revision
+          </Link>
+        }
+        title={<span data-testid="revision-label">{revision.label}</span>}
+      >
+        <Link href={`/projects/${projectId}/revisions/${revision.id}/stack`} className="rounded-md border border-line bg-raised px-3 py-1.5 text-sm text-ink hover:border-beam/60">
+          Stack &amp; planner
+        </Link>
+      </PageTitle>
+      <p className="-mt-4 mb-6 text-sm text-muted">
+        #{revision.position} · {revision.status} · built {revision.builtOn ?? 'not yet'}
+        {revision.notes ? ` · ${revision.notes}` : ''}
+      </p>
+      <div className="space-y-6">
+        <Panel title="Capture sets">
+          <DataTable
+            csvName={`${revision.label}-capture-sets`}
+            columns={[
+              { key: 'label', label: 'Capture set' },
+              { key: 'variant', label: 'Variant' },
+              { key: 'pattern', label: 'Pattern' },
+              { key: 'photos', label: 'Photos', numeric: true },
+              { key: 'lux', label: 'Ambient (lx)', numeric: true },
+              { key: 'status', label: 'Analysis' },
+              { key: 'acr', label: 'Contrast ratio', numeric: true },
+            ]}
+            rows={sets.map((s) => ({
+              id: s.id,
+              href: `/captures/${s.id}`,
+              cells: {
+                label: { text: s.label },
+                variant: { text: s.variant || '—', sort: s.variant },
+                pattern: { text: s.pattern === 'full' ? 'full white' : 'checkerboard' },
+                photos: { text: `${s.photoCount} (${s.roles.join(', ') || 'none'})`, sort: s.photoCount },
+                lux: { text: s.conditions.ambientLux !== undefined ? String(s.conditions.ambientLux) : '—', sort: s.conditions.ambientLux ?? null },
+                status: { text: s.latestStatus ? (STATUS_TEXT[s.latestStatus] ?? s.latestStatus) : 'not analysed', sort: s.latestStatus },
+                acr: { text: s.latestAcr !== null ? s.latestAcr.toFixed(3) : '—', sort: s.latestAcr },
+              },
+            }))}
+            empty={<EmptyState title="No capture sets yet">A capture set is one shot of the eyepiece view: on, off and ambient photos under stated conditions.</EmptyState>}
+          />
+        </Panel>
+        {can(actor.role, 'capture.write') ? (
+          <Panel title="New capture set">
+            <CreateCaptureSetForm revisionId={revision.id} />
+          </Panel>
+        ) : null}
+        {can(actor.role, 'revision.write') ? (
+          <Panel title="Revision details">
+            <EditRevisionForm revision={{ id: revision.id, label: revision.label, builtOn: revision.builtOn, position: revision.position, notes: revision.notes, status: revision.status }} />
+          </Panel>
+        ) : null}
+      </div>
+    </>
+  );
+}

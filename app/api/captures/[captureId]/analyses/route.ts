@@ -1,0 +1,30 @@
+import { NextResponse } from 'next/server';
+import { listAnalyses } from '@/db/queries/analyses';
+import { listPhotos } from '@/db/queries/photos';
+import { withAuth } from '@/lib/auth/with-auth';
+import { AppError } from '@/lib/errors';
+import { requestAnalysis } from '@/lib/queue/producer';
+import { captureSetOr404 } from '../../lookup';
+
+type P = { captureId: string };
+
+export const GET = withAuth<P>(
+  async (_req, { actor, params }) => {
+    const set = await captureSetOr404(actor.labId, params.captureId);
+    return NextResponse.json({ analyses: await listAnalyses(actor.labId, set.id) });
+  },
+  { permission: 'capture.read' },
+);
+
+export const POST = withAuth<P>(
+  async (_req, { actor, params }) => {
+    const set = await captureSetOr404(actor.labId, params.captureId);
+    const roles = new Set((await listPhotos(actor.labId, set.id)).map((p) => p.role));
+    const missing = (['on', 'off'] as const).filter((r) => !roles.has(r));
+    if (missing.length) throw new AppError(422, `Upload the ${missing.join(' and ')} photo${missing.length > 1 ? 's' : ''} before analysing`, 'no_photo');
+    const { analysis, enqueued } = await requestAnalysis(actor.labId, actor.user.id, set.id);
+    const message = enqueued ? 'Analysis queued' : 'The job queue is not reachable right now. The analysis is saved and will start as soon as the queue is back.';
+    return NextResponse.json({ analysis, enqueued, message }, { status: 202 });
+  },
+  { permission: 'analysis.run' },
+);

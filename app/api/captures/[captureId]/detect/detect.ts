@@ -1,0 +1,22 @@
+import 'server-only';
+import { decodePhoto } from '@/lib/image';
+import { detectScreen, downsampleFactor, MAP_MAX_WIDTH, preparePhoto, robustSigma, subtractPlanes } from '@/lib/photometry';
+import type { Rect } from '@/lib/photometry/types';
+
+/**
+ * The engine's screen detection on the downsampled on − off difference, scaled back to full
+ * resolution. Coarse on purpose: the editor shows it for the tester to adjust, and the worker
+ * measures inside whatever is saved.
+ */
+export async function detectScreenRect(on: Uint8Array, off: Uint8Array): Promise<Rect | null> {
+  const [a, b] = await Promise.all([decodePhoto(on, { name: 'the on photo' }), decodePhoto(off, { name: 'the off photo' })]);
+  const width = a.raster.width;
+  const height = a.raster.height;
+  const diff = subtractPlanes(preparePhoto(a.raster), preparePhoto(b.raster));
+  const found = detectScreen(diff, robustSigma(diff.data));
+  if (!found) return null;
+  const f = downsampleFactor(width, MAP_MAX_WIDTH);
+  const x = Math.min(width - 1, found.x * f);
+  const y = Math.min(height - 1, found.y * f);
+  return { x, y, w: Math.max(1, Math.min(width - x, found.w * f)), h: Math.max(1, Math.min(height - y, found.h * f)) };
+}

@@ -1,0 +1,7 @@
+import { withAuth } from '@/lib/auth/with-auth';
+import { servePhoto } from '../serve';
+
+export const GET = withAuth<{ captureId: string; photoId: string }>(
+  async (_req, { actor, params }) => servePhoto(actor.labId, params.captureId, params.photoId, 'original'),
+  { permission: 'capture.read' },
+);
