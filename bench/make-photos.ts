@@ -2,13 +2,13 @@
 // generator's memory does not count in the engine's peak RSS).
 import { writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { renderCapture } from '../tests/fixtures/capture-generator';
+import { renderCapturePhotos } from '../tests/fixtures/capture-generator';
 
 const dir = process.argv[2];
 if (!dir) throw new Error('usage: make-photos DIR');
 const W = 6000;
 const H = 4000;
-const c = await renderCapture({
+const c = await renderCapturePhotos({
   width: W,
   height: H,
   seed: 6000,
@@ -16,7 +16,6 @@ const c = await renderCapture({
   ghost: { gain: 0.03, dx: 48, dy: 30 },
   shifts: { off: { dx: 6, dy: -3 }, ambient: { dx: -5, dy: 4 } },
   quality: 90,
-  truth: false,
 });
 await Promise.all([
   writeFile(join(dir, 'on.jpg'), c.on),
