@@ -30,7 +30,7 @@ import { WhatIfSliders } from './what-if-sliders';
 
 const TEMPLATES = listStackTemplates();
 
-function Figure({ testId, label, value, reference, help }: { testId: string; label: string; value: string; reference?: string | null; help?: string }) {
+function Figure({ testId, label, value, reference, help }: { testId: string; label: React.ReactNode; value: string; reference?: string | null; help?: string }) {
   return (
     <div className="rounded-md border border-line bg-canvas/60 px-3 py-2">
       <dt className="text-xs uppercase tracking-wider text-muted" title={help}>
@@ -43,6 +43,9 @@ function Figure({ testId, label, value, reference, help }: { testId: string; lab
     </div>
   );
 }
+
+// Uppercase labels would turn η and τ into look-alikes of H and T.
+const Sym = ({ children }: { children: string }) => <span className="font-serif text-sm normal-case">{children}</span>;
 
 function handednessText(p: StackPrediction): string {
   const n = p.reflections;
@@ -60,8 +63,8 @@ function PredictionFigures({ shown, base }: { shown: StackPrediction; base: Stac
   const g = shown.ghost;
   return (
     <dl className="grid grid-cols-2 gap-2 sm:grid-cols-3">
-      <Figure testId="pred-eta" label="Display efficiency η" value={eta} reference={ref(eta, base ? formatPercent(base.eta) : undefined)} help="Share of the display's light that reaches the eye" />
-      <Figure testId="pred-tau" label="See-through τ" value={tau} reference={ref(tau, base ? formatPercent(base.tau) : undefined)} help="Share of the world's light that reaches the eye" />
+      <Figure testId="pred-eta" label={<>Display efficiency <Sym>η</Sym></>} value={eta} reference={ref(eta, base ? formatPercent(base.eta) : undefined)} help="Share of the display's light that reaches the eye" />
+      <Figure testId="pred-tau" label={<>See-through <Sym>τ</Sym></>} value={tau} reference={ref(tau, base ? formatPercent(base.tau) : undefined)} help="Share of the world's light that reaches the eye" />
       <Figure testId="pred-at-eye" label="Display at the eye" value={atEye} reference={ref(atEye, base ? formatLuminance(base.displayAtEye) : undefined)} />
       <Figure testId="pred-ghost-s" label="Ghost ratio, s" value={g ? formatPercent(g.s) : 'no splitter'} />
       <Figure testId="pred-ghost-p" label="Ghost ratio, p" value={g ? formatPercent(g.p) : 'no splitter'} />

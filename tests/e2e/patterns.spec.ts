@@ -81,7 +81,7 @@ test('the generator refuses a bad custom size beside the input, previews a good 
   await expect(page.getByTestId('pattern-cautions')).toContainText('laser');
 
   await page.getByLabel('Pattern').selectOption('checkerboard');
-  await page.getByLabel('Size').selectOption('640x480');
+  await page.getByLabel('Size', { exact: true }).selectOption('640x480');
   await page.getByRole('button', { name: 'Update preview' }).click();
   await expect(page.getByTestId('pattern-title')).toHaveText('4 × 4 checkerboard · 640 × 480');
   await page.getByRole('link', { name: 'Show fullscreen' }).click();
