@@ -79,8 +79,9 @@ test('the generator refuses a bad custom size beside the input, previews a good 
   await expect(page.getByRole('link', { name: 'Download PNG' })).toHaveAttribute('href', '/api/patterns/grey-steps.png?width=1000&height=600');
   await expect(page.getByTestId('pattern-guide')).toContainText('Camera linearity check');
   await expect(page.getByTestId('pattern-cautions')).toContainText('laser');
+  await page.screenshot({ path: `${test.info().outputDir}/patterns.png`, fullPage: true });
 
-  await page.getByLabel('Pattern').selectOption('checkerboard');
+  await page.getByLabel('Pattern', { exact: true }).selectOption('checkerboard');
   await page.getByLabel('Size', { exact: true }).selectOption('640x480');
   await page.getByRole('button', { name: 'Update preview' }).click();
   await expect(page.getByTestId('pattern-title')).toHaveText('4 × 4 checkerboard · 640 × 480');

@@ -117,6 +117,18 @@ test('R + T above 1 shows a field error beside the input and saves nothing', asy
   await expect(splitter.getByRole('alert')).toContainText('between 1.0 and 2.5');
   await n.fill('1.52');
   await expect(page.getByTestId('pred-eta')).toHaveText('11.5 %');
+
+  // A template over a non-empty stack asks first; declining keeps the stack as it is.
+  await page.getByLabel('Starting template').selectOption('birdbath-polariser');
+  page.once('dialog', (d) => void d.dismiss());
+  await page.getByRole('button', { name: 'Apply template' }).click();
+  await expect(page.getByTestId('element-4')).toHaveCount(0);
+  page.once('dialog', (d) => void d.accept());
+  await page.getByRole('button', { name: 'Apply template' }).click();
+  await expect(page.getByTestId('element-4')).toHaveAttribute('data-kind', 'linear-polariser');
+  const withPolariser = predictStack(getStackTemplate('birdbath-polariser').stack);
+  await expect(page.getByTestId('pred-tau')).toHaveText(formatPercent(withPolariser.tau));
+  expect(await storedStack()).toEqual(birdbath);
 });
 
 test('a viewer sees the stack and the planner read-only, with no way to save', async ({ page }) => {

@@ -67,7 +67,7 @@ export default async function PatternsPage({ searchParams }: { searchParams: Pro
             <form method="get" action="/patterns" className="grid gap-4 sm:grid-cols-2" noValidate>
               <label className="block text-sm">
                 <span className="mb-1 block text-muted">Pattern</span>
-                <select name="kind" defaultValue={kind} className="w-full rounded-md border border-line bg-canvas px-3 py-2 text-ink">
+                <select name="kind" aria-label="Pattern" defaultValue={kind} className="w-full rounded-md border border-line bg-canvas px-3 py-2 text-ink">
                   {PATTERN_KINDS.map((k) => (
                     <option key={k} value={k}>
                       {PATTERN_INFO[k].name}
@@ -77,7 +77,7 @@ export default async function PatternsPage({ searchParams }: { searchParams: Pro
               </label>
               <label className="block text-sm">
                 <span className="mb-1 block text-muted">Size</span>
-                <select name="preset" defaultValue={custom ? 'custom' : preset?.id} className="w-full rounded-md border border-line bg-canvas px-3 py-2 text-ink">
+                <select name="preset" aria-label="Size" defaultValue={custom ? 'custom' : preset?.id} className="w-full rounded-md border border-line bg-canvas px-3 py-2 text-ink">
                   {PATTERN_PRESETS.map((p) => (
                     <option key={p.id} value={p.id}>
                       {p.label}
