@@ -1,0 +1,90 @@
+import Link from 'next/link';
+import { notFound } from 'next/navigation';
+import { AnalysisRunner } from '@/components/capture/analysis-runner';
+import { ProtocolChecklist } from '@/components/capture/protocol-checklist';
+import { QueryProvider } from '@/components/capture/query-provider';
+import { ReadingsPanel } from '@/components/capture/readings-panel';
+import { RegionEditor } from '@/components/capture/region-editor';
+import { UploadPanel } from '@/components/capture/upload-panel';
+import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
+import { listAnalyses } from '@/db/queries/analyses';
+import { getCaptureSet } from '@/db/queries/capture-sets';
+import { listPhotos } from '@/db/queries/photos';
+import { getLatestReading, getReadingForAnalysis } from '@/db/queries/readings';
+import { listRegions } from '@/db/queries/regions';
+import { can } from '@/lib/auth/permissions';
+import { requireActor } from '@/lib/auth/session';
+import { uuidSchema } from '@/lib/schemas/common';
+
+export default async function CapturePage({ params, searchParams }: { params: Promise<{ captureId: string }>; searchParams: Promise<{ analysis?: string }> }) {
+  const { captureId } = await params;
+  const { analysis: wanted } = await searchParams;
+  const actor = await requireActor();
+  if (!uuidSchema.safeParse(captureId).success) notFound();
+  const set = await getCaptureSet(actor.labId, captureId);
+  if (!set) notFound();
+  const [photos, regions, analyses] = await Promise.all([listPhotos(actor.labId, set.id), listRegions(actor.labId, set.id), listAnalyses(actor.labId, set.id)]);
+  const selected = wanted && uuidSchema.safeParse(wanted).success ? await getReadingForAnalysis(actor.labId, wanted) : null;
+  const reading = selected ?? (await getLatestReading(actor.labId, set.id));
+  const on = photos.find((p) => p.role === 'on');
+  const hasOff = photos.some((p) => p.role === 'off');
+  const canWrite = can(actor.role, 'capture.write');
+  const c = set.conditions;
+  const conditions = [
+    c.ambientLux !== undefined ? `${c.ambientLux} lx ambient` : null,
+    c.backgroundCdm2 !== undefined ? `${c.backgroundCdm2} cd/m² background` : null,
+    c.displayLevel ? `display ${c.displayLevel}` : null,
+    set.pattern === 'full' ? 'full-white pattern' : '4 × 4 checkerboard',
+  ].filter(Boolean);
+
+  return (
+    <QueryProvider>
+      <PageTitle
+        kicker={
+          <Link href={`/projects/${set.projectId}/revisions/${set.revisionId}`} className="hover:text-beam">
+            {set.projectName} · {set.revisionLabel} · capture set
+          </Link>
+        }
+        title={<span data-testid="capture-label">{set.label}</span>}
+      />
+      <p className="-mt-4 mb-6 text-sm text-muted">
+        {set.variant ? <span className="mr-2 rounded bg-raised px-1.5 py-0.5 text-ink">{set.variant}</span> : null}
+        {conditions.join(' · ')}
+        {set.notes ? ` · ${set.notes}` : ''}
+      </p>
+      <div className="space-y-6">
+        <div className="grid gap-6 xl:grid-cols-[1fr_22rem]">
+          <Panel title="Photos">
+            <UploadPanel
+              captureSetId={set.id}
+              canWrite={canWrite}
+              photos={photos.map((p) => ({ id: p.id, role: p.role, originalName: p.originalName, width: p.width, height: p.height, bytes: p.bytes, format: p.format, bitDepth: p.bitDepth, exif: p.exif }))}
+            />
+          </Panel>
+          <Panel title="Capture protocol">
+            <ProtocolChecklist />
+          </Panel>
+        </div>
+        <Panel title="Regions">
+          {on ? (
+            <RegionEditor key={`${on.id}-${regions.map((r) => `${r.kind}${r.x},${r.y},${r.w},${r.h}`).join(';')}`} captureSetId={set.id} photo={{ id: on.id, width: on.width, height: on.height }} initial={regions} canWrite={canWrite} />
+          ) : (
+            <EmptyState title="No on photo yet">The regions are drawn on the display-on photo, in its full-resolution pixels.</EmptyState>
+          )}
+        </Panel>
+        <Panel title="Reading">
+          <div className="space-y-5">
+            <AnalysisRunner
+              captureSetId={set.id}
+              current={analyses[0]?.id ?? null}
+              canRun={can(actor.role, 'analysis.run')}
+              ready={!!on && hasOff}
+              readyHint="Upload the on and off photos first."
+            />
+            <ReadingsPanel reading={reading} analyses={analyses} captureSetId={set.id} selectedId={reading?.analysisId ?? null} />
+          </div>
+        </Panel>
+      </div>
+    </QueryProvider>
+  );
+}

@@ -1,0 +1,86 @@
+'use client';
+
+import clsx from 'clsx';
+import { useRouter } from 'next/navigation';
+import { useEffect, useRef, useState } from 'react';
+import { Button } from '@/components/ui/button';
+import { useAnalysisStatus, useStartAnalysis } from '@/lib/hooks/use-analysis';
+
+/** "Analyse" and the live progress of the newest analysis; the page reloads its readings when it ends. */
+export function AnalysisRunner({ captureSetId, current, canRun, ready, readyHint }: { captureSetId: string; current: string | null; canRun: boolean; ready: boolean; readyHint: string }) {
+  const router = useRouter();
+  const [analysisId, setAnalysisId] = useState<string | null>(current);
+  const [notice, setNotice] = useState<string | null>(null);
+  const [error, setError] = useState<string | null>(null);
+  const start = useStartAnalysis(captureSetId);
+  const status = useAnalysisStatus(analysisId);
+  const a = status.data?.analysis;
+  const finished = useRef<string | null>(null);
+
+  useEffect(() => {
+    if (!a || (a.status !== 'done' && a.status !== 'failed')) return;
+    if (finished.current === a.id) return;
+    finished.current = a.id;
+    router.refresh();
+  }, [a, router]);
+
+  const busy = a?.status === 'queued' || a?.status === 'running';
+  const percent = a ? (a.status === 'done' ? 100 : a.progress) : 0;
+
+  return (
+    <div className="space-y-3">
+      {canRun ? (
+        <div className="flex flex-wrap items-center gap-3">
+          <Button
+            type="button"
+            disabled={!ready || start.isPending || busy}
+            onClick={async () => {
+              setError(null);
+              setNotice(null);
+              try {
+                const out = await start.mutateAsync();
+                finished.current = null;
+                setAnalysisId(out.analysis.id);
+                if (!out.enqueued) setNotice(out.message);
+              } catch (e) {
+                setError((e as Error).message);
+              }
+            }}
+          >
+            {start.isPending ? 'Queuing…' : busy ? 'Analysing…' : current ? 'Analyse again' : 'Analyse'}
+          </Button>
+          {!ready ? <span className="text-xs text-muted">{readyHint}</span> : null}
+        </div>
+      ) : null}
+      {notice ? (
+        <p role="status" className="rounded-md border border-warn/50 bg-warn/10 px-3 py-2 text-sm text-ink">
+          {notice}
+        </p>
+      ) : null}
+      {error ? (
+        <p role="alert" className="text-sm text-fail">
+          {error}
+        </p>
+      ) : null}
+      {a ? (
+        <div data-testid="analysis-progress" data-status={a.status}>
+          <div className="mb-1 flex justify-between text-xs">
+            <span className={clsx(a.status === 'failed' ? 'text-fail' : a.status === 'done' ? 'text-pass' : 'text-ink')}>
+              {a.status === 'failed' ? 'Analysis failed' : a.stageLabel}
+              {a.attempts > 1 && a.status !== 'done' ? ` (try ${a.attempts})` : ''}
+            </span>
+            <span className="font-mono text-muted">{percent}%</span>
+          </div>
+          <div className="h-2 overflow-hidden rounded bg-raised" role="progressbar" aria-label="Analysis progress" aria-valuemin={0} aria-valuemax={100} aria-valuenow={percent}>
+            <div className={clsx('h-full transition-[width] duration-500', a.status === 'failed' ? 'bg-fail' : a.status === 'done' ? 'bg-pass' : 'bg-beam')} style={{ width: `${a.status === 'failed' ? 100 : percent}%` }} />
+          </div>
+          {a.status === 'failed' && a.error ? (
+            <p role="alert" className="mt-2 text-sm text-fail" data-testid="analysis-error">
+              {a.error}
+            </p>
+          ) : null}
+        </div>
+      ) : null}
+    </div>
+  );
+}

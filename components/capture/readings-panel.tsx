@@ -1,0 +1,169 @@
+import Link from 'next/link';
+import { DataTable } from '@/components/ui/data-table';
+import { Notice } from '@/components/ui/panel';
+import type { AnalysisWithReading } from '@/db/queries/analyses';
+import type { Reading } from '@/db/queries/readings';
+import type { WarningCode } from '@/lib/photometry/result';
+
+type Metric = { key: string; label: string; value: string; unit: string; definition: string };
+
+const f = (v: number | null | undefined, digits = 3) => (typeof v === 'number' && Number.isFinite(v) ? v.toFixed(digits) : '—');
+const pct = (v: number | null | undefined, digits = 2) => (typeof v === 'number' && Number.isFinite(v) ? (v * 100).toFixed(digits) : '—');
+
+const ADVICE: Record<WarningCode, string> = {
+  clipped: 'Lower the exposure (or bracket) and shoot again: clipped pixels make the contrast look lower than it is.',
+  shifted: 'The camera moved a little between photos; the photos were aligned, but a firmer tripod gives cleaner numbers.',
+  'exposure-unknown': 'Use a camera that writes exposure time, f-number and ISO, and keep them fixed; otherwise exposures are assumed equal.',
+  'transmission-over-screen': 'Mark a background region away from the screen for a cleaner transmission and tint.',
+  'checkerboard-unclear': 'Check that the 4 × 4 checkerboard fills the marked screen exactly and that the pattern setting matches.',
+  'low-signal': 'The display light is weak against the noise: raise the display level or the exposure.',
+  'ghost-band-clipped': 'The ghost band reaches the photo edge: centre the view or mark the ghost by hand.',
+  'calibration-needs-exposure': 'Absolute luminance needs EXIF exposure data in every photo.',
+};
+
+function metrics(r: Reading): Metric[] {
+  const res = r.result;
+  const abs = res.absoluteLuminance;
+  const out: Metric[] = [
+    { key: 'acr', label: 'Ambient contrast ratio', value: f(res.ambientContrastRatio), unit: ': 1', definition: 'L on / L off over the screen: (display + background) / background.' },
+    { key: 'michelson', label: 'Michelson contrast', value: f(res.michelson, 4), unit: '', definition: res.pattern === 'checkerboard' ? '(Lw − Lb)/(Lw + Lb) of the checkerboard cells.' : '(L on − L off)/(L on + L off) over the screen.' },
+    { key: 'ansi', label: 'Checkerboard contrast', value: f(res.ansiContrast, 2), unit: ': 1', definition: 'Mean of 8 white cells / mean of 8 black cells, each over its central half (4 × 4 pattern only).' },
+    { key: 'uniformity', label: 'Uniformity', value: f(res.uniformity), unit: 'min/max', definition: 'Dimmest over brightest of the 3 × 3 cells of display light; 1.000 is perfect (full-white pattern).' },
+    { key: 'ghost', label: 'Ghost ratio', value: res.ghost ? pct(res.ghost.ratio) : 'none found', unit: res.ghost ? `% at (${res.ghost.dx}, ${res.ghost.dy}) px` : '', definition: 'Ghost luminance over the primary image, second-order corrected; offset is ghost minus screen position.' },
+    { key: 'transmission', label: 'See-through transmission', value: pct(res.transmission, 1), unit: '%', definition: 'L off / L ambient over the background region: how much of the world comes through.' },
+    { key: 'tint', label: 'Tint ΔE00', value: res.tint ? f(res.tint.deltaE00, 2) : '—', unit: res.tint ? `Δxy (${f(res.tint.dx, 4)}, ${f(res.tint.dy, 4)})` : '', definition: 'Colour shift of the world through the optics at equal luminance (CIEDE2000), and the chromaticity shift.' },
+    { key: 'lon', label: 'Luminance, display on', value: f(res.luminance.on, 4), unit: 'relative', definition: 'Mean linear Y over the screen, on the on photo’s exposure (sRGB white = 1).' },
+    { key: 'loff', label: 'Luminance, display off', value: f(res.luminance.off, 4), unit: 'relative', definition: 'The see-through background behind the screen.' },
+    { key: 'lamb', label: 'Luminance, without optics', value: f(res.luminance.ambient, 4), unit: 'relative', definition: 'The same area with the optics out of the path.' },
+    { key: 'clip', label: 'Clipped pixels', value: pct(res.clippedFraction, 3), unit: '%', definition: 'Share of pixels with a channel at ≥ 98 % of full scale inside the analysed regions.' },
+    { key: 'reg', label: 'Registration, off photo', value: `${res.registration.off.dx}, ${res.registration.off.dy}`, unit: 'px', definition: 'Shift of the off photo against the on photo, found by phase correlation.' },
+  ];
+  if (abs) {
+    out.push({ key: 'abs', label: abs.kind === 'calibrated' ? 'Display luminance' : 'Display luminance (rough estimate)', value: f(abs.on, 1), unit: 'cd/m²', definition: abs.kind === 'calibrated' ? 'From the camera profile.' : 'From the reflected-light meter equation (K ≈ 12.5): for orientation only.' });
+  }
+  return out;
+}
+
+export function ReadingsPanel({ reading, analyses, captureSetId, selectedId }: { reading: Reading | null; analyses: AnalysisWithReading[]; captureSetId: string; selectedId: string | null }) {
+  const histograms = reading?.artifacts.data?.histograms ?? {};
+  return (
+    <div className="space-y-5">
+      {reading ? (
+        <>
+          <div className="flex flex-wrap items-baseline gap-x-6 gap-y-1">
+            <div>
+              <div className="text-xs uppercase tracking-[0.16em] text-muted">Ambient contrast ratio</div>
+              <div className="font-mono text-3xl text-beam" data-testid="acr-value">
+                {f(reading.ambientContrastRatio)}
+              </div>
+            </div>
+            <div className="text-xs text-muted">
+              Engine {reading.engineVersion} · {reading.result.image.width} × {reading.result.image.height} px · screen {reading.result.screen.source} at {reading.result.screen.x}, {reading.result.screen.y}, {reading.result.screen.w} × {reading.result.screen.h} · {reading.createdAt.toISOString().slice(0, 16).replace('T', ' ')} UTC
+            </div>
+          </div>
+          {reading.result.warnings.length ? (
+            <div className="space-y-2" data-testid="warnings">
+              {reading.result.warnings.map((w) => (
+                <Notice key={w.code}>
+                  <strong className="mr-1">{w.code}:</strong>
+                  {w.message}
+                  <span className="block text-xs text-muted">{ADVICE[w.code] ?? ''}</span>
+                </Notice>
+              ))}
+            </div>
+          ) : (
+            <p className="text-sm text-pass">No warnings.</p>
+          )}
+          <table className="w-full text-sm" data-testid="metrics">
+            <tbody>
+              {metrics(reading).map((m) => (
+                <tr key={m.key} className="border-t border-line align-top" data-metric={m.key}>
+                  <th scope="row" className="py-1.5 pr-3 text-left font-medium text-ink">
+                    {m.label}
+                  </th>
+                  <td className="whitespace-nowrap py-1.5 pr-2 text-right font-mono tabular-nums text-ink">{m.value}</td>
+                  <td className="whitespace-nowrap py-1.5 pr-3 text-xs text-muted">{m.unit}</td>
+                  <td className="py-1.5 text-xs text-muted">{m.definition}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+          {reading.artifacts.logContrastKey ? (
+            <div className="grid gap-4 md:grid-cols-2">
+              <figure>
+                {/* eslint-disable-next-line @next/next/no-img-element -- session-bound artifact */}
+                <img src={`/api/analyses/${reading.analysisId}/artifacts/log-contrast.png`} alt="Map of local contrast, log10(on/off)" className="w-full rounded border border-line" />
+                <figcaption className="mt-1 text-xs text-muted">Local contrast log10(on/off), 0 to {f(reading.artifacts.data?.logContrast.max, 2)}</figcaption>
+              </figure>
+              <figure>
+                {/* eslint-disable-next-line @next/next/no-img-element -- session-bound artifact */}
+                <img src={`/api/analyses/${reading.analysisId}/artifacts/difference.png`} alt="Map of display light, on minus off" className="w-full rounded border border-line" />
+                <figcaption className="mt-1 text-xs text-muted">Display light D = on − off, 0 to {f(reading.artifacts.data?.difference.max, 4)}</figcaption>
+              </figure>
+            </div>
+          ) : null}
+          {Object.keys(histograms).length ? (
+            <div>
+              <h3 className="mb-2 text-xs font-semibold uppercase tracking-[0.16em] text-muted">Luminance histograms (stops)</h3>
+              <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
+                {Object.entries(histograms).map(([role, h]) => {
+                  const max = Math.max(1, ...h.counts);
+                  return (
+                    <figure key={role} className="rounded border border-line p-2">
+                      <svg viewBox={`0 0 ${h.counts.length} 40`} preserveAspectRatio="none" className="h-16 w-full" role="img" aria-label={`Histogram of the ${role} photo`}>
+                        {h.counts.map((c, i) => (
+                          <rect key={i} x={i} y={40 - (40 * c) / max} width={0.9} height={(40 * c) / max} fill="rgb(var(--beam))" />
+                        ))}
+                      </svg>
+                      <figcaption className="mt-1 flex justify-between text-[10px] text-muted">
+                        <span>{role}</span>
+                        <span>
+                          2^{h.log2Min} … 2^{h.log2Max}
+                        </span>
+                      </figcaption>
+                    </figure>
+                  );
+                })}
+              </div>
+            </div>
+          ) : null}
+        </>
+      ) : (
+        <p className="text-sm text-muted">No reading yet. Upload the on and off photos (ambient for transmission and tint), mark or detect the screen, then analyse.</p>
+      )}
+      {analyses.length ? (
+        <div>
+          <h3 className="mb-2 text-xs font-semibold uppercase tracking-[0.16em] text-muted">History</h3>
+          <DataTable
+            csvName="analyses"
+            columns={[
+              { key: 'when', label: 'Queued' },
+              { key: 'status', label: 'Status' },
+              { key: 'acr', label: 'Contrast ratio', numeric: true },
+              { key: 'warnings', label: 'Warnings', numeric: true },
+              { key: 'engine', label: 'Engine' },
+              { key: 'note', label: 'Message' },
+            ]}
+            rows={analyses.map((a) => ({
+              id: a.id,
+              href: a.readingId ? `/captures/${captureSetId}?analysis=${a.id}` : undefined,
+              cells: {
+                when: { text: `${a.queuedAt.toISOString().slice(0, 19).replace('T', ' ')}${a.id === selectedId ? ' (shown)' : ''}`, sort: a.queuedAt.getTime() },
+                status: { text: a.status },
+                acr: { text: f(a.ambientContrastRatio), sort: a.ambientContrastRatio },
+                warnings: { text: a.warningCount === null ? '—' : String(a.warningCount), sort: a.warningCount },
+                engine: { text: a.engineVersion ?? '—' },
+                note: { text: a.error ?? '' },
+              },
+            }))}
+          />
+          {selectedId && analyses[0]?.id !== selectedId ? (
+            <Link href={`/captures/${captureSetId}`} className="mt-2 inline-block text-xs text-beam hover:underline">
+              Show the newest reading
+            </Link>
+          ) : null}
+        </div>
+      ) : null}
+    </div>
+  );
+}

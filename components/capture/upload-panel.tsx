@@ -1,0 +1,188 @@
+'use client';
+
+import clsx from 'clsx';
+import { useRouter } from 'next/navigation';
+import { useCallback, useState } from 'react';
+import { useDropzone } from 'react-dropzone';
+import { uploadPhoto } from '@/lib/hooks/upload-photo';
+import { MAX_UPLOAD_BYTES, PHOTO_ROLES, ROLE_HINTS, ROLE_LABELS, roleFromFileName, type PhotoRole } from '@/lib/schemas/upload';
+
+export type PhotoCard = {
+  id: string;
+  role: PhotoRole;
+  originalName: string;
+  width: number;
+  height: number;
+  bytes: number;
+  format: string;
+  bitDepth: number;
+  exif: { exposureTime?: number; fNumber?: number; iso?: number; make?: string; model?: string; lens?: string; takenAt?: string };
+};
+
+type Item = { key: string; name: string; role: PhotoRole | null; progress: number; state: 'waiting' | 'sending' | 'done' | 'refused'; message?: string; file: File };
+
+const mb = (n: number) => `${(n / 1048576).toFixed(n < 10 * 1048576 ? 1 : 0)} MB`;
+
+function shutter(t?: number): string | null {
+  if (!t) return null;
+  return t >= 1 ? `${t} s` : `1/${Math.round(1 / t)} s`;
+}
+
+/** The EXIF line a tester checks: exposure triangle and camera; missing tags are said out loud. */
+export function exifLine(e: PhotoCard['exif']): string {
+  const parts = [shutter(e.exposureTime), e.fNumber ? `f/${e.fNumber}` : null, e.iso ? `ISO ${e.iso}` : null].filter(Boolean);
+  const cam = [e.make, e.model].filter(Boolean).join(' ');
+  if (parts.length === 0) return `No exposure tags${cam ? ` · ${cam}` : ''}: exposures will be assumed equal`;
+  return `${parts.join(' · ')}${cam ? ` · ${cam}` : ''}`;
+}
+
+export function UploadPanel({ captureSetId, photos, canWrite }: { captureSetId: string; photos: PhotoCard[]; canWrite: boolean }) {
+  const router = useRouter();
+  const [items, setItems] = useState<Item[]>([]);
+  const byRole = new Map(photos.map((p) => [p.role, p]));
+
+  const patch = (key: string, p: Partial<Item>) => setItems((all) => all.map((i) => (i.key === key ? { ...i, ...p } : i)));
+
+  const send = useCallback(
+    async (batch: Item[]) => {
+      // one after another: the set's size check compares each photo with the ones already stored
+      let any = false;
+      for (const item of batch) {
+        if (!item.role) continue;
+        if (item.file.size > MAX_UPLOAD_BYTES) {
+          patch(item.key, { state: 'refused', message: `${item.name} is ${mb(item.file.size)}; the limit is 60 MB a photo: export a JPEG at high quality or a compressed TIFF.` });
+          continue;
+        }
+        patch(item.key, { state: 'sending', progress: 0 });
+        const out = await uploadPhoto(captureSetId, item.role, item.file, (f) => patch(item.key, { progress: f }));
+        if (out.ok) {
+          any = true;
+          patch(item.key, { state: 'done', progress: 1, message: out.duplicate ? 'Already uploaded: kept as it is.' : 'Uploaded.' });
+        } else patch(item.key, { state: 'refused', message: out.message });
+      }
+      if (any) router.refresh();
+    },
+    [captureSetId, router],
+  );
+
+  const enqueue = useCallback(
+    (files: File[], role: PhotoRole | 'auto') => {
+      const batch: Item[] = files.map((file, k) => ({
+        key: `${Date.now()}-${k}-${file.name}`,
+        name: file.name,
+        role: role === 'auto' ? roleFromFileName(file.name) : role,
+        progress: 0,
+        state: 'waiting',
+        file,
+      }));
+      // on first: later photos are checked against its size
+      const order: Record<string, number> = { on: 0, off: 1, ambient: 2, dark: 3 };
+      batch.sort((a, b) => (order[a.role ?? ''] ?? 9) - (order[b.role ?? ''] ?? 9));
+      setItems((all) => [...batch, ...all.filter((i) => i.state === 'sending')]);
+      void send(batch);
+    },
+    [send],
+  );
+
+  const assign = (item: Item, role: PhotoRole) => {
+    const next = { ...item, role };
+    patch(item.key, { role });
+    void send([next]);
+  };
+
+  return (
+    <div className="space-y-4">
+      {canWrite ? <MultiDrop onFiles={(f) => enqueue(f, 'auto')} /> : null}
+      <div className="grid gap-3 sm:grid-cols-2 xl:grid-cols-4">
+        {PHOTO_ROLES.map((role) => (
+          <RoleSlot key={role} role={role} photo={byRole.get(role) ?? null} captureSetId={captureSetId} canWrite={canWrite} onFiles={(f) => enqueue(f.slice(0, 1), role)} />
+        ))}
+      </div>
+      {items.length ? (
+        <ul className="space-y-2" aria-label="Uploads">
+          {items.map((i) => (
+            <li key={i.key} data-testid="upload-item" className="rounded-md border border-line bg-canvas px-3 py-2 text-sm">
+              <div className="flex flex-wrap items-center justify-between gap-2">
+                <span className="font-mono text-xs text-ink">{i.name}</span>
+                <span className="text-xs text-muted">{i.role ? ROLE_LABELS[i.role] : 'Role?'}</span>
+              </div>
+              {i.role === null && i.state === 'waiting' ? (
+                <div className="mt-2 flex flex-wrap items-center gap-2 text-xs">
+                  <span className="text-warn">The name does not say which photo this is:</span>
+                  {PHOTO_ROLES.map((r) => (
+                    <button key={r} type="button" onClick={() => assign(i, r)} className="rounded border border-line px-2 py-0.5 text-ink hover:border-beam">
+                      {ROLE_LABELS[r]}
+                    </button>
+                  ))}
+                </div>
+              ) : null}
+              {i.state === 'sending' || i.state === 'done' ? (
+                <div className="mt-2 h-1.5 overflow-hidden rounded bg-raised" role="progressbar" aria-label={`Upload of ${i.name}`} aria-valuemin={0} aria-valuemax={100} aria-valuenow={Math.round(i.progress * 100)}>
+                  <div className={clsx('h-full transition-[width]', i.state === 'done' ? 'bg-pass' : 'bg-beam')} style={{ width: `${Math.round(i.progress * 100)}%` }} />
+                </div>
+              ) : null}
+              {i.message ? (
+                <p role={i.state === 'refused' ? 'alert' : 'status'} className={clsx('mt-1 text-xs', i.state === 'refused' ? 'text-fail' : 'text-pass')}>
+                  {i.message}
+                </p>
+              ) : null}
+            </li>
+          ))}
+        </ul>
+      ) : null}
+    </div>
+  );
+}
+
+function MultiDrop({ onFiles }: { onFiles: (files: File[]) => void }) {
+  const { getRootProps, getInputProps, isDragActive } = useDropzone({ onDrop: onFiles, multiple: true });
+  return (
+    <div
+      {...getRootProps({
+        'aria-label': 'Drop several photos',
+        className: clsx('cursor-pointer rounded-lg border-2 border-dashed px-4 py-5 text-center text-sm', isDragActive ? 'border-beam bg-beam/10' : 'border-line hover:border-beam/60'),
+      })}
+      data-testid="multi-drop"
+    >
+      <input {...getInputProps()} data-testid="multi-drop-input" />
+      <p className="text-ink">Drop the whole set here</p>
+      <p className="mt-1 text-xs text-muted">Roles come from the file names: on / display-on, off, ambient / world / no-optics, dark. Up to 60 MB a photo; JPEG, PNG, TIFF (16-bit welcome) or WebP.</p>
+    </div>
+  );
+}
+
+function RoleSlot({ role, photo, captureSetId, canWrite, onFiles }: { role: PhotoRole; photo: PhotoCard | null; captureSetId: string; canWrite: boolean; onFiles: (files: File[]) => void }) {
+  const { getRootProps, getInputProps, isDragActive } = useDropzone({ onDrop: onFiles, multiple: false, disabled: !canWrite, noClick: !canWrite });
+  return (
+    <div
+      {...getRootProps({
+        className: clsx('rounded-lg border bg-canvas p-3 text-sm', isDragActive ? 'border-beam bg-beam/10' : photo ? 'border-line' : 'border-dashed border-line', canWrite && 'cursor-pointer hover:border-beam/60'),
+      })}
+      data-testid={`slot-${role}`}
+    >
+      {canWrite ? <input {...getInputProps()} data-testid={`slot-${role}-input`} /> : null}
+      <div className="flex items-baseline justify-between gap-2">
+        <span className="font-semibold text-ink">{ROLE_LABELS[role]}</span>
+        <span className="text-[10px] uppercase tracking-wider text-muted">{role}</span>
+      </div>
+      {photo ? (
+        <div className="mt-2 space-y-1 text-xs">
+          <div className="truncate font-mono text-ink" title={photo.originalName}>
+            {photo.originalName}
+          </div>
+          <div className="text-muted">
+            {photo.width} × {photo.height} · {photo.format.toUpperCase()} {photo.bitDepth}-bit · {mb(photo.bytes)}
+          </div>
+          <div className="text-muted" data-testid={`exif-${role}`}>
+            {exifLine(photo.exif)}
+          </div>
+          <a href={`/api/captures/${captureSetId}/photos/${photo.id}/original`} onClick={(e) => e.stopPropagation()} className="text-beam hover:underline">
+            Download original
+          </a>
+        </div>
+      ) : (
+        <p className="mt-2 text-xs text-muted">{ROLE_HINTS[role]}{canWrite ? ' — drop or click to pick.' : '.'}</p>
+      )}
+    </div>
+  );
+}
