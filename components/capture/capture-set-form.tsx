@@ -2,7 +2,7 @@
 
 import { useActionState } from 'react';
 import { createCaptureSetAction } from '@/app/(lab)/projects/[projectId]/revisions/actions';
-import { FormStatus, SelectField, TextArea } from '@/components/revisions/revision-forms';
+import { FormStatus, keepValues, SelectField, TextArea } from '@/components/revisions/revision-forms';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import type { FormState } from '@/lib/auth/action';
@@ -11,7 +11,7 @@ export function CreateCaptureSetForm({ revisionId }: { revisionId: string }) {
   const [state, action, pending] = useActionState<FormState, FormData>(createCaptureSetAction, {});
   const e = state.fieldErrors ?? {};
   return (
-    <form action={action} className="space-y-3" noValidate aria-label="New capture set">
+    <form onSubmit={keepValues(action)} className="space-y-3" noValidate aria-label="New capture set">
       <input type="hidden" name="revisionId" value={revisionId} />
       <div className="grid gap-3 sm:grid-cols-3">
         <Field label="Label" name="label" placeholder="e.g. Window light, 0°" errors={e.label} maxLength={120} />

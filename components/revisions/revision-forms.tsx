@@ -1,11 +1,23 @@
 'use client';
 
-import { useActionState, useEffect, useRef } from 'react';
+import { startTransition, useActionState, useEffect, useRef, type FormEvent } from 'react';
 import { createRevisionAction, updateRevisionAction } from '@/app/(lab)/projects/[projectId]/revisions/actions';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import type { FormState } from '@/lib/auth/action';
 import { REVISION_STATUSES } from '@/lib/schemas/revision';
+
+/**
+ * Submits through the action without React's automatic form reset, so a refused form keeps what
+ * the person typed next to the messages.
+ */
+export function keepValues(action: (fd: FormData) => void) {
+  return (e: FormEvent<HTMLFormElement>) => {
+    e.preventDefault();
+    const fd = new FormData(e.currentTarget);
+    startTransition(() => action(fd));
+  };
+}
 
 export function FormStatus({ state }: { state: FormState }) {
   if (!state.message) return null;
@@ -76,7 +88,7 @@ export function CreateRevisionForm({ projectId }: { projectId: string }) {
     if (state.ok) ref.current?.reset();
   }, [state]);
   return (
-    <form ref={ref} action={action} className="space-y-3" noValidate aria-label="New revision">
+    <form ref={ref} onSubmit={keepValues(action)} className="space-y-3" noValidate aria-label="New revision">
       <input type="hidden" name="projectId" value={projectId} />
       <RevisionFields state={state} values={{}} />
       <div className="flex items-center gap-3">
@@ -92,7 +104,7 @@ export function CreateRevisionForm({ projectId }: { projectId: string }) {
 export function EditRevisionForm({ revision }: { revision: Required<Omit<RevisionValues, 'builtOn'>> & { builtOn: string | null } }) {
   const [state, action, pending] = useActionState<FormState, FormData>(updateRevisionAction, {});
   return (
-    <form action={action} className="space-y-3" noValidate aria-label="Edit revision">
+    <form onSubmit={keepValues(action)} className="space-y-3" noValidate aria-label="Edit revision">
       <input type="hidden" name="id" value={revision.id} />
       <RevisionFields state={state} values={revision} />
       <div className="flex items-center gap-3">
