@@ -27,6 +27,8 @@ const securityHeaders = [
 const nextConfig = {
   reactStrictMode: true,
   poweredByHeader: false,
+  // `npm test` runs tsc over the whole tree as its own step; the build need not repeat it.
+  typescript: { ignoreBuildErrors: true },
   serverExternalPackages: ['knex', 'bullmq', 'sharp', 'pg', 'ioredis', 'exifr'],
   turbopack: { root: fileURLToPath(new URL('.', import.meta.url)) },
   experimental: { serverActions: { bodySizeLimit: '2mb' } },

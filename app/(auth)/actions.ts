@@ -9,7 +9,7 @@ import { LAB_COOKIE } from '@/lib/auth/lab-cookie';
 import { getEnv } from '@/lib/env';
 import { AppError } from '@/lib/errors';
 import { invitationAcceptSchema, newAccountSchema } from '@/lib/schemas/team';
-import type { FormState } from '@/lib/auth/action';
+import { echoValues, type FormState } from '@/lib/auth/action';
 import { isUniqueViolation, zodFieldErrors } from '@/lib/errors';
 import { signUpSchema } from '@/lib/schemas/user';
 import { createUserWithLab } from '@/db/queries/users';
@@ -23,8 +23,8 @@ export async function signUpAction(_prev: FormState, form: FormData): Promise<Fo
     await recordAudit({ labId, userId, action: 'lab.create', targetType: 'lab', targetId: labId });
     return { ok: true };
   } catch (err) {
-    if (err instanceof ZodError) return { ok: false, message: 'Check the highlighted fields', fieldErrors: zodFieldErrors(err) };
-    if (isUniqueViolation(err)) return { ok: false, fieldErrors: { email: ['An account with this e-mail already exists. Sign in instead.'] } };
+    if (err instanceof ZodError) return { ok: false, message: 'Check the highlighted fields', fieldErrors: zodFieldErrors(err), values: echoValues(form) };
+    if (isUniqueViolation(err)) return { ok: false, fieldErrors: { email: ['An account with this e-mail already exists. Sign in instead.'] }, values: echoValues(form) };
     console.error('[veilmeter] sign-up failed', err);
     return { ok: false, message: 'We could not create the account. Try again.' };
   }
@@ -53,8 +53,8 @@ export async function acceptInvitationAction(_prev: FormState, form: FormData): 
     (await cookies()).set(LAB_COOKIE, done.labId, { httpOnly: true, sameSite: 'lax', path: '/', secure: getEnv().NEXTAUTH_URL.startsWith('https://') });
     return { ok: true, message: inv.email };
   } catch (err) {
-    if (err instanceof ZodError) return { ok: false, message: 'Check the highlighted fields', fieldErrors: zodFieldErrors(err) };
-    if (err instanceof AppError) return { ok: false, message: err.message, fieldErrors: err.fieldErrors };
+    if (err instanceof ZodError) return { ok: false, message: 'Check the highlighted fields', fieldErrors: zodFieldErrors(err), values: echoValues(form) };
+    if (err instanceof AppError) return { ok: false, message: err.message, fieldErrors: err.fieldErrors, values: echoValues(form) };
     console.error('[veilmeter] invitation acceptance failed', err);
     return { ok: false, message: 'We could not accept the invitation. Try again.' };
   }

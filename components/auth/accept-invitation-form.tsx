@@ -34,7 +34,7 @@ export function AcceptInvitationForm({ token, email, accountExists }: { token: s
         <Field label="Your password" name="password" type="password" autoComplete="current-password" errors={fe.password} hint="You already have an account: confirm it's you." />
       ) : (
         <>
-          <Field label="Your name" name="name" autoComplete="name" errors={fe.name} />
+          <Field label="Your name" name="name" autoComplete="name" defaultValue={state.values?.name} errors={fe.name} />
           <Field label="Choose a password" name="password" type="password" autoComplete="new-password" hint="10 characters or more" errors={fe.password} />
         </>
       )}

@@ -33,10 +33,10 @@ export function SignUpForm() {
           {state.message}
         </p>
       ) : null}
-      <Field label="Your name" name="name" autoComplete="name" errors={fe.name} required />
-      <Field label="E-mail" name="email" type="email" autoComplete="email" errors={fe.email} required />
+      <Field label="Your name" name="name" autoComplete="name" defaultValue={state.values?.name} errors={fe.name} required />
+      <Field label="E-mail" name="email" type="email" autoComplete="email" defaultValue={state.values?.email} errors={fe.email} required />
       <Field label="Password" name="password" type="password" autoComplete="new-password" errors={fe.password} hint="10 characters or more" required />
-      <Field label="Lab name" name="labName" errors={fe.labName} placeholder="e.g. Optics bench B" required />
+      <Field label="Lab name" name="labName" defaultValue={state.values?.labName} errors={fe.labName} placeholder="e.g. Optics bench B" required />
       <Button type="submit" className="w-full" disabled={pending || state.ok}>
         {pending || state.ok ? 'Creating…' : 'Create lab'}
       </Button>

@@ -23,8 +23,8 @@ export function CreateProjectForm() {
   }, [state]);
   return (
     <form ref={ref} action={action} className="space-y-3" noValidate>
-      <Field label="Name" name="name" placeholder="e.g. Visor V2 birdbath" errors={state.fieldErrors?.name} maxLength={500} />
-      <Field label="Description (optional)" name="description" errors={state.fieldErrors?.description} />
+      <Field label="Name" name="name" placeholder="e.g. Visor V2 birdbath" defaultValue={state.ok ? undefined : state.values?.name} errors={state.fieldErrors?.name} maxLength={500} />
+      <Field label="Description (optional)" name="description" defaultValue={state.ok ? undefined : state.values?.description} errors={state.fieldErrors?.description} />
       <div className="flex items-center gap-3">
         <Button type="submit" disabled={pending}>
           {pending ? 'Creating…' : 'Create project'}
@@ -40,7 +40,7 @@ export function RenameProjectForm({ id, name }: { id: string; name: string }) {
   return (
     <form action={action} className="flex flex-wrap items-end gap-3" noValidate>
       <input type="hidden" name="id" value={id} />
-      <Field label="Project name" name="name" defaultValue={name} errors={state.fieldErrors?.name} className="min-w-64 flex-1" />
+      <Field label="Project name" name="name" defaultValue={state.ok ? name : (state.values?.name ?? name)} errors={state.fieldErrors?.name} className="min-w-64 flex-1" />
       <Button type="submit" tone="quiet" disabled={pending}>
         {pending ? 'Saving…' : 'Rename'}
       </Button>

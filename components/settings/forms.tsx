@@ -64,7 +64,7 @@ export function InviteForm() {
   }, [state]);
   return (
     <form ref={ref} action={action} className="flex flex-wrap items-end gap-3" noValidate>
-      <Field label="E-mail" name="email" type="email" errors={state.fieldErrors?.email} className="min-w-64 flex-1" />
+      <Field label="E-mail" name="email" type="email" defaultValue={state.ok ? undefined : state.values?.email} errors={state.fieldErrors?.email} className="min-w-64 flex-1" />
       <label className="text-sm">
         <span className="mb-1 block text-muted">Role</span>
         <RoleSelect name="role" defaultValue="tester" label="Role" />

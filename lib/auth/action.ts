@@ -5,7 +5,14 @@ import { actorWith, type Actor } from './session';
 import type { Permission } from './permissions';
 
 /** What every form action returns: field errors to show beside inputs, or a message. */
-export type FormState = { ok?: boolean; message?: string; fieldErrors?: Record<string, string[]>; secret?: string };
+export type FormState = { ok?: boolean; message?: string; fieldErrors?: Record<string, string[]>; secret?: string; values?: Record<string, string> };
+
+/** What the person typed, minus secrets, so a form that failed validation can show it again. */
+export function echoValues(form: FormData): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const [k, v] of form.entries()) if (typeof v === 'string' && !/password|confirm|token|^\$/i.test(k)) out[k] = v;
+  return out;
+}
 
 /**
  * Wraps a server action: session → role from the database → zod → body. The body returns a
@@ -27,8 +34,8 @@ export function formAction<S extends z.ZodType>(
       return typeof out === 'object' ? { ok: true, ...out } : { ok: true, message: out ?? undefined };
     } catch (err) {
       if (isNextControlFlow(err)) throw err;
-      if (err instanceof ZodError) return { ok: false, message: 'Check the highlighted fields', fieldErrors: zodFieldErrors(err) };
-      if (err instanceof AppError) return { ok: false, message: err.message, fieldErrors: err.fieldErrors };
+      if (err instanceof ZodError) return { ok: false, message: 'Check the highlighted fields', fieldErrors: zodFieldErrors(err), values: echoValues(form) };
+      if (err instanceof AppError) return { ok: false, message: err.message, fieldErrors: err.fieldErrors, values: echoValues(form) };
       const { body: safe } = toErrorResponse(err);
       return { ok: false, message: safe.error.message };
     }
