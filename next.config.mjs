@@ -25,13 +25,16 @@ const securityHeaders = [
 
 /** @type {import('next').NextConfig} */
 const nextConfig = {
+  // Lets parallel builds (one per engineer or test run) keep their own output folder.
+  distDir: process.env.NEXT_DIST_DIR || '.next',
   reactStrictMode: true,
   poweredByHeader: false,
   // `npm test` runs tsc over the whole tree as its own step; the build need not repeat it.
   typescript: { ignoreBuildErrors: true },
   serverExternalPackages: ['knex', 'bullmq', 'sharp', 'pg', 'ioredis', 'exifr'],
   turbopack: { root: fileURLToPath(new URL('.', import.meta.url)) },
-  experimental: { serverActions: { bodySizeLimit: '2mb' } },
+  // Photos of up to 60 MB pass through proxy.ts on their way to the upload route.
+  experimental: { serverActions: { bodySizeLimit: '2mb' }, proxyClientMaxBodySize: '61mb' },
   async headers() {
     return [{ source: '/:path*', headers: securityHeaders }];
   },

@@ -20,7 +20,7 @@ export async function isResetUsable(token: string): Promise<boolean> {
 }
 
 /** Sets the new password and spends the link in one transaction; false when the link is spent or expired. */
-export async function usePasswordReset(token: string, passwordHash: string): Promise<boolean> {
+export async function spendPasswordReset(token: string, passwordHash: string): Promise<boolean> {
   return getDb().transaction(async (trx) => {
     const row = await trx('password_resets').where({ token_hash: hashSecret(token) }).whereNull('used_at').where('expires_at', '>', new Date()).forUpdate().first<{ id: string; user_id: string } | undefined>('id', 'user_id');
     if (!row) return false;

@@ -1,4 +1,4 @@
-import { createPasswordReset, usePasswordReset } from '../../db/queries/password-resets';
+import { createPasswordReset, spendPasswordReset } from '../../db/queries/password-resets';
 import { getUserByEmail } from '../../db/queries/users';
 import { getEnv } from '../env';
 import { AppError } from '../errors';
@@ -22,6 +22,6 @@ export async function requestPasswordReset(email: string, ip: string): Promise<v
 }
 
 export async function completePasswordReset(token: string, password: string): Promise<void> {
-  const ok = await usePasswordReset(token, await hashPassword(password));
+  const ok = await spendPasswordReset(token, await hashPassword(password));
   if (!ok) throw new AppError(410, 'This reset link has been used or has expired. Ask for a new one.', 'link_spent');
 }
