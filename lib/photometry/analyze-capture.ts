@@ -2,19 +2,20 @@ import { checkerboardContrast } from './checkerboard';
 import { deltaE2000 } from './ciede2000';
 import { chromaticity, linearRgbToXyz, xyzToLab, D65_WHITE } from './color';
 import { contrastRatio, michelson } from './contrast';
-import { luminanceCrop, meanLinearRgb, type LuminanceCrop } from './crop';
+import { luminanceCrop } from './crop';
 import { detectScreen } from './detect-screen';
 import { downsampleLuminance } from './downsample';
 import { EngineInputError } from './errors';
 import { exposureFactor, exposureScales } from './exposure';
 import { GHOST_MIN_SNR, searchGhost } from './ghost-search';
-import { measureGhost } from './ghost-measure';
+import { measureGhostAt } from './ghost-measure';
+import { bandRects } from './band';
+import { measureRects, totalsMean, totalsRgbMean, type RectRequest, type RectTotals } from './region-pass';
 import { luminanceHistogram } from './histogram';
 import { meterLuminance, METERED_TONE } from './meter';
 import { robustSigma } from './percentile';
 import { assertRaster, downsampleFactor } from './raster';
-import { gridCells, intersectRects, translateRect, unionRects } from './rect';
-import { regionMean } from './region-stats';
+import { gridCells, intersectRects, translateRect } from './rect';
 import { registerPhotos, registerPlanes } from './register';
 import type { AnalysisMaps, CaptureResult, EngineWarning, GhostAndUniformity, GhostResult } from './result';
 import { scalePlane, shiftPlane, subtractPlanes } from './shift-plane';
@@ -74,21 +75,6 @@ function finiteOrNull(v: number): number | null {
 }
 
 const ROLES_AFTER_ON = ['off', 'ambient', 'dark'] as const;
-
-function countClipped(c: LuminanceCrop, r: Rect): { clipped: number; total: number } {
-  let clipped = 0;
-  let total = 0;
-  const { data, width } = c.plane;
-  for (let y = r.y; y < r.y + r.h; y++) {
-    for (let i = y * width + r.x, end = y * width + r.x + r.w; i < end; i++) {
-      const v = data[i] as number;
-      if (v !== v) continue;
-      total++;
-      clipped += c.clipped[i] as number;
-    }
-  }
-  return { clipped, total };
-}
 
 /** Analyses one capture set (decoded photos in, reading and map planes out), as PRODUCT.md §5 defines. */
 export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
@@ -232,33 +218,74 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
   const darkSmall = photos.dark ? alignedSmall('dark') : null;
   const ghostDark = darkSmall ? findGhost(darkSmall) : null;
 
-  // full-resolution crops over everything measured, aligned and exposure-normalised
+  // full resolution: one pass per photo over its raw pixels gathers every rectangle measured
+  // (aligned and exposure-normalised), with no full-resolution plane in memory
   const imageRect: Rect = { x: 0, y: 0, w: W, h: H };
-  const needed: Rect[] = [screen];
-  if (background) needed.push(background);
-  for (const g of [ghostOnOff, ghostDark]) {
-    if (!g) continue;
-    for (const k of [1, -1, -2]) {
-      const r = intersectRects(translateRect(screen, k * g.offset.dx, k * g.offset.dy), imageRect);
-      if (r) needed.push(r);
-    }
+  const overlap = background ? intersectRects(screen, background) : null;
+  const seeThrough = background ?? screen;
+  const uniformityCellsRects = pattern === 'full' && screen.w >= 3 && screen.h >= 3 ? gridCells(screen, 3, 3) : null;
+  const checkerCells = pattern === 'checkerboard' ? gridCells(screen, 4, 4, 0.5) : null;
+  const requests: Partial<Record<PhotoRole, RectRequest[]>> = {};
+  const ask = (role: PhotoRole, rect: Rect, rgb = false): number => {
+    const list = (requests[role] ??= []);
+    list.push({ rect, rgb });
+    return list.length - 1;
+  };
+  const at: Partial<Record<PhotoRole, { screen: number; background: number; overlap: number; seeThrough: number; cells: number[]; checker: number[] }>> = {};
+  for (const role of Object.keys(photos) as PhotoRole[]) {
+    const wantCells = uniformityCellsRects !== null && role !== 'ambient';
+    at[role] = {
+      screen: ask(role, screen),
+      background: background ? ask(role, background) : -1,
+      overlap: overlap ? ask(role, overlap) : -1,
+      seeThrough: photos.ambient && (role === 'off' || role === 'ambient') ? ask(role, seeThrough, true) : -1,
+      cells: wantCells ? (uniformityCellsRects as Rect[]).map((c) => ask(role, c)) : [],
+      checker: checkerCells && role === 'on' ? checkerCells.map((c) => ask(role, c)) : [],
+    };
   }
-  const cropRect = unionRects(needed);
   progress('measure', 0.6);
-  const crops: Partial<Record<PhotoRole, LuminanceCrop>> = {};
+  const totals: Partial<Record<PhotoRole, RectTotals[]>> = {};
   for (const [role, p] of Object.entries(photos) as [PhotoRole, CapturePhoto][]) {
-    crops[role] = luminanceCrop(p.raster, cropRect, registration[role] as Offset, scaleOf(role));
+    totals[role] = measureRects(p.raster, requests[role] as RectRequest[], registration[role] as Offset, scaleOf(role));
   }
-  progress('crops', 0.65);
-  const local = (r: Rect): Rect => translateRect(r, -cropRect.x, -cropRect.y);
-  const meanOver = (role: PhotoRole, r: Rect): number => regionMean((crops[role] as LuminanceCrop).plane, local(r));
-  const cropOn = crops.on as LuminanceCrop;
-  const cropOff = crops.off as LuminanceCrop;
+  const totalsOf = (role: PhotoRole, k: number): RectTotals => (totals[role] as RectTotals[])[k] as RectTotals;
+  const meanAt = (role: PhotoRole, k: number): number => totalsMean(totalsOf(role, k));
+  const idx = (role: PhotoRole): { screen: number; background: number; overlap: number; seeThrough: number; cells: number[]; checker: number[] } =>
+    at[role] as { screen: number; background: number; overlap: number; seeThrough: number; cells: number[]; checker: number[] };
 
-  const lOn = meanOver('on', screen);
-  const lOff = meanOver('off', screen);
-  const lAmb = photos.ambient ? meanOver('ambient', screen) : Number.NaN;
-  const lDark = photos.dark ? meanOver('dark', screen) : Number.NaN;
+  // the ghost's band and its two shifted copies, at full resolution (a few strips, not the whole area)
+  const bandReader = (found: NonNullable<Found>, roles: readonly PhotoRole[]): ((x: number, y: number) => number) => {
+    const o = found.offset;
+    const strips: Rect[] = [];
+    for (const k of [0, 1, 2]) {
+      for (const r of bandRects(screen, o)) {
+        const s = intersectRects(translateRect(r, -k * o.dx, -k * o.dy), imageRect);
+        if (s) strips.push(s);
+      }
+    }
+    const planes = strips.map((r) => roles.map((role) => luminanceCrop((photos[role] as CapturePhoto).raster, r, registration[role] as Offset, scaleOf(role)).plane.data));
+    const n = strips.length;
+    const two = roles.length === 2;
+    return (x: number, y: number): number => {
+      for (let i = 0; i < n; i++) {
+        const r = strips[i] as Rect;
+        const u = x - r.x;
+        const v = y - r.y;
+        if (u < 0 || v < 0 || u >= r.w || v >= r.h) continue;
+        const j = v * r.w + u;
+        const ps = planes[i] as Float32Array[];
+        // with two photos, D = on − off is formed only where the band needs it
+        return two ? ((ps[0] as Float32Array)[j] as number) - ((ps[1] as Float32Array)[j] as number) : ((ps[0] as Float32Array)[j] as number);
+      }
+      return Number.NaN;
+    };
+  };
+  progress('crops', 0.65);
+
+  const lOn = meanAt('on', idx('on').screen);
+  const lOff = meanAt('off', idx('off').screen);
+  const lAmb = photos.ambient ? meanAt('ambient', idx('ambient').screen) : Number.NaN;
+  const lDark = photos.dark ? meanAt('dark', idx('dark').screen) : Number.NaN;
   const acr = lOff > 0 ? contrastRatio(lOn, lOff) : Number.NaN;
 
   const screenSigma = sampleSigma(diffSmall);
@@ -273,7 +300,7 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     mich = finiteOrNull(michelson(lOn, lOff));
   } else {
     // ANSI/IEC checkerboard: each cell over its central 50% × 50%
-    const cells = gridCells(screen, 4, 4, 0.5).map((c) => meanOver('on', c));
+    const cells = idx('on').checker.map((k) => meanAt('on', k));
     const cb = checkerboardContrast(cells);
     ansi = finiteOrNull(cb.ansiContrast);
     mich = finiteOrNull(cb.michelson);
@@ -281,40 +308,40 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     if (!(cb.separation > 1.2)) warnings.push({ code: 'checkerboard-unclear', message: 'the white and black cells overlap in level: check the pattern is a 4 × 4 checkerboard filling the screen region' });
   }
 
-  const ghostAndUniformity = (d: Plane, minus: Plane | undefined, found: Found): GhostAndUniformity => {
+  const ghostAndUniformity = (roles: readonly PhotoRole[], found: Found): GhostAndUniformity => {
     let ghost: GhostResult | null = null;
     if (found) {
-      const m = measureGhost(d, { x: cropRect.x, y: cropRect.y }, screen, found.offset, minus);
+      const m = measureGhostAt(bandReader(found, roles), screen, found.offset);
       if (m && Number.isFinite(m.ratio)) {
         ghost = { ratio: m.ratio, dx: found.offset.dx, dy: found.offset.dy, source: found.source, firstOrder: m.firstOrder, snr: found.snr };
       }
     }
     let u: number | null = null;
     let cells: number[] | null = null;
-    if (pattern === 'full' && screen.w >= 3 && screen.h >= 3) {
-      cells = gridCells(screen, 3, 3).map((c) => regionMean(d, local(c)) - (minus ? regionMean(minus, local(c)) : 0));
+    if (uniformityCellsRects) {
+      const [first, minus] = roles as [PhotoRole, PhotoRole | undefined];
+      cells = idx(first).cells.map((k, i) => meanAt(first, k) - (minus ? meanAt(minus, idx(minus).cells[i] as number) : 0));
       if (cells.every(Number.isFinite)) u = finiteOrNull(uniformity(cells).minOverMax);
       else cells = null;
     }
     return { ghost, uniformity: u, uniformityCells: cells };
   };
   progress('ghost-ratio', 0.68);
-  const onMinusOff = ghostAndUniformity(cropOn.plane, cropOff.plane, ghostOnOff);
-  const darkVariant = photos.dark ? ghostAndUniformity((crops.dark as LuminanceCrop).plane, undefined, ghostDark) : null;
+  const onMinusOff = ghostAndUniformity(['on', 'off'], ghostOnOff);
+  const darkVariant = photos.dark ? ghostAndUniformity(['dark'], ghostDark) : null;
   const primary = darkVariant ?? onMinusOff;
 
   progress('see-through', 0.7);
   // transmission and tint over the background, or the screen when none is marked
   let transmission: number | null = null;
   let tint: CaptureResult['tint'] = null;
-  const seeThrough = background ?? screen;
   if (photos.ambient) {
     if (!background) warnings.push({ code: 'transmission-over-screen', message: 'no background region marked: transmission and tint are measured over the screen' });
-    const tOff = meanOver('off', seeThrough);
-    const tAmb = meanOver('ambient', seeThrough);
+    const tOff = meanAt('off', idx('off').seeThrough);
+    const tAmb = meanAt('ambient', idx('ambient').seeThrough);
     transmission = tAmb > 0 ? finiteOrNull(tOff / tAmb) : null;
-    const rgbOff = meanLinearRgb(input.off.raster, seeThrough, registration.off as Offset);
-    const rgbAmb = meanLinearRgb(photos.ambient.raster, seeThrough, registration.ambient as Offset);
+    const rgbOff = totalsRgbMean(totalsOf('off', idx('off').seeThrough));
+    const rgbAmb = totalsRgbMean(totalsOf('ambient', idx('ambient').seeThrough));
     const xyzOff = linearRgbToXyz(rgbOff.r * scaleOf('off'), rgbOff.g * scaleOf('off'), rgbOff.b * scaleOf('off'));
     const xyzAmb = linearRgbToXyz(rgbAmb.r * scaleOf('ambient'), rgbAmb.g * scaleOf('ambient'), rgbAmb.b * scaleOf('ambient'));
     if (xyzOff.y > 0 && xyzAmb.y > 0) {
@@ -331,18 +358,20 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
 
   progress('clipping', 0.75);
   // clipping inside the analysed regions (PRODUCT.md §5.5)
-  const analysed = background ? [screen, background] : [screen];
   const clippedByPhoto: Partial<Record<PhotoRole, number>> = {};
   let clippedFraction = 0;
-  const overlap = background ? intersectRects(screen, background) : null;
-  for (const [role, c] of Object.entries(crops) as [PhotoRole, LuminanceCrop][]) {
+  for (const role of Object.keys(photos) as PhotoRole[]) {
+    const k = idx(role);
+    // union of the regions = sum of each minus their overlap
+    const parts: [number, number][] = [[k.screen, 1]];
+    if (k.background >= 0) parts.push([k.background, 1]);
+    if (k.overlap >= 0) parts.push([k.overlap, -1]);
     let clipped = 0;
     let total = 0;
-    // union of the regions = sum of each minus their overlap
-    for (const [r, sign] of [...analysed.map((a) => [a, 1] as const), ...(overlap ? [[overlap, -1] as const] : [])]) {
-      const counted = countClipped(c, local(r));
-      clipped += sign * counted.clipped;
-      total += sign * counted.total;
+    for (const [i, sign] of parts) {
+      const t = totalsOf(role, i);
+      clipped += sign * t.clipped;
+      total += sign * t.n;
     }
     const f = total > 0 ? clipped / total : 0;
     clippedByPhoto[role] = f;

@@ -29,6 +29,16 @@ export function measureGhost(d: Plane, origin: { x: number; y: number }, screen:
     // with `minus`, D = d − minus is formed only where the band needs it
     return minus ? (d.data[i] as number) - (minus.data[i] as number) : (d.data[i] as number);
   };
+  return measureGhostAt(at, screen, offset);
+}
+
+/**
+ * The same measurement on a difference read through `at(x, y)` (screen coordinates; NaN where there
+ * is no data), so callers can hold only the band and its two shifted copies instead of a whole crop.
+ */
+export function measureGhostAt(at: (x: number, y: number) => number, screen: Rect, offset: Offset): GhostMeasurement | null {
+  if (!Number.isInteger(offset.dx) || !Number.isInteger(offset.dy)) throw new RangeError('ghost offset must be integer');
+  if (offset.dx === 0 && offset.dy === 0) throw new RangeError('ghost offset must not be zero');
   let b = 0;
   let s1 = 0;
   let s2 = 0;
