@@ -2,6 +2,7 @@
 // any user exists, so a second `npm start` keeps the data as it is.
 import { hashPassword } from '../../lib/auth/password';
 import { closeDb, getDb } from '../index';
+import { seedDemoCaptures } from './demo-captures';
 import { DEMO_LAB, DEMO_PASSWORD, DEMO_PEOPLE, DEMO_PROJECTS } from './demo-data';
 
 export async function seedDemo(): Promise<{ labId: string }> {
@@ -37,8 +38,11 @@ async function main(): Promise<void> {
       return;
     }
   }
-  await seedDemo();
-  console.log(`seeded the demo lab "${DEMO_LAB}"`);
+  const { labId } = await seedDemo();
+  const tester = await db('users').where({ email: 'tester@example.test' }).first<{ id: string }>('id');
+  const t0 = Date.now();
+  const readings = process.argv.includes('--no-captures') ? 0 : await seedDemoCaptures(labId, tester.id);
+  console.log(`seeded the demo lab "${DEMO_LAB}" with ${readings} analysed capture sets (${((Date.now() - t0) / 1000).toFixed(1)} s)`);
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {
