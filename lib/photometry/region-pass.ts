@@ -24,13 +24,26 @@ export function totalsMean(t: RectTotals): number {
   return t.n === 0 ? Number.NaN : t.sum / t.n;
 }
 
+interface Segment {
+  /** Columns [x0, x1) in reference coordinates. */
+  x0: number;
+  x1: number;
+  /** Indices of the (distinct) rectangles covering these columns, in request order. */
+  members: Int32Array;
+  /** The member that also sums linear RGB, or −1. */
+  rgb: number;
+}
+
+function sortedUnique(values: number[]): number[] {
+  return [...new Set(values)].sort((a, b) => a - b);
+}
+
 /**
- * One row-by-row pass over the raw pixels of a photo whose features sit `offset` pixels away,
- * gathering for every requested rectangle the float64 sum of luminance × scale, the pixel count,
- * the clipped count and optionally the linear RGB sums. Each row's luminance is computed once into
- * a float32 row (the values `luminanceCrop` would hold) and every rectangle sums its own segment of
- * it in row-major order, so the sums equal `regionSum` over a crop bit for bit, without a
- * full-resolution plane in memory.
+ * One pass over the raw pixels of a photo whose features sit `offset` pixels away, gathering for
+ * every requested rectangle the float64 sum of luminance × scale, the pixel count, the clipped count
+ * and optionally the linear RGB sums. Each pixel's luminance is rounded to float32 (the value
+ * `luminanceCrop` would hold) and added to each covering rectangle's sum in row-major order, so the
+ * sums equal `regionSum` over a crop bit for bit, without a full-resolution plane in memory.
  */
 export function measureRects(raster: PhotoRaster, requests: readonly RectRequest[], offset: Offset, scale: number): RectTotals[] {
   assertRaster(raster);
@@ -40,124 +53,135 @@ export function measureRects(raster: PhotoRaster, requests: readonly RectRequest
     const r = q.rect;
     if (![r.x, r.y, r.w, r.h].every(Number.isInteger) || r.w < 1 || r.h < 1) throw new RangeError('rectangles must be integers with w, h ≥ 1');
   }
-  const { width, height, channels, data } = raster;
-  const t = luminanceTables(raster.bitDepth, raster.encoding);
-  const { r: tr, g: tg, b: tb, clipCode, linear: lin } = t;
-  const k = requests.length;
+  // identical rectangles are measured once
+  const keyOf = (r: Rect): string => `${r.x},${r.y},${r.w},${r.h}`;
+  const distinct: Rect[] = [];
+  const wantRgb: boolean[] = [];
+  const slot = new Map<string, number>();
+  const slotOf = requests.map((q) => {
+    const key = keyOf(q.rect);
+    let i = slot.get(key);
+    if (i === undefined) {
+      i = distinct.length;
+      slot.set(key, i);
+      distinct.push(q.rect);
+      wantRgb.push(false);
+    }
+    if (q.rgb) wantRgb[i] = true;
+    return i;
+  });
+  const k = distinct.length;
   const sums = new Float64Array(k);
   const counts = new Float64Array(k);
   const clips = new Float64Array(k);
   const rgbSums = new Float64Array(3 * k);
-  const out: RectTotals[] = [];
-  if (k === 0) return out;
-  let y0 = Infinity;
-  let y1 = -Infinity;
-  let x0 = Infinity;
-  let x1 = -Infinity;
-  for (const q of requests) {
-    y0 = Math.min(y0, q.rect.y);
-    y1 = Math.max(y1, q.rect.y + q.rect.h);
-    x0 = Math.min(x0, q.rect.x);
-    x1 = Math.max(x1, q.rect.x + q.rect.w);
-  }
-  const rw = x1 - x0;
-  const row = new Float32Array(rw);
-  const clipRow = new Uint8Array(rw);
-  const rx0 = new Int32Array(k);
-  const rx1 = new Int32Array(k);
-  const ry0 = new Int32Array(k);
-  const ry1 = new Int32Array(k);
-  const wantRgb = new Uint8Array(k);
-  for (let i = 0; i < k; i++) {
-    const q = requests[i] as RectRequest;
-    rx0[i] = q.rect.x;
-    rx1[i] = q.rect.x + q.rect.w;
-    ry0[i] = q.rect.y;
-    ry1[i] = q.rect.y + q.rect.h;
-    wantRgb[i] = q.rgb ? 1 : 0;
-  }
+  const { width, height, channels, data } = raster;
+  const t = luminanceTables(raster.bitDepth, raster.encoding);
+  const { r: tr, g: tg, b: tb, clipCode, linear: lin } = t;
   const { dx, dy } = offset;
-  for (let y = y0; y < y1; y++) {
-    const sy = y + dy;
-    if (sy < 0 || sy >= height) continue;
-    // the columns this row needs: the union of the covering rectangles' spans
-    let cx0 = x1;
-    let cx1 = x0;
+  // bands of rows with the same covering rectangles, cut into column segments with the same members
+  const ys = sortedUnique(distinct.flatMap((r) => [r.y, r.y + r.h]));
+  for (let bi = 0; bi + 1 < ys.length; bi++) {
+    const ya = ys[bi] as number;
+    const yb = ys[bi + 1] as number;
+    const cover: number[] = [];
     for (let i = 0; i < k; i++) {
-      if (y < (ry0[i] as number) || y >= (ry1[i] as number)) continue;
-      if ((rx0[i] as number) < cx0) cx0 = rx0[i] as number;
-      if ((rx1[i] as number) > cx1) cx1 = rx1[i] as number;
+      const r = distinct[i] as Rect;
+      if (r.y <= ya && r.y + r.h >= yb) cover.push(i);
     }
-    if (cx1 <= cx0) continue;
-    // only the columns the shifted photo has; the others hold no data and are skipped
-    const sx0 = Math.max(0, cx0 + dx);
-    const sx1 = Math.min(width, cx1 + dx);
-    if (sx1 <= sx0) continue;
-    const v0 = sx0 - dx;
-    const v1 = sx1 - dx;
-    let o = v0 - x0;
-    if (channels === 3) {
-      for (let p = (sy * width + sx0) * 3, end = (sy * width + sx1) * 3; p < end; p += 3, o++) {
-        const r = data[p] as number;
-        const g = data[p + 1] as number;
-        const b = data[p + 2] as number;
-        row[o] = ((tr[r] as number) + (tg[g] as number) + (tb[b] as number)) * scale;
-        clipRow[o] = r >= clipCode || g >= clipCode || b >= clipCode ? 1 : 0;
-      }
-    } else {
-      for (let p = sy * width + sx0, end = sy * width + sx1; p < end; p++, o++) {
-        const v = data[p] as number;
-        row[o] = ((tr[v] as number) + (tg[v] as number) + (tb[v] as number)) * scale;
-        clipRow[o] = v >= clipCode ? 1 : 0;
-      }
+    if (cover.length === 0) continue;
+    const xs = sortedUnique(cover.flatMap((i) => [(distinct[i] as Rect).x, (distinct[i] as Rect).x + (distinct[i] as Rect).w]));
+    const segments: Segment[] = [];
+    for (let xi = 0; xi + 1 < xs.length; xi++) {
+      const x0 = xs[xi] as number;
+      const x1 = xs[xi + 1] as number;
+      const members = cover.filter((i) => (distinct[i] as Rect).x <= x0 && (distinct[i] as Rect).x + (distinct[i] as Rect).w >= x1);
+      if (members.length === 0) continue;
+      const rgbMembers = members.filter((i) => wantRgb[i]);
+      segments.push({ x0, x1, members: Int32Array.from(members), rgb: rgbMembers.length === 1 ? (rgbMembers[0] as number) : rgbMembers.length === 0 ? -1 : -2 });
     }
-    for (let i = 0; i < k; i++) {
-      if (y < (ry0[i] as number) || y >= (ry1[i] as number)) continue;
-      const a = Math.max(rx0[i] as number, v0);
-      const e = Math.min(rx1[i] as number, v1);
-      if (e <= a) continue;
-      let s = sums[i] as number;
-      let c = 0;
-      for (let j = a - x0, je = e - x0; j < je; j++) {
-        s += row[j] as number;
-        c += clipRow[j] as number;
-      }
-      sums[i] = s;
-      counts[i] = (counts[i] as number) + (e - a);
-      clips[i] = (clips[i] as number) + c;
-      if (wantRgb[i] === 1) {
-        let sr = rgbSums[3 * i] as number;
-        let sg = rgbSums[3 * i + 1] as number;
-        let sb = rgbSums[3 * i + 2] as number;
-        if (channels === 3) {
+    for (let y = ya; y < yb; y++) {
+      const sy = y + dy;
+      if (sy < 0 || sy >= height) continue;
+      for (const seg of segments) {
+        // only the columns the shifted photo has; the others hold no data and are skipped
+        const a = Math.max(seg.x0, -dx);
+        const e = Math.min(seg.x1, width - dx);
+        if (e <= a) continue;
+        const m = seg.members;
+        const mc = m.length;
+        const i0 = m[0] as number;
+        const i1 = mc > 1 ? (m[1] as number) : -1;
+        for (let q = 0; q < mc; q++) counts[m[q] as number] = (counts[m[q] as number] as number) + (e - a);
+        let c = 0;
+        if (channels === 3 && seg.rgb === -1 && mc <= 2) {
+          let s0 = sums[i0] as number;
+          let s1 = i1 >= 0 ? (sums[i1] as number) : 0;
           for (let p = (sy * width + a + dx) * 3, end = (sy * width + e + dx) * 3; p < end; p += 3) {
-            sr += lin[data[p] as number] as number;
-            sg += lin[data[p + 1] as number] as number;
-            sb += lin[data[p + 2] as number] as number;
+            const r = data[p] as number;
+            const g = data[p + 1] as number;
+            const b = data[p + 2] as number;
+            const v = Math.fround(((tr[r] as number) + (tg[g] as number) + (tb[b] as number)) * scale);
+            s0 += v;
+            s1 += v;
+            if (r >= clipCode || g >= clipCode || b >= clipCode) c++;
           }
+          sums[i0] = s0;
+          if (i1 >= 0) sums[i1] = s1;
+        } else if (channels === 3 && seg.rgb >= 0 && mc <= 2) {
+          let s0 = sums[i0] as number;
+          let s1 = i1 >= 0 ? (sums[i1] as number) : 0;
+          const ri = seg.rgb;
+          let sr = rgbSums[3 * ri] as number;
+          let sg = rgbSums[3 * ri + 1] as number;
+          let sb = rgbSums[3 * ri + 2] as number;
+          for (let p = (sy * width + a + dx) * 3, end = (sy * width + e + dx) * 3; p < end; p += 3) {
+            const r = data[p] as number;
+            const g = data[p + 1] as number;
+            const b = data[p + 2] as number;
+            const v = Math.fround(((tr[r] as number) + (tg[g] as number) + (tb[b] as number)) * scale);
+            s0 += v;
+            s1 += v;
+            sr += lin[r] as number;
+            sg += lin[g] as number;
+            sb += lin[b] as number;
+            if (r >= clipCode || g >= clipCode || b >= clipCode) c++;
+          }
+          sums[i0] = s0;
+          if (i1 >= 0) sums[i1] = s1;
+          rgbSums[3 * ri] = sr;
+          rgbSums[3 * ri + 1] = sg;
+          rgbSums[3 * ri + 2] = sb;
         } else {
-          for (let p = sy * width + a + dx, end = sy * width + e + dx; p < end; p++) {
-            const v = lin[data[p] as number] as number;
-            sr += v;
-            sg += v;
-            sb += v;
+          // any number of members, grey or colour: the general (slower) loop
+          const stride = channels;
+          for (let p = (sy * width + a + dx) * stride, end = (sy * width + e + dx) * stride; p < end; p += stride) {
+            const r = data[p] as number;
+            const g = stride === 3 ? (data[p + 1] as number) : r;
+            const b = stride === 3 ? (data[p + 2] as number) : r;
+            const v = Math.fround(((tr[r] as number) + (tg[g] as number) + (tb[b] as number)) * scale);
+            for (let q = 0; q < mc; q++) {
+              const i = m[q] as number;
+              sums[i] = (sums[i] as number) + v;
+              if (wantRgb[i]) {
+                rgbSums[3 * i] = (rgbSums[3 * i] as number) + (lin[r] as number);
+                rgbSums[3 * i + 1] = (rgbSums[3 * i + 1] as number) + (lin[g] as number);
+                rgbSums[3 * i + 2] = (rgbSums[3 * i + 2] as number) + (lin[b] as number);
+              }
+            }
+            if (r >= clipCode || g >= clipCode || b >= clipCode) c++;
           }
         }
-        rgbSums[3 * i] = sr;
-        rgbSums[3 * i + 1] = sg;
-        rgbSums[3 * i + 2] = sb;
+        for (let q = 0; q < mc; q++) clips[m[q] as number] = (clips[m[q] as number] as number) + c;
       }
     }
   }
-  for (let i = 0; i < k; i++) {
-    out.push({
-      sum: sums[i] as number,
-      n: counts[i] as number,
-      clipped: clips[i] as number,
-      rgb: wantRgb[i] === 1 ? { r: rgbSums[3 * i] as number, g: rgbSums[3 * i + 1] as number, b: rgbSums[3 * i + 2] as number } : null,
-    });
-  }
-  return out;
+  return slotOf.map((i, j) => ({
+    sum: sums[i] as number,
+    n: counts[i] as number,
+    clipped: clips[i] as number,
+    rgb: requests[j]?.rgb ? { r: rgbSums[3 * i] as number, g: rgbSums[3 * i + 1] as number, b: rgbSums[3 * i + 2] as number } : null,
+  }));
 }
 
 /** Mean linear R, G, B of a rectangle's totals (NaN when the photo has none of its pixels), as `meanLinearRgb` gives. */
