@@ -31,7 +31,7 @@ const nextConfig = {
   poweredByHeader: false,
   // `npm test` runs tsc over the whole tree as its own step; the build need not repeat it.
   typescript: { ignoreBuildErrors: true },
-  serverExternalPackages: ['knex', 'bullmq', 'sharp', 'pg', 'ioredis', 'exifr'],
+  serverExternalPackages: ['knex', 'bullmq', 'sharp', 'pg', 'ioredis', 'exifr', 'pdfkit'],
   turbopack: { root: fileURLToPath(new URL('.', import.meta.url)) },
   // Photos of up to 60 MB pass through proxy.ts on their way to the upload route.
   experimental: { serverActions: { bodySizeLimit: '2mb' }, proxyClientMaxBodySize: '61mb' },
