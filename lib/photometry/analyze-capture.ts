@@ -156,11 +156,17 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
   };
   const offSmall = alignedSmall('off');
   const diffSmall = subtractPlanes(small.on as Plane, offSmall);
+  // every step-th value of D, computed once (detection and the low-signal check both use it)
+  let diffSigma: number | null = null;
   const sampleSigma = (p: Plane): number => {
-    const step = Math.max(1, Math.floor(p.data.length / 200_000));
-    const s: number[] = [];
-    for (let i = 0; i < p.data.length; i += step) s.push(p.data[i] as number);
-    return robustSigma(s);
+    if (p === diffSmall && diffSigma !== null) return diffSigma;
+    const data = p.data;
+    const step = Math.max(1, Math.floor(data.length / 200_000));
+    const s = new Float64Array(Math.ceil(data.length / step));
+    for (let i = 0, k = 0; i < data.length; i += step, k++) s[k] = data[i] as number;
+    const sigma = robustSigma(s);
+    if (p === diffSmall) diffSigma = sigma;
+    return sigma;
   };
 
   // screen: marked, or detected from D (PRODUCT.md §5.7)
@@ -407,9 +413,10 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
   progress('maps', 0.85);
   const logContrast = new Float32Array(diffSmall.data.length);
   const onS = (small.on as Plane).data;
-  for (let i = 0; i < logContrast.length; i++) {
+  const offS = offSmall.data;
+  for (let i = 0, n = logContrast.length; i < n; i++) {
     const a = onS[i] as number;
-    const b = offSmall.data[i] as number;
+    const b = offS[i] as number;
     logContrast[i] = a > 0 && b > 0 ? Math.log10(a / b) : Number.NaN;
   }
   const histograms: AnalysisMaps['histograms'] = {};

@@ -31,7 +31,13 @@ export function downsampleLuminance(raster: PhotoRaster, factor: number): Plane 
       // full blocks read every column; sparse blocks read the one column on this row's diagonal
       const x0 = full ? 0 : yy;
       const x1 = full ? f : yy + 1;
-      if (channels === 3) {
+      if (channels === 3 && !full) {
+        // one sample per block on this row: a strided walk, no inner loop
+        const q = factor * 3;
+        for (let bx = 0, p = rowStart + x0 * 3; bx < sw; bx++, p += q) {
+          out[o + bx] = (out[o + bx] as number) + ((tr[data[p] as number] as number) + (tg[data[p + 1] as number] as number) + (tb[data[p + 2] as number] as number));
+        }
+      } else if (channels === 3) {
         for (let bx = 0; bx < sw; bx++) {
           let acc = 0;
           let p = rowStart + (bx * factor + x0) * 3;
@@ -64,12 +70,14 @@ export function boxDownsample(plane: Plane, factor: number): Plane {
   const fx = Math.min(factor, plane.width);
   const fy = Math.min(factor, plane.height);
   const out = new Float32Array(sw * sh);
+  const pd = plane.data;
+  const pw = plane.width;
   for (let by = 0; by < sh; by++) {
     for (let yy = 0; yy < fy; yy++) {
-      const row = (by * factor + yy) * plane.width;
+      const row = (by * factor + yy) * pw;
       for (let bx = 0; bx < sw; bx++) {
         let acc = 0;
-        for (let xx = 0, p = row + bx * factor; xx < fx; xx++, p++) acc += plane.data[p] as number;
+        for (let xx = 0, p = row + bx * factor; xx < fx; xx++, p++) acc += pd[p] as number;
         out[by * sw + bx] = (out[by * sw + bx] as number) + acc;
       }
     }

@@ -31,8 +31,9 @@ export function falseColour(plane: Plane, min: number, max: number): Uint8Array 
   for (let i = 0; i < 256; i++) lut.set(rampColour(i / 255), 3 * i);
   const out = new Uint8Array(plane.width * plane.height * 3);
   const k = 255 / (max - min);
-  for (let i = 0; i < plane.data.length; i++) {
-    const v = plane.data[i] as number;
+  const data = plane.data;
+  for (let i = 0, n = data.length; i < n; i++) {
+    const v = data[i] as number;
     if (v !== v) continue;
     const j = Math.max(0, Math.min(255, Math.round((v - min) * k))) * 3;
     out[3 * i] = lut[j] as number;

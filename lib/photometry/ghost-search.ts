@@ -1,4 +1,3 @@
-import { forEachBandPixel } from './band';
 import { crossCorrelate, nextPow2, toComplex } from './fft2d';
 import { strided } from './detect-screen';
 import { robustSigma } from './percentile';
@@ -26,18 +25,33 @@ function valueAt(p: Plane, x: number, y: number): number {
 
 // least-squares fit of band = g·(screen displaced by o): returns Σ D(x+o)·D(x) and Σ D(x)² over the band
 function bandFit(d: Plane, screen: Rect, o: Offset): { c: number; e: number; n: number } {
+  // the band's pixels in forEachBandPixel's order, with the plane read directly
+  const { width: W, height: H, data } = d;
+  const { x: sx, y: sy, w, h } = screen;
+  const { dx, dy } = o;
   let c = 0;
   let e = 0;
   let n = 0;
-  forEachBandPixel(screen, o, (x, y) => {
-    const t = valueAt(d, x, y);
-    const m = valueAt(d, x - o.dx, y - o.dy);
-    if (t === t && m === m) {
-      c += t * m;
-      e += m * m;
-      n++;
+  const span = (y: number, xa: number, xb: number): void => {
+    const ym = y - dy;
+    if (y < 0 || y >= H || ym < 0 || ym >= H) return;
+    const a = Math.max(xa, 0, dx);
+    const b = Math.min(xb, W, W + dx);
+    for (let x = a, i = y * W + a, j = ym * W + a - dx; x < b; x++, i++, j++) {
+      const t = data[i] as number;
+      const m = data[j] as number;
+      if (t === t && m === m) {
+        c += t * m;
+        e += m * m;
+        n++;
+      }
     }
-  });
+  };
+  for (let y = sy + dy; y < sy + dy + h; y++) {
+    if (y < sy || y >= sy + h) span(y, sx + dx, sx + dx + w);
+    else if (dx > 0) span(y, Math.max(sx + w, sx + dx), sx + dx + w);
+    else if (dx < 0) span(y, sx + dx, Math.min(sx, sx + dx + w));
+  }
   return { c, e, n };
 }
 
@@ -66,14 +80,16 @@ export function searchGhost(d: Plane, screen: Rect, minOffset: number): GhostCan
   dom.h = Math.min(H, screen.y + screen.h + ry) - dom.y;
 
   // noise of D outside the screen, where only the ghost and noise remain
-  const outside: number[] = [];
+  const outsideAll = new Float64Array(dom.w * dom.h);
+  let nOut = 0;
   for (let y = dom.y; y < dom.y + dom.h; y++) {
     for (let x = dom.x; x < dom.x + dom.w; x++) {
       const inside = x >= screen.x && x < screen.x + screen.w && y >= screen.y && y < screen.y + screen.h;
-      if (!inside) outside.push(valueAt(d, x, y));
+      if (!inside) outsideAll[nOut++] = valueAt(d, x, y);
     }
   }
-  if (outside.length === 0) return null;
+  if (nOut === 0) return null;
+  const outside = outsideAll.subarray(0, nOut);
   const sigma = Math.max(robustSigma(strided(outside, 100_000)), 1e-12);
 
   // coarse search on a box-reduced copy of the domain by FFT cross-correlation

@@ -116,8 +116,10 @@ export function registerPhotos(input: RegistrationInput): Offset & { peak: numbe
   if (referenceSmall.width !== movingSmall.width || referenceSmall.height !== movingSmall.height) throw new RangeError('downsampled planes differ in size');
   const r = Math.max(1, Math.ceil(Math.max(referenceSmall.width, referenceSmall.height) / COARSE_SIZE));
   const scale = r * factor;
-  const ga = logGradient(boxDownsample(referenceSmall, r));
-  const gb = logGradient(boxDownsample(movingSmall, r));
+  const ra = boxDownsample(referenceSmall, r);
+  const rb = boxDownsample(movingSmall, r);
+  const ga = logGradient(ra);
+  const gb = logGradient(rb);
   const coarseMax = Math.max(1, Math.ceil(input.maxShift / scale) + 1);
   const coarse = phaseCorrelate(ga, gb, Math.min(coarseMax, ga.width, ga.height));
   const d0: Offset = { dx: coarse.dx * scale, dy: coarse.dy * scale };
@@ -125,7 +127,7 @@ export function registerPhotos(input: RegistrationInput): Offset & { peak: numbe
 
   // the window plus the search reach fits one power-of-two transform
   const fineSize = Math.min(FINE_SIZE - (scale + 2), reference.width, reference.height);
-  const win = texturedWindow(boxDownsample(referenceSmall, r), boxDownsample(movingSmall, r), coarse, Math.max(1, Math.round(fineSize / scale)));
+  const win = texturedWindow(ra, rb, coarse, Math.max(1, Math.round(fineSize / scale)));
   const rect: Rect = {
     x: Math.min(reference.width - fineSize, win.x * scale),
     y: Math.min(reference.height - fineSize, win.y * scale),

@@ -18,15 +18,18 @@ export function shiftPlane(plane: Plane, dx: number, dy: number): Plane {
 /** Element-wise a − b (NaN propagates). */
 export function subtractPlanes(a: Plane, b: Plane): Plane {
   if (a.width !== b.width || a.height !== b.height) throw new RangeError('planes must have the same size');
-  const out = new Float32Array(a.data.length);
-  for (let i = 0; i < out.length; i++) out[i] = (a.data[i] as number) - (b.data[i] as number);
+  const ad = a.data;
+  const bd = b.data;
+  const out = new Float32Array(ad.length);
+  for (let i = 0, n = out.length; i < n; i++) out[i] = (ad[i] as number) - (bd[i] as number);
   return { data: out, width: a.width, height: a.height };
 }
 
 /** The plane multiplied by a constant. */
 export function scalePlane(p: Plane, k: number): Plane {
   if (k === 1) return p;
-  const out = new Float32Array(p.data.length);
-  for (let i = 0; i < out.length; i++) out[i] = (p.data[i] as number) * k;
+  const pd = p.data;
+  const out = new Float32Array(pd.length);
+  for (let i = 0, n = out.length; i < n; i++) out[i] = (pd[i] as number) * k;
   return { data: out, width: p.width, height: p.height };
 }
