@@ -132,6 +132,23 @@ redis_stop() {
   rm -f "$data/redis/redis.pid"
 }
 
+# s3_fake_start RUN_DIR PORT: the S3-compatible fake on 127.0.0.1 (objects under DATA_DIR/s3), with
+# the S3_* settings exported so tests can reach it; STORAGE_DRIVER is left as it is.
+s3_fake_start() {
+  local run="$1" port="$2" i
+  export S3_ENDPOINT="http://127.0.0.1:$port" S3_BUCKET="${S3_BUCKET:-veilmeter-test}"
+  export S3_ACCESS_KEY_ID=S3RVER S3_SECRET_ACCESS_KEY=S3RVER
+  setsid npx tsx "$ROOT/scripts/s3-fake.ts" >"$run/s3.log" 2>&1 & echo $! > "$run/s3.pid"
+  for i in $(seq 1 150); do
+    grep -q ready "$run/s3.log" 2>/dev/null && { log "S3 fake on 127.0.0.1:$port"; return; }
+    kill -0 "$(cat "$run/s3.pid")" 2>/dev/null || break
+    sleep 0.1
+  done
+  cat "$run/s3.log" >&2; fail "the S3 fake did not start (log above)"
+}
+
+s3_fake_stop() { stop_pidfile "$1/s3.pid"; }
+
 # Secrets are made once per data folder and kept there (git-ignored).
 load_secrets() {
   local data="$1" f="$1/secrets.env"

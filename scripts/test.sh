@@ -8,6 +8,7 @@ set -e
 
 export PORT="${TEST_PORT:-3107}" PGPORT="${TEST_PGPORT:-54339}" REDIS_PORT="${TEST_REDIS_PORT:-63809}"
 export SMTP_PORT="${TEST_SMTP_PORT:-2539}"
+S3_FAKE_PORT="${TEST_S3_PORT:-45689}"
 mkdir -p .test-data
 export DATA_DIR="$(mktemp -d "$ROOT/.test-data/run-XXXXXX")"
 export PGDATABASE=veilmeter_test NODE_ENV=production VEILMETER_TEST=1
@@ -34,6 +35,7 @@ pg_start "$DATA_DIR" "$PGPORT" throwaway
 pg_ensure_db "$PGPORT" "$PGDATABASE"
 redis_start "$DATA_DIR" "$REDIS_PORT" throwaway
 setsid npx tsx scripts/mail-catcher.ts >"$RUN/mail.log" 2>&1 & echo $! > "$RUN/mail.pid"
+s3_fake_start "$RUN" "$S3_FAKE_PORT"
 
 npx tsx db/migrate.ts latest
 npx tsx db/seeds/run.ts --if-empty

@@ -4,6 +4,7 @@ import { UnrecoverableError, type SandboxedJob } from 'bullmq';
 import { markAnalysisFailed, markAnalysisRetrying } from '../../db/queries/analyses';
 import { isEngineInputError } from '../../lib/photometry/errors';
 import { analysisJobSchema } from '../../lib/queue/names';
+import { isStorageUnavailable } from '../../lib/storage/s3';
 import { runAnalysis, testerMessage, type RunOutcome } from './run-analysis';
 
 export const INTERNAL_FAILURE = 'The analysis stopped on an internal error after several tries. Run it again; if it fails again, tell your lab admin.';
@@ -22,7 +23,11 @@ export default async function processAnalysis(job: SandboxedJob): Promise<RunOut
     const last = job.attemptsMade + 1 >= (job.opts.attempts ?? 1);
     const detail = e instanceof Error ? e.message : String(e);
     console.error(`[worker] analysis ${analysisId} attempt ${job.attemptsMade + 1} failed: ${detail}`);
-    await (last ? markAnalysisFailed(labId, analysisId, INTERNAL_FAILURE) : markAnalysisRetrying(labId, analysisId, 'A transient problem interrupted the analysis; it will be retried.')).catch(() => undefined);
+    // an unreachable object store is the operator's to fix, so the tester is told which part is away
+    const storeDown = isStorageUnavailable(e);
+    const failure = storeDown ? `The photo store could not be reached, so the analysis stopped after ${job.attemptsMade + 1} tries. Run it again once the store is back; if it stays away, tell your lab admin.` : INTERNAL_FAILURE;
+    const retrying = storeDown ? 'The photo store did not answer; the analysis will be retried.' : 'A transient problem interrupted the analysis; it will be retried.';
+    await (last ? markAnalysisFailed(labId, analysisId, failure) : markAnalysisRetrying(labId, analysisId, retrying)).catch(() => undefined);
     throw e;
   }
 }
