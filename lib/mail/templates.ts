@@ -20,3 +20,21 @@ export function resetMail(to: string, link: string): Mail {
   const lines = ['Someone asked to reset the password of this Veilmeter account. If it was not you, ignore this message.', 'The link works once and expires in one hour.'];
   return { to, subject: 'Reset your Veilmeter password', text: `${lines.join('\n')}\n\nReset: ${link}\n`, html: wrap('Reset your password', lines, { href: link, label: 'Choose a new password' }) };
 }
+
+/** To a lead: a new reading turned a revision to failing one or more of the project's targets. */
+export function targetFailedMail(
+  to: string,
+  info: { projectName: string; revisionLabel: string; failures: { target: string; condition: string; mean: string; n: number }[]; link: string },
+): Mail {
+  const lines = [
+    `Revision ${info.revisionLabel} of “${info.projectName}” now fails ${info.failures.length === 1 ? 'a target' : `${info.failures.length} targets`} after a new reading:`,
+    ...info.failures.map((f) => `${f.target}${f.condition ? ` (${f.condition})` : ''}: mean ${f.mean} over ${f.n} capture set${f.n === 1 ? '' : 's'}.`),
+    'Targets are judged on the mean of the newest reading of every capture set. You get this once when the revision turns to failing, not for every reading after.',
+  ];
+  return {
+    to,
+    subject: `${info.revisionLabel} fails a target · ${info.projectName}`,
+    text: `${lines.join('\n')}\n\nOpen the revision: ${info.link}\n`,
+    html: wrap(`${info.revisionLabel} fails a target`, lines, { href: info.link, label: 'Open the revision' }),
+  };
+}

@@ -8,6 +8,7 @@ import { analyzeFiles, type PhotoSource } from '../../lib/image';
 import { EngineInputError } from '../../lib/photometry/errors';
 import type { PhotoRole } from '../../lib/photometry/types';
 import { artifactKey, getStorage } from '../../lib/storage';
+import { notifyTargetFailures } from '../../lib/targets/notify';
 
 export type RunOutcome = { status: 'done'; readingId: string } | { status: 'skipped' };
 
@@ -91,6 +92,12 @@ export async function runAnalysis(labId: string, analysisId: string, onProgress?
     await markAnalysisDone(labId, analysisId, result.engineVersion, trx);
     return id;
   });
+  // the reading is saved: a failed target check or mail must never turn the analysis into a failure
+  try {
+    await notifyTargetFailures(labId, set.revisionId);
+  } catch (err) {
+    console.error('[veilmeter] target check after analysis', analysisId, 'failed:', err instanceof Error ? err.message : err);
+  }
   onProgress?.(100);
   return { status: 'done', readingId };
 }

@@ -1,0 +1,48 @@
+import { getDb } from '../index';
+import { METRIC_LIST, type MetricKey } from '../../lib/targets/metrics';
+import { buildTrends, type RevisionRef, type SetReading, type Trend } from '../../lib/targets/series';
+
+const METRIC_COLUMNS = METRIC_LIST.map((m) => `g.${m.column}`);
+
+type Row = { id: string; capture_set_id: string; capture_label: string; revision_id: string; variant: string; created_at: Date } & Record<string, unknown>;
+
+const num = (v: unknown): number | null => (typeof v === 'number' && Number.isFinite(v) ? v : null);
+
+export function toSetReading(r: Row): SetReading {
+  const values = {} as Record<MetricKey, number | null>;
+  for (const m of METRIC_LIST) values[m.key] = num(r[m.column]);
+  return { readingId: r.id, captureSetId: r.capture_set_id, captureLabel: r.capture_label, revisionId: r.revision_id, variant: r.variant, createdAt: r.created_at, values };
+}
+
+/**
+ * The newest reading of each capture set of a project (re-runs keep their history; only the
+ * latest counts), optionally of one revision and one variant. The variant is the capture set's
+ * current label, so a renamed variant moves its captures with it.
+ */
+export async function listNewestReadings(labId: string, filter: { projectId?: string; revisionId?: string; variant?: string | null }): Promise<SetReading[]> {
+  const db = getDb();
+  const q = db
+    .select(db.raw('DISTINCT ON (g.capture_set_id) g.id'), 'g.capture_set_id', 'c.label as capture_label', 'g.revision_id', 'c.variant', 'g.created_at', ...METRIC_COLUMNS)
+    .from('readings as g')
+    .join('capture_sets as c', 'c.id', 'g.capture_set_id')
+    .where('g.lab_id', labId);
+  if (filter.projectId) q.andWhere('g.project_id', filter.projectId);
+  if (filter.revisionId) q.andWhere('g.revision_id', filter.revisionId);
+  if (filter.variant !== undefined && filter.variant !== null) q.andWhere('c.variant', filter.variant);
+  const rows: Row[] = await q.orderBy([{ column: 'g.capture_set_id' }, { column: 'g.created_at', order: 'desc' }]);
+  return rows.map(toSetReading).sort((a, b) => a.createdAt.getTime() - b.createdAt.getTime() || a.captureLabel.localeCompare(b.captureLabel));
+}
+
+export async function listRevisionRefs(labId: string, projectId: string): Promise<RevisionRef[]> {
+  return getDb()('revisions').where({ lab_id: labId, project_id: projectId }).orderBy([{ column: 'position' }, { column: 'label' }]).select<RevisionRef[]>('id', 'label', 'position');
+}
+
+export type ProjectTrend = { revisions: RevisionRef[]; readings: SetReading[]; trends: Record<MetricKey, Trend> };
+
+/** Everything the trend chart needs for one project, or null when the project is not in this lab. */
+export async function getProjectTrend(labId: string, projectId: string): Promise<ProjectTrend | null> {
+  const project = await getDb()('projects').where({ lab_id: labId, id: projectId }).first('id');
+  if (!project) return null;
+  const [revisions, readings] = await Promise.all([listRevisionRefs(labId, projectId), listNewestReadings(labId, { projectId })]);
+  return { revisions, readings, trends: buildTrends(revisions, readings) };
+}

@@ -1,0 +1,54 @@
+import { compareVerdict, type TwoSampleResult, type VerdictLevel } from '../stats';
+import { METRIC_LIST, type MetricKey } from './metrics';
+import { groupStats, values, type GroupStats, type SetReading } from './series';
+
+/** A revision, optionally narrowed to one variant ('' is the captures without a variant label). */
+export type GroupKey = { revisionId: string; variant: string | null };
+
+/** URL form: "<revisionId>" for the whole revision, "<revisionId>:<variant>" for one variant. */
+export function encodeGroup(g: GroupKey): string {
+  return g.variant === null ? g.revisionId : `${g.revisionId}:${g.variant}`;
+}
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+/** Null for anything that is not a revision id with an optional variant. */
+export function decodeGroup(s: string | null | undefined): GroupKey | null {
+  if (!s) return null;
+  const i = s.indexOf(':');
+  const revisionId = i < 0 ? s : s.slice(0, i);
+  if (!UUID.test(revisionId)) return null;
+  const variant = i < 0 ? null : s.slice(i + 1);
+  if (variant !== null && variant.length > 80) return null;
+  return { revisionId: revisionId.toLowerCase(), variant };
+}
+
+export function groupLabel(revisionLabel: string, variant: string | null): string {
+  if (variant === null) return revisionLabel;
+  return `${revisionLabel} · ${variant || 'no variant label'}`;
+}
+
+export type MetricComparison = {
+  metric: MetricKey;
+  a: GroupStats;
+  b: GroupStats;
+  /** Welch test of B − A; null below 3 captures in either group or without scatter data. */
+  test: TwoSampleResult | null;
+  level: VerdictLevel | 'no-data';
+  verdict: string;
+};
+
+/** Every metric of group B against group A (the baseline), with the plain-words verdict. */
+export function compareGroups(a: { label: string; readings: readonly SetReading[] }, b: { label: string; readings: readonly SetReading[] }): MetricComparison[] {
+  return METRIC_LIST.map((m) => {
+    const va = values(a.readings, m.key);
+    const vb = values(b.readings, m.key);
+    const sa = groupStats(va);
+    const sb = groupStats(vb);
+    if (va.length === 0 || vb.length === 0) {
+      return { metric: m.key, a: sa, b: sb, test: null, level: 'no-data', verdict: `No ${m.label.toLowerCase()} readings in ${va.length === 0 ? a.label : b.label}.` };
+    }
+    const v = compareVerdict({ baseline: va, variant: vb, subject: `${b.label} (against ${a.label})`, metric: m.phrase, unit: m.unit === ':1' ? '' : m.unit, minPerGroup: 3 });
+    return { metric: m.key, a: sa, b: sb, test: v.comparison, level: v.level, verdict: v.text };
+  });
+}

@@ -1,0 +1,51 @@
+import { getDb } from '../../db/index';
+import { checkRevisionTargets, listLeadEmails, recordTargetState } from '../../db/queries/targets';
+import { getEnv } from '../env';
+import { targetFailedMail } from '../mail/templates';
+import { sendMail } from '../mail/transport';
+import { comparatorWords, type TargetCheck } from './evaluate';
+import { formatMetric, METRICS } from './metrics';
+
+export type NotifyOutcome = { newlyFailing: TargetCheck[]; mailed: string[] };
+
+/**
+ * After a reading lands: judges the revision's targets, records each one's state, and mails the
+ * lab's leads about the targets that have just turned to failing. A revision that keeps failing
+ * sends nothing more; one that passes again and fails later sends again.
+ */
+export async function notifyTargetFailures(labId: string, revisionId: string): Promise<NotifyOutcome> {
+  const rev = await getDb()('revisions as r')
+    .join('projects as p', 'p.id', 'r.project_id')
+    .where({ 'r.lab_id': labId, 'r.id': revisionId })
+    .first<{ project_id: string; project_name: string; label: string } | undefined>('r.project_id', 'p.name as project_name', 'r.label');
+  if (!rev) return { newlyFailing: [], mailed: [] };
+  const checks = await checkRevisionTargets(labId, rev.project_id, revisionId);
+  const newlyFailing: TargetCheck[] = [];
+  for (const c of checks) {
+    if (c.status === 'no-data') continue;
+    const failing = c.status === 'fail';
+    const changed = await recordTargetState(labId, c.target.id, revisionId, failing);
+    if (changed && failing) newlyFailing.push(c);
+  }
+  if (newlyFailing.length === 0) return { newlyFailing, mailed: [] };
+  const leads = await listLeadEmails(labId);
+  const link = `${getEnv().NEXTAUTH_URL.replace(/\/$/, '')}/projects/${rev.project_id}/revisions/${revisionId}`;
+  const failures = newlyFailing.map((c) => ({
+    target: `${METRICS[c.target.metric].label} ${comparatorWords(c.target.comparator)} ${formatMetric(c.target.metric, c.target.value)}`,
+    condition: c.target.conditionNote,
+    mean: formatMetric(c.target.metric, c.mean),
+    n: c.n,
+  }));
+  const mailed: string[] = [];
+  try {
+    for (const to of leads) {
+      await sendMail(targetFailedMail(to, { projectName: rev.project_name, revisionLabel: rev.label, failures, link }));
+      mailed.push(to);
+    }
+  } catch (err) {
+    // forget the new state so the next reading tries the mail again instead of never sending it
+    await getDb()('target_states').where({ lab_id: labId, revision_id: revisionId }).whereIn('target_id', newlyFailing.map((c) => c.target.id)).delete();
+    throw err;
+  }
+  return { newlyFailing, mailed };
+}

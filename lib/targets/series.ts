@@ -1,0 +1,74 @@
+import { summarise } from '../stats';
+import { METRIC_KEYS, type MetricKey } from './metrics';
+
+/** The newest reading of one capture set, reduced to what trends, comparisons and targets need. */
+export type SetReading = {
+  readingId: string;
+  captureSetId: string;
+  captureLabel: string;
+  revisionId: string;
+  variant: string;
+  createdAt: Date;
+  values: Record<MetricKey, number | null>;
+};
+
+export type RevisionRef = { id: string; label: string; position: number };
+
+export type GroupStats = {
+  n: number;
+  mean: number | null;
+  sd: number | null;
+  /** 95% CI of the mean with Student's t; null below two values. */
+  low: number | null;
+  high: number | null;
+  halfWidth: number | null;
+};
+
+export type TrendPoint = { captureSetId: string; label: string; variant: string; value: number };
+
+export type TrendRevision = RevisionRef & { stats: GroupStats; points: TrendPoint[] };
+
+export type Trend = { metric: MetricKey; revisions: TrendRevision[] };
+
+export function values(readings: readonly SetReading[], metric: MetricKey): number[] {
+  const out: number[] = [];
+  for (const r of readings) {
+    const v = r.values[metric];
+    if (v !== null && Number.isFinite(v)) out.push(v);
+  }
+  return out;
+}
+
+/** n, mean, SD and the 95% CI from lib/stats; an empty group has only n = 0. */
+export function groupStats(vals: readonly number[]): GroupStats {
+  if (vals.length === 0) return { n: 0, mean: null, sd: null, low: null, high: null, halfWidth: null };
+  const s = summarise(vals);
+  return { n: s.n, mean: s.mean, sd: s.sd, low: s.ci?.low ?? null, high: s.ci?.high ?? null, halfWidth: s.ci?.halfWidth ?? null };
+}
+
+/** One trend per metric across the revisions in their order; revisions without readings stay, empty. */
+export function buildTrends(revisions: readonly RevisionRef[], readings: readonly SetReading[]): Record<MetricKey, Trend> {
+  const ordered = [...revisions].sort((a, b) => a.position - b.position || a.label.localeCompare(b.label));
+  const byRevision = new Map<string, SetReading[]>();
+  for (const r of readings) {
+    const list = byRevision.get(r.revisionId);
+    if (list) list.push(r);
+    else byRevision.set(r.revisionId, [r]);
+  }
+  const out = {} as Record<MetricKey, Trend>;
+  for (const metric of METRIC_KEYS) {
+    out[metric] = {
+      metric,
+      revisions: ordered.map((rev) => {
+        const rs = byRevision.get(rev.id) ?? [];
+        const points: TrendPoint[] = [];
+        for (const r of rs) {
+          const v = r.values[metric];
+          if (v !== null && Number.isFinite(v)) points.push({ captureSetId: r.captureSetId, label: r.captureLabel, variant: r.variant, value: v });
+        }
+        return { id: rev.id, label: rev.label, position: rev.position, stats: groupStats(points.map((p) => p.value)), points };
+      }),
+    };
+  }
+  return out;
+}
