@@ -1,12 +1,9 @@
 'use server';
 
-import { cookies } from 'next/headers';
 import { ZodError } from 'zod';
 import { acceptInvitation, findOpenInvitation } from '@/db/queries/invitations';
 import { getUserByEmail } from '@/db/queries/users';
 import { hashPassword, verifyPassword } from '@/lib/auth/password';
-import { LAB_COOKIE } from '@/lib/auth/lab-cookie';
-import { getEnv } from '@/lib/env';
 import { AppError } from '@/lib/errors';
 import { invitationAcceptSchema, newAccountSchema } from '@/lib/schemas/team';
 import { echoValues, type FormState } from '@/lib/auth/action';
@@ -50,7 +47,8 @@ export async function acceptInvitationAction(_prev: FormState, form: FormData): 
       return user.id;
     });
     if (!done) return { ok: false, message: 'This invitation has been used, withdrawn or has expired. Ask your lab admin for a new one.' };
-    (await cookies()).set(LAB_COOKIE, done.labId, { httpOnly: true, sameSite: 'lax', path: '/', secure: getEnv().NEXTAUTH_URL.startsWith('https://') });
+    // No cookie is set here: that would re-render this page (now a spent link) before the form
+    // can sign the person in. A person with several labs picks the new one in the lab switcher.
     return { ok: true, message: inv.email };
   } catch (err) {
     if (err instanceof ZodError) return { ok: false, message: 'Check the highlighted fields', fieldErrors: zodFieldErrors(err), values: echoValues(form) };

@@ -10,19 +10,19 @@ import type { FormState } from '@/lib/auth/action';
 
 export function AcceptInvitationForm({ token, email, accountExists }: { token: string; email: string; accountExists: boolean }) {
   const [state, action, pending] = useActionState<FormState, FormData>(acceptInvitationAction, {});
-  const ref = useRef<HTMLFormElement>(null);
+  // React clears the form once the action returns, so the password is kept from the submit.
+  const typed = useRef('');
   const router = useRouter();
   useEffect(() => {
-    if (!state.ok || !ref.current) return;
-    const password = String(new FormData(ref.current).get('password') ?? '');
-    void signIn('credentials', { email, password, redirect: false }).then(() => {
+    if (!state.ok) return;
+    void signIn('credentials', { email, password: typed.current, redirect: false }).then(() => {
       router.replace('/projects');
       router.refresh();
     });
   }, [state, email, router]);
   const fe = state.fieldErrors ?? {};
   return (
-    <form ref={ref} action={action} className="space-y-4" noValidate>
+    <form action={action} onSubmit={(e) => (typed.current = String(new FormData(e.currentTarget).get('password') ?? ''))} className="space-y-4" noValidate>
       <input type="hidden" name="token" value={token} />
       {state.message && !state.ok ? (
         <p role="alert" className="text-sm text-fail">

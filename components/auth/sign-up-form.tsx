@@ -11,13 +11,13 @@ import type { FormState } from '@/lib/auth/action';
 
 export function SignUpForm() {
   const [state, action, pending] = useActionState<FormState, FormData>(signUpAction, {});
-  const formRef = useRef<HTMLFormElement>(null);
+  // React clears the form once the action returns, so the credentials are kept from the submit.
+  const typed = useRef({ email: '', password: '' });
   const router = useRouter();
 
   useEffect(() => {
-    if (!state.ok || !formRef.current) return;
-    const form = new FormData(formRef.current);
-    void signIn('credentials', { email: String(form.get('email')), password: String(form.get('password')), redirect: false }).then(() => {
+    if (!state.ok) return;
+    void signIn('credentials', { ...typed.current, redirect: false }).then(() => {
       router.replace('/projects');
       router.refresh();
     });
@@ -25,7 +25,15 @@ export function SignUpForm() {
 
   const fe = state.fieldErrors ?? {};
   return (
-    <form ref={formRef} action={action} className="space-y-4" noValidate>
+    <form
+      action={action}
+      onSubmit={(e) => {
+        const f = new FormData(e.currentTarget);
+        typed.current = { email: String(f.get('email') ?? ''), password: String(f.get('password') ?? '') };
+      }}
+      className="space-y-4"
+      noValidate
+    >
       <h1 className="text-lg font-semibold">Start a lab</h1>
       <p className="text-sm text-muted">You become the lab&apos;s admin and can invite your team afterwards.</p>
       {state.message && !state.ok ? (

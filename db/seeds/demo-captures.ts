@@ -47,6 +47,17 @@ export async function seedDemoCaptures(labId: string, testerId: string, log: (li
   let seed = 1;
   for (const [projectName, plans] of Object.entries(DEMO_PLANS)) {
     const project = await db('projects').where({ lab_id: labId, name: projectName }).first<{ id: string }>('id');
+    await db('region_templates').insert({
+      lab_id: labId,
+      project_id: project.id,
+      name: 'Bench jig A',
+      image_width: W,
+      image_height: H,
+      regions: JSON.stringify([
+        { kind: 'screen', ...SCREEN },
+        { kind: 'background', ...BACKGROUND },
+      ]),
+    });
     for (const plan of plans) {
       const rev = await db('revisions').where({ lab_id: labId, project_id: project.id, label: plan.revision }).first<{ id: string }>('id');
       await db('revisions').where({ id: rev.id }).update({ stack: JSON.stringify(getStackTemplate(plan.template).stack) });

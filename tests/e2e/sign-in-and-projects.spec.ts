@@ -49,3 +49,20 @@ test('the create form shows field errors for an empty or 500-character name', as
   await page.getByRole('button', { name: 'Create project' }).click();
   await expect(page.getByText('Use at most 120 characters')).toBeVisible();
 });
+
+test('sign-up creates a lab whose creator is its admin, and signs them in', async ({ page }) => {
+  const email = `founder-${Date.now()}@example.test`;
+  await page.goto('/sign-up');
+  await page.getByLabel('Your name').fill('Mira Castellan');
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill('short');
+  await page.getByLabel('Lab name').fill('Castellan optics bench');
+  await page.getByRole('button', { name: 'Create lab' }).click();
+  await expect(page.getByText('Use at least 10 characters')).toBeVisible();
+  await expect(page.getByLabel('Lab name')).toHaveValue('Castellan optics bench');
+  await page.getByLabel('Password').fill('a-long-enough-password');
+  await page.getByRole('button', { name: 'Create lab' }).click();
+  await page.waitForURL('**/projects');
+  await expect(page.getByTestId('role')).toHaveText('Admin');
+  await expect(page.getByText('Castellan optics bench').first()).toBeVisible();
+});

@@ -1,10 +1,10 @@
 import { NextResponse } from 'next/server';
 import { listProjects } from '@/db/queries/projects';
 import { listRevisions } from '@/db/queries/revisions';
-import { withToken } from '@/lib/auth/with-token';
+import { withAuth } from '@/lib/auth/with-auth';
 
-/** The token's lab: projects with their revisions, so a rig can find where to upload. */
-export const GET = withToken(
+/** The lab's projects with their revisions, so a rig can find where its captures belong. */
+export const GET = withAuth(
   async (_req, { actor }) => {
     const projects = await listProjects(actor.labId);
     const out = [];
@@ -14,5 +14,5 @@ export const GET = withToken(
     }
     return NextResponse.json({ projects: out });
   },
-  { scope: 'read', permission: 'project.read' },
+  { permission: 'project.read' },
 );

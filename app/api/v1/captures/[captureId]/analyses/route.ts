@@ -1,0 +1,1 @@
+export { GET, POST } from '../../../../captures/[captureId]/analyses/route';

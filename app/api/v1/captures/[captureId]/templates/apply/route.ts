@@ -1,0 +1,1 @@
+export { POST } from '../../../../../captures/[captureId]/templates/apply/route';

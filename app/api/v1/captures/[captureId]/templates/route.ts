@@ -1,0 +1,1 @@
+export { GET } from '../../../../captures/[captureId]/templates/route';
