@@ -115,7 +115,7 @@ async function stopChild(child: ChildProcess | undefined): Promise<void> {
   }
 }
 
-let env: NodeJS.ProcessEnv = {};
+let env: NodeJS.ProcessEnv = { ...process.env };
 let s3: ChildProcess | undefined;
 const startS3 = async () => {
   s3 = await spawnReady(['scripts/s3-fake.ts'], env, 'S3 fake');
