@@ -1,10 +1,10 @@
 import { readFile } from 'node:fs/promises';
 import { basename } from 'node:path';
-import { analyzeCaptureDetailed, preparePhoto, type CapturePhoto } from '../photometry/analyze-capture';
+import { analyzeCaptureDetailed, preparePhoto, type AnalysisMemo, type CapturePhoto } from '../photometry/analyze-capture';
 import { EngineInputError } from '../photometry/errors';
 import type { CaptureResult } from '../photometry/result';
 import type { Offset, Pattern, PhotoRole, Rect } from '../photometry/types';
-import { renderArtifacts, type Artifacts } from './artifacts';
+import { renderArtifacts, renderMapImages, type Artifacts, type MapImages } from './artifacts';
 import { decodePhoto } from './decode';
 
 /** A photo by path or as bytes already in memory (the worker reads from storage). */
@@ -54,14 +54,51 @@ export async function analyzeFiles(options: AnalyzeFilesOptions): Promise<FileAn
   const files = await Promise.all(sources.map(([role, s]) => load(s, role)));
   progress('decode', 0.05);
   // each photo's downsampled plane is made as soon as it is decoded, while the others still decode
-  const photos = await Promise.all(
-    files.map(async (f, k) => {
-      const role = (sources[k] as [PhotoRole, PhotoSource])[0];
-      const decoded = await decodePhoto(f.bytes, { name: `the ${role} photo ${f.name}`, linear16: options.linear16 ?? false });
-      const photo: CapturePhoto = { raster: decoded.raster, exposure: decoded.exposure, small: preparePhoto(decoded.raster) };
-      return [role, photo] as const;
-    }),
-  );
+  const decodeOne = async (k: number, onDecodeStarted?: () => void): Promise<readonly [PhotoRole, CapturePhoto]> => {
+    const f = files[k] as { name: string; bytes: Uint8Array };
+    const role = (sources[k] as [PhotoRole, PhotoSource])[0];
+    const decoded = await decodePhoto(f.bytes, { name: `the ${role} photo ${f.name}`, linear16: options.linear16 ?? false, onDecodeStarted });
+    const photo: CapturePhoto = { raster: decoded.raster, exposure: decoded.exposure, small: preparePhoto(decoded.raster) };
+    return [role, photo] as const;
+  };
+  const common = {
+    pattern: options.pattern ?? 'full',
+    screen: options.screen ?? null,
+    background: options.background ?? null,
+    ghostOffset: options.ghostOffset ?? null,
+    calibration: options.calibration ?? null,
+  } as const;
+  const wantArtifacts = options.artifacts !== false;
+  const memo: AnalysisMemo = new Map();
+  let photos: (readonly [PhotoRole, CapturePhoto])[];
+  let early: Promise<MapImages | null> | null = null;
+  if (files.length <= 2) {
+    photos = await Promise.all(files.map((_, k) => decodeOne(k)));
+  } else {
+    // on and off first, with both cores; the other photos decode while the on/off part of the
+    // analysis runs (registration, detection, ghost search, on/off region sums, maps) into the memo
+    const pair = await Promise.all([decodeOne(0), decodeOne(1)]);
+    let started = 0;
+    let allStarted: () => void = (): void => undefined;
+    const startedAll = new Promise<void>((resolve) => (allStarted = resolve));
+    const restCount = files.length - 2;
+    const onStarted = (): void => {
+      if (++started === restCount) allStarted();
+    };
+    const rest = Promise.all(files.slice(2).map((_, k) => decodeOne(k + 2, onStarted)));
+    // a decode error is reported below, when the rest is awaited
+    rest.catch((): void => undefined);
+    await Promise.race([startedAll, rest.then(() => undefined, () => undefined)]);
+    try {
+      const partial = analyzeCaptureDetailed({ on: (pair[0] as readonly [PhotoRole, CapturePhoto])[1], off: (pair[1] as readonly [PhotoRole, CapturePhoto])[1], ...common, memo });
+      if (wantArtifacts) {
+        early = renderMapImages(partial.maps).catch(() => null);
+      }
+    } catch {
+      // the analysis of the full set below meets the same problem and reports it
+    }
+    photos = [...pair, ...(await rest)];
+  }
   const byRole = Object.fromEntries(photos) as Partial<Record<PhotoRole, CapturePhoto>>;
   progress('analyse', 0.4);
   const { result, maps } = analyzeCaptureDetailed({
@@ -69,14 +106,11 @@ export async function analyzeFiles(options: AnalyzeFilesOptions): Promise<FileAn
     off: byRole.off as CapturePhoto,
     ambient: byRole.ambient ?? null,
     dark: byRole.dark ?? null,
-    pattern: options.pattern ?? 'full',
-    screen: options.screen ?? null,
-    background: options.background ?? null,
-    ghostOffset: options.ghostOffset ?? null,
-    calibration: options.calibration ?? null,
+    ...common,
+    memo,
     onProgress: (stage, f) => progress(stage, 0.4 + 0.5 * f),
   });
-  const artifacts = options.artifacts === false ? null : await renderArtifacts(maps);
+  const artifacts = wantArtifacts ? await renderArtifacts(maps, early ? await early : null) : null;
   progress('done', 1);
   return { result, artifacts };
 }

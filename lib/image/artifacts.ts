@@ -33,11 +33,28 @@ async function png(p: Plane, min: number, max: number): Promise<Buffer> {
   return sharp(rgb, { raw: { width: p.width, height: p.height, channels: 3 } }).png({ compressionLevel: 2, adaptiveFiltering: false }).toBuffer();
 }
 
-/** Encodes the map planes as false-colour PNGs and gathers the histogram data. */
-export async function renderArtifacts(maps: AnalysisMaps): Promise<Artifacts> {
+export interface MapImages {
+  /** The planes the images were made from (an analysis of the full set may reuse them when it holds the same planes). */
+  logContrast: Plane;
+  difference: Plane;
+  lcMax: number;
+  dMax: number;
+  logContrastPng: Buffer;
+  differencePng: Buffer;
+}
+
+/** The two false-colour PNGs of the maps, with their scales. */
+export async function renderMapImages(maps: Pick<AnalysisMaps, 'logContrast' | 'difference'>): Promise<MapImages> {
   const lcMax = Math.max(0.05, percentile(sampled(maps.logContrast), 99.5) || 0);
   const dMax = Math.max(1e-6, percentile(sampled(maps.difference), 99.5) || 0);
   const [logContrastPng, differencePng] = await Promise.all([png(maps.logContrast, 0, lcMax), png(maps.difference, 0, dMax)]);
+  return { logContrast: maps.logContrast, difference: maps.difference, lcMax, dMax, logContrastPng, differencePng };
+}
+
+/** Encodes the map planes as false-colour PNGs and gathers the histogram data; `images` made earlier from the same planes are reused. */
+export async function renderArtifacts(maps: AnalysisMaps, images?: MapImages | null): Promise<Artifacts> {
+  const same = images && images.logContrast.data === maps.logContrast.data && images.difference.data === maps.difference.data;
+  const { lcMax, dMax, logContrastPng, differencePng } = same ? images : await renderMapImages(maps);
   return {
     logContrastPng,
     differencePng,

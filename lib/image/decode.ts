@@ -21,6 +21,8 @@ export interface DecodeOptions {
   name?: string;
   /** Treat a 16-bit TIFF's values as linear rather than sRGB-encoded. */
   linear16?: boolean;
+  /** Called once the pixel decode has been handed to sharp's threads (the caller may then keep the main thread busy). */
+  onDecodeStarted?: () => void;
 }
 
 const SEND = 'send JPEG, PNG, TIFF or WebP';
@@ -57,7 +59,9 @@ export async function decodePhoto(buf: Uint8Array, options: DecodeOptions = {}):
   pipeline = sixteen ? pipeline.toColourspace(grey ? 'grey16' : 'rgb16') : pipeline.toColourspace(grey ? 'b-w' : 'srgb');
   let out: { data: Buffer; info: OutputInfo };
   try {
-    out = await pipeline.raw(sixteen ? { depth: 'ushort' } : undefined).toBuffer({ resolveWithObject: true });
+    const pending = pipeline.raw(sixteen ? { depth: 'ushort' } : undefined).toBuffer({ resolveWithObject: true });
+    options.onDecodeStarted?.();
+    out = await pending;
   } catch {
     throw new EngineInputError('not-an-image', `${name} is damaged or truncated and could not be decoded: ${SEND}`);
   }

@@ -49,7 +49,41 @@ export interface CaptureInput {
   /** Camera profile factor k, cd/m² per unit of Y·N²/(t·S). */
   calibration?: number | null;
   onProgress?: (stage: string, fraction: number) => void;
+  /**
+   * Results of pure steps kept by a previous call on some of the same photos (see `AnalysisMemo`):
+   * each is keyed by everything it depends on, so a hit returns what the step would compute.
+   */
+  memo?: AnalysisMemo | null;
 }
+
+/**
+ * Memo of one capture's pure analysis steps. A caller that decodes photos one by one can run the
+ * analysis on the on and off photos while the others still decode, then run it again on the full
+ * set with the same memo: registration, detection, the ghost search, the on/off region sums and the
+ * maps are then found in it instead of computed twice. Use one memo per capture, never across captures.
+ */
+export type AnalysisMemo = Map<string, unknown>;
+
+const objectIds = new WeakMap<object, number>();
+let nextObjectId = 1;
+function idOf(o: object): number {
+  let id = objectIds.get(o);
+  if (id === undefined) {
+    id = nextObjectId++;
+    objectIds.set(o, id);
+  }
+  return id;
+}
+
+function cached<T>(memo: AnalysisMemo | null, key: string, compute: () => T): T {
+  if (!memo) return compute();
+  if (memo.has(key)) return memo.get(key) as T;
+  const v = compute();
+  memo.set(key, v);
+  return v;
+}
+
+const rectKey = (r: Rect): string => `${r.x},${r.y},${r.w},${r.h}`;
 
 export interface CaptureAnalysis {
   result: CaptureResult;
@@ -108,12 +142,15 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
   }
   const scaleOf = (role: PhotoRole): number => (exp.scales as Partial<Record<PhotoRole, number>>)[role] ?? 1;
 
+  const memo = input.memo ?? null;
   const factor = downsampleFactor(W, MAP_MAX_WIDTH);
   const small: Partial<Record<PhotoRole, Plane>> = {};
+  const smallKey: Partial<Record<PhotoRole, string>> = {};
   for (const [role, p] of Object.entries(photos) as [PhotoRole, CapturePhoto][]) {
     const expected = { w: Math.max(1, Math.floor(W / factor)), h: Math.max(1, Math.floor(H / factor)) };
     const given = p.small && p.small.width === expected.w && p.small.height === expected.h ? p.small : preparePhoto(p.raster);
-    small[role] = scalePlane(given, scaleOf(role));
+    smallKey[role] = `${idOf(p.raster)}/${idOf(given)}*${scaleOf(role)}`;
+    small[role] = cached(memo, `small:${smallKey[role]}`, () => scalePlane(given, scaleOf(role)));
   }
   progress('registration', 0.1);
 
@@ -131,14 +168,16 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
       const rs = registerPlanes(dOn, small.dark as Plane, Math.ceil(maxShift / factor));
       r = { dx: rs.dx * factor, dy: rs.dy * factor };
     } else {
-      r = registerPhotos({
-        reference: on,
-        moving: p.raster,
-        referenceSmall: small.on as Plane,
-        movingSmall: small[role] as Plane,
-        factor,
-        maxShift,
-      });
+      r = cached(memo, `register:${smallKey.on}:${smallKey[role]}:${factor}:${maxShift}`, () =>
+        registerPhotos({
+          reference: on,
+          moving: p.raster,
+          referenceSmall: small.on as Plane,
+          movingSmall: small[role] as Plane,
+          factor,
+          maxShift,
+        }),
+      );
     }
     const d = { dx: r.dx, dy: r.dy };
     const dist = Math.hypot(d.dx, d.dy);
@@ -154,8 +193,11 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     const d = registration[role] as Offset;
     return shiftPlane(small[role] as Plane, Math.round(d.dx / factor), Math.round(d.dy / factor));
   };
-  const offSmall = alignedSmall('off');
-  const diffSmall = subtractPlanes(small.on as Plane, offSmall);
+  const diffKey = `${smallKey.on}-${smallKey.off}@${rectKey({ x: (registration.off as Offset).dx, y: (registration.off as Offset).dy, w: factor, h: 0 })}`;
+  const { offSmall, diffSmall } = cached(memo, `diff:${diffKey}`, () => {
+    const o = alignedSmall('off');
+    return { offSmall: o, diffSmall: subtractPlanes(small.on as Plane, o) };
+  });
   // every step-th value of D, computed once (detection and the low-signal check both use it)
   let diffSigma: number | null = null;
   const sampleSigma = (p: Plane): number => {
@@ -176,7 +218,7 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     screen = { ...input.screen };
     screenSource = 'marked';
   } else {
-    const found = detectScreen(diffSmall, sampleSigma(diffSmall));
+    const found = cached(memo, `detect:${diffKey}`, () => detectScreen(diffSmall, sampleSigma(diffSmall)));
     if (!found) throw new EngineInputError('no-screen-found', 'no display light found between the on and off photos: check the display was on, or mark the screen region');
     const x0 = found.x * factor;
     const y0 = found.y * factor;
@@ -204,7 +246,7 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     if (input.ghostOffset) return { offset: { ...input.ghostOffset }, source: 'marked', snr: null };
     const ss = screenSmall();
     if (ss.w < 1 || ss.h < 1) return null;
-    const c = searchGhost(d, ss, 2 / factor);
+    const c = d === diffSmall ? cached(memo, `ghost:${diffKey}:${rectKey(ss)}:${factor}`, () => searchGhost(d, ss, 2 / factor)) : searchGhost(d, ss, 2 / factor);
     if (!c || c.snr < GHOST_MIN_SNR || c.gain <= 0) return null;
     const offset = factor === 1 ? { dx: Math.round(c.dx), dy: Math.round(c.dy) } : { dx: Math.round(c.dx * factor), dy: Math.round(c.dy * factor) };
     if (Math.hypot(offset.dx, offset.dy) < 2) return null;
@@ -252,7 +294,21 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
   progress('measure', 0.6);
   const totals: Partial<Record<PhotoRole, RectTotals[]>> = {};
   for (const [role, p] of Object.entries(photos) as [PhotoRole, CapturePhoto][]) {
-    totals[role] = measureRects(p.raster, requests[role] as RectRequest[], registration[role] as Offset, scaleOf(role));
+    // rectangles a previous call already summed are taken from the memo; the rest share one pass
+    const reg = registration[role] as Offset;
+    const base = `rect:${idOf(p.raster)}@${reg.dx},${reg.dy}*${scaleOf(role)}:`;
+    const list = requests[role] as RectRequest[];
+    const keys = list.map((q) => `${base}${rectKey(q.rect)}:${q.rgb ? 'rgb' : 'y'}`);
+    const hit = keys.map((key) => memo?.has(key) ?? false);
+    const missing = list.filter((_, i) => !hit[i]);
+    const fresh = measureRects(p.raster, missing, reg, scaleOf(role));
+    let j = 0;
+    totals[role] = list.map((_, i) => {
+      if (hit[i]) return memo?.get(keys[i] as string) as RectTotals;
+      const t = fresh[j++] as RectTotals;
+      memo?.set(keys[i] as string, t);
+      return t;
+    });
   }
   const totalsOf = (role: PhotoRole, k: number): RectTotals => (totals[role] as RectTotals[])[k] as RectTotals;
   const meanAt = (role: PhotoRole, k: number): number => totalsMean(totalsOf(role, k));
@@ -294,7 +350,7 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
   const lDark = photos.dark ? meanAt('dark', idx('dark').screen) : Number.NaN;
   const acr = lOff > 0 ? contrastRatio(lOn, lOff) : Number.NaN;
 
-  const screenSigma = sampleSigma(diffSmall);
+  const screenSigma = cached(memo, `sigma:${diffKey}`, () => sampleSigma(diffSmall));
   if (!(lOn - lOff > 3 * screenSigma / Math.sqrt(Math.max(1, (screen.w * screen.h) / (factor * factor))))) {
     warnings.push({ code: 'low-signal', message: 'the screen is barely brighter in the on photo than in the off photo: check the display and the screen region' });
   }
@@ -317,7 +373,8 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
   const ghostAndUniformity = (roles: readonly PhotoRole[], found: Found): GhostAndUniformity => {
     let ghost: GhostResult | null = null;
     if (found) {
-      const m = measureGhostAt(bandReader(found, roles), screen, found.offset);
+      const regKey = roles.map((r) => `${idOf((photos[r] as CapturePhoto).raster)}@${(registration[r] as Offset).dx},${(registration[r] as Offset).dy}*${scaleOf(r)}`).join('-');
+      const m = cached(memo, `band:${regKey}:${rectKey(screen)}:${found.offset.dx},${found.offset.dy}`, () => measureGhostAt(bandReader(found, roles), screen, found.offset));
       if (m && Number.isFinite(m.ratio)) {
         ghost = { ratio: m.ratio, dx: found.offset.dx, dy: found.offset.dy, source: found.source, firstOrder: m.firstOrder, snr: found.snr };
       }
@@ -411,16 +468,19 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
   }
 
   progress('maps', 0.85);
-  const logContrast = new Float32Array(diffSmall.data.length);
-  const onS = (small.on as Plane).data;
-  const offS = offSmall.data;
-  for (let i = 0, n = logContrast.length; i < n; i++) {
-    const a = onS[i] as number;
-    const b = offS[i] as number;
-    logContrast[i] = a > 0 && b > 0 ? Math.log10(a / b) : Number.NaN;
-  }
+  const logContrast = cached(memo, `log-contrast:${diffKey}`, () => {
+    const lc = new Float32Array(diffSmall.data.length);
+    const onS = (small.on as Plane).data;
+    const offS = offSmall.data;
+    for (let i = 0, n = lc.length; i < n; i++) {
+      const a = onS[i] as number;
+      const b = offS[i] as number;
+      lc[i] = a > 0 && b > 0 ? Math.log10(a / b) : Number.NaN;
+    }
+    return lc;
+  });
   const histograms: AnalysisMaps['histograms'] = {};
-  for (const [role, p] of Object.entries(small) as [PhotoRole, Plane][]) histograms[role] = luminanceHistogram(p.data, 96, -14, 2, Math.max(1, Math.floor(p.data.length / 250_000)));
+  for (const [role, p] of Object.entries(small) as [PhotoRole, Plane][]) histograms[role] = cached(memo, `histogram:${smallKey[role]}`, () => luminanceHistogram(p.data, 96, -14, 2, Math.max(1, Math.floor(p.data.length / 250_000))));
 
   const result: CaptureResult = {
     engineVersion: ENGINE_VERSION,
