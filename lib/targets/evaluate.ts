@@ -55,7 +55,8 @@ export function tally(checks: readonly TargetCheck[]): StatusTally {
 export function tallyText(t: StatusTally): string {
   const judged = t.pass + t.fail;
   if (judged === 0) return t.noData ? 'no readings for its targets' : 'no targets';
-  const base = t.fail === 0 ? `meets all ${judged}` : `fails ${t.fail} of ${judged}`;
+  const noun = judged === 1 ? 'target' : 'targets';
+  const base = t.fail === 0 ? (judged === 1 ? 'meets its target' : `meets all ${judged} ${noun}`) : `fails ${t.fail} of ${judged} ${noun}`;
   return t.noData ? `${base} (${t.noData} without readings)` : base;
 }
 

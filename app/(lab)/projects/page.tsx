@@ -2,15 +2,24 @@ import { CreateProjectForm } from '@/components/projects/project-forms';
 import { DataTable } from '@/components/ui/data-table';
 import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
 import { listProjects } from '@/db/queries/projects';
+import { listProjectTargetStatus } from '@/db/queries/targets';
 import { can } from '@/lib/auth/permissions';
 import { requireActor } from '@/lib/auth/session';
 import { formatDate } from '@/lib/format';
+import { tally, tallyText } from '@/lib/targets/evaluate';
 
 export const metadata = { title: 'Projects' };
 
 export default async function ProjectsPage() {
   const actor = await requireActor();
-  const projects = await listProjects(actor.labId);
+  const [projects, status] = await Promise.all([listProjects(actor.labId), listProjectTargetStatus(actor.labId)]);
+  const targetCell = (id: string) => {
+    const s = status.get(id);
+    if (!s) return { text: 'no targets', sort: null };
+    const t = tally(s.checks);
+    // failing first when sorted: the projects that need a look
+    return { text: s.revisionLabel ? `${s.revisionLabel} ${tallyText(t)}` : tallyText(t), sort: t.fail > 0 ? 0 : t.pass > 0 ? 1 : 2 };
+  };
   const rows = projects.map((p) => ({
     id: p.id,
     href: `/projects/${p.id}`,
@@ -19,6 +28,7 @@ export default async function ProjectsPage() {
       revisions: { text: String(p.revisionCount), sort: p.revisionCount },
       captures: { text: String(p.captureCount), sort: p.captureCount },
       last: { text: p.lastReadingAt ? formatDate(p.lastReadingAt) : '—', sort: p.lastReadingAt?.getTime() ?? null },
+      targets: targetCell(p.id),
       updated: { text: formatDate(p.updatedAt), sort: p.updatedAt.getTime() },
     },
   }));
@@ -34,6 +44,7 @@ export default async function ProjectsPage() {
               { key: 'revisions', label: 'Revisions', numeric: true },
               { key: 'captures', label: 'Capture sets', numeric: true },
               { key: 'last', label: 'Last reading' },
+              { key: 'targets', label: 'Targets' },
               { key: 'updated', label: 'Updated' },
             ]}
             rows={rows}

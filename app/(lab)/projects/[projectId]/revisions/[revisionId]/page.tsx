@@ -1,14 +1,17 @@
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { CreateCaptureSetForm } from '@/components/capture/capture-set-form';
+import { TargetChecks } from '@/components/targets/targets-panel';
 import { EditRevisionForm } from '@/components/revisions/revision-forms';
 import { DataTable } from '@/components/ui/data-table';
 import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
 import { listCaptureSets } from '@/db/queries/capture-sets';
 import { getRevision } from '@/db/queries/revision-edits';
+import { checkRevisionTargets } from '@/db/queries/targets';
 import { can } from '@/lib/auth/permissions';
 import { requireActor } from '@/lib/auth/session';
 import { uuidSchema } from '@/lib/schemas/common';
+import { tally, tallyText } from '@/lib/targets/evaluate';
 
 const STATUS_TEXT: Record<string, string> = { queued: 'Queued', running: 'Running', done: 'Measured', failed: 'Failed' };
 
@@ -18,7 +21,8 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
   if (!uuidSchema.safeParse(revisionId).success) notFound();
   const revision = await getRevision(actor.labId, revisionId);
   if (!revision || revision.projectId !== projectId) notFound();
-  const sets = await listCaptureSets(actor.labId, revision.id);
+  const [sets, checks] = await Promise.all([listCaptureSets(actor.labId, revision.id), checkRevisionTargets(actor.labId, revision.projectId, revision.id)]);
+  const variants = [...new Set(sets.filter((s) => s.latestAcr !== null || s.latestStatus === 'done').map((s) => s.variant))];
 
   return (
     <>
@@ -33,12 +37,35 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
         <Link href={`/projects/${projectId}/revisions/${revision.id}/stack`} className="rounded-md border border-line bg-raised px-3 py-1.5 text-sm text-ink hover:border-beam/60">
           Stack &amp; planner
         </Link>
+        {can(actor.role, 'compare.read') && variants.length > 1 ? (
+          <Link
+            href={`/projects/${projectId}/compare?a=${encodeURIComponent(`${revision.id}:${variants[0]}`)}&b=${encodeURIComponent(`${revision.id}:${variants[1]}`)}`}
+            className="rounded-md border border-line bg-raised px-3 py-1.5 text-sm text-ink hover:border-beam/60"
+          >
+            Compare variants
+          </Link>
+        ) : null}
+        {can(actor.role, 'export.create') ? (
+          <>
+            <a href={`/api/revisions/${revision.id}/readings.csv`} className="rounded-md border border-line bg-raised px-3 py-1.5 text-sm text-ink hover:border-beam/60">
+              Readings CSV
+            </a>
+            <a href={`/api/revisions/${revision.id}/report.pdf`} className="rounded-md border border-line bg-raised px-3 py-1.5 text-sm text-ink hover:border-beam/60">
+              PDF report
+            </a>
+          </>
+        ) : null}
       </PageTitle>
       <p className="-mt-4 mb-6 text-sm text-muted">
         #{revision.position} · {revision.status} · built {revision.builtOn ?? 'not yet'}
         {revision.notes ? ` · ${revision.notes}` : ''}
       </p>
       <div className="space-y-6">
+        {checks.length ? (
+          <Panel title={<span data-testid="revision-target-summary">Targets · {revision.label} {tallyText(tally(checks))}</span>}>
+            <TargetChecks checks={checks} scope={revision.label} />
+          </Panel>
+        ) : null}
         <Panel title="Capture sets">
           <DataTable
             csvName={`${revision.label}-capture-sets`}

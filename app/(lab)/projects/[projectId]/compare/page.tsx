@@ -1,0 +1,116 @@
+import Link from 'next/link';
+import { notFound, redirect } from 'next/navigation';
+import { ComparisonTable } from '@/components/compare/comparison-table';
+import { GroupPicker } from '@/components/compare/group-picker';
+import { PreviewStrip } from '@/components/compare/preview-strip';
+import { EmptyState, Notice, PageTitle, Panel } from '@/components/ui/panel';
+import { getComparisonGroup, listGroupOptions, type GroupOption } from '@/db/queries/comparisons';
+import { getProject } from '@/db/queries/projects';
+import { can } from '@/lib/auth/permissions';
+import { requireActor } from '@/lib/auth/session';
+import { uuidSchema } from '@/lib/schemas/common';
+import { compareGroups, decodeGroup, encodeGroup } from '@/lib/targets/compare';
+
+export const metadata = { title: 'Compare' };
+
+// With nothing chosen yet: the two variants of the newest revision that has them (the A/B the
+// team built), else the two newest revisions with readings.
+function defaultPair(options: GroupOption[]): [string, string] | null {
+  const variants = options.filter((o) => o.variant !== null);
+  for (let i = variants.length - 1; i > 0; i--) {
+    const b = variants[i];
+    const a = variants[i - 1];
+    if (a && b && a.revisionId === b.revisionId) return [a.key, b.key];
+  }
+  const whole = options.filter((o) => o.variant === null);
+  const a = whole[whole.length - 2];
+  const b = whole[whole.length - 1];
+  return a && b ? [a.key, b.key] : null;
+}
+
+const one = (v: string | string[] | undefined) => (Array.isArray(v) ? v[0] : v);
+
+export default async function ComparePage({ params, searchParams }: { params: Promise<{ projectId: string }>; searchParams: Promise<Record<string, string | string[] | undefined>> }) {
+  const { projectId } = await params;
+  const q = await searchParams;
+  const actor = await requireActor();
+  if (!uuidSchema.safeParse(projectId).success) notFound();
+  const project = await getProject(actor.labId, projectId);
+  if (!project) notFound();
+  const options = await listGroupOptions(actor.labId, project.id);
+  const base = `/projects/${project.id}/compare`;
+  const rawA = one(q.a);
+  const rawB = one(q.b);
+  if (!rawA && !rawB) {
+    const pair = defaultPair(options);
+    if (pair) redirect(`${base}?a=${encodeURIComponent(pair[0])}&b=${encodeURIComponent(pair[1])}`);
+  }
+  const keyA = decodeGroup(rawA);
+  const keyB = decodeGroup(rawB);
+  const [ga, gb] = await Promise.all([keyA ? getComparisonGroup(actor.labId, project.id, keyA) : null, keyB ? getComparisonGroup(actor.labId, project.id, keyB) : null]);
+  const rows = ga && gb ? compareGroups(ga, gb) : null;
+  const query = ga && gb ? `a=${encodeURIComponent(encodeGroup(ga))}&b=${encodeURIComponent(encodeGroup(gb))}` : '';
+  const acr = rows?.find((r) => r.metric === 'ambientContrastRatio');
+
+  return (
+    <>
+      <PageTitle
+        kicker={
+          <Link href={`/projects/${project.id}`} className="hover:text-beam">
+            {project.name} · compare
+          </Link>
+        }
+        title={ga && gb ? <span data-testid="compare-title">{`${gb.label} against ${ga.label}`}</span> : 'Compare two groups'}
+      >
+        {rows && can(actor.role, 'export.create') ? (
+          <>
+            <a href={`/api/projects/${project.id}/compare/readings.csv?${query}`} className="rounded-md border border-line bg-raised px-3 py-1.5 text-sm text-ink hover:border-beam/60">
+              CSV
+            </a>
+            <a href={`/api/projects/${project.id}/compare/report.pdf?${query}`} className="rounded-md border border-line bg-raised px-3 py-1.5 text-sm text-ink hover:border-beam/60">
+              PDF report
+            </a>
+          </>
+        ) : null}
+      </PageTitle>
+      <div className="space-y-6">
+        <Panel title="Groups">
+          {options.length ? (
+            <GroupPicker action={base} options={options} a={rawA ?? null} b={rawB ?? null} />
+          ) : (
+            <EmptyState title="Nothing measured yet">Analyse capture sets in two revisions (or two variants of one) to compare them.</EmptyState>
+          )}
+          {(rawA && !ga) || (rawB && !gb) ? (
+            <div className="mt-3">
+              <Notice tone="fail">{rawA && !ga ? 'Group A' : 'Group B'} is not a revision of this project. Pick it again from the list.</Notice>
+            </div>
+          ) : null}
+        </Panel>
+        {ga && gb && rows ? (
+          <>
+            {acr ? (
+              <Panel title="In plain words">
+                <p className="text-sm text-ink" data-testid="headline-verdict">
+                  {acr.verdict}
+                </p>
+                <p className="mt-2 text-xs text-muted">
+                  Each capture set counts once, with its newest reading. Welch’s t test (unequal variances, Welch–Satterthwaite df), two-sided, 95% intervals; below 3 captures in a group
+                  Veilmeter does not call a difference.
+                </p>
+              </Panel>
+            ) : null}
+            <Panel title="Per metric">
+              <ComparisonTable rows={rows} aLabel={ga.label} bLabel={gb.label} />
+            </Panel>
+            <Panel title="Captures side by side">
+              <div className="grid gap-6 md:grid-cols-2">
+                <PreviewStrip title={`A · ${ga.label}`} previews={ga.previews} total={ga.readings.length} />
+                <PreviewStrip title={`B · ${gb.label}`} previews={gb.previews} total={gb.readings.length} />
+              </div>
+            </Panel>
+          </>
+        ) : null}
+      </div>
+    </>
+  );
+}

@@ -1,0 +1,71 @@
+import clsx from 'clsx';
+import { formatPValue } from '@/lib/stats';
+import type { MetricComparison } from '@/lib/targets/compare';
+import { formatMetric, METRICS } from '@/lib/targets/metrics';
+import type { GroupStats } from '@/lib/targets/series';
+
+function meanCi(key: MetricComparison['metric'], s: GroupStats) {
+  if (s.mean === null) return '—';
+  if (s.halfWidth === null) return formatMetric(key, s.mean, false);
+  return `${formatMetric(key, s.mean, false)} ± ${formatMetric(key, s.halfWidth, false)}`;
+}
+
+const LEVEL_TONE: Record<MetricComparison['level'], string> = {
+  'unlikely-noise': 'text-pass',
+  'probably-real': 'text-beam',
+  'could-be-noise': 'text-muted',
+  'too-few': 'text-warn',
+  'no-data': 'text-muted',
+};
+
+/** Per metric: each group's n and mean ± 95% CI, B − A with its CI, Welch t, df, p and the verdict. */
+export function ComparisonTable({ rows, aLabel, bLabel }: { rows: MetricComparison[]; aLabel: string; bLabel: string }) {
+  return (
+    <div className="overflow-x-auto rounded-md border border-line">
+      <table className="w-full text-sm" data-testid="comparison-table">
+        <thead className="bg-raised text-left text-xs uppercase tracking-wider text-muted">
+          <tr>
+            <th scope="col" className="px-3 py-2">Metric</th>
+            <th scope="col" className="px-3 py-2 text-right">n A</th>
+            <th scope="col" className="px-3 py-2 text-right" title={aLabel}>A mean ± CI</th>
+            <th scope="col" className="px-3 py-2 text-right">n B</th>
+            <th scope="col" className="px-3 py-2 text-right" title={bLabel}>B mean ± CI</th>
+            <th scope="col" className="px-3 py-2 text-right">B − A ± CI</th>
+            <th scope="col" className="px-3 py-2 text-right">Welch t</th>
+            <th scope="col" className="px-3 py-2 text-right">df</th>
+            <th scope="col" className="px-3 py-2 text-right">p</th>
+          </tr>
+        </thead>
+        <tbody>
+          {rows.map((r) => {
+            const m = METRICS[r.metric];
+            const t = r.test;
+            return [
+              <tr key={r.metric} className="border-t border-line" data-metric={r.metric}>
+                <th scope="row" className="px-3 pt-2 text-left font-medium text-ink">
+                  {m.label}
+                  {m.unit && m.unit !== ':1' ? <span className="ml-1 text-xs text-muted">({m.unit})</span> : null}
+                </th>
+                <td className="px-3 pt-2 text-right font-mono tabular-nums">{r.a.n}</td>
+                <td className="px-3 pt-2 text-right font-mono tabular-nums">{meanCi(r.metric, r.a)}</td>
+                <td className="px-3 pt-2 text-right font-mono tabular-nums">{r.b.n}</td>
+                <td className="px-3 pt-2 text-right font-mono tabular-nums">{meanCi(r.metric, r.b)}</td>
+                <td className="px-3 pt-2 text-right font-mono tabular-nums" data-testid={`difference-${r.metric}`}>
+                  {t ? `${t.difference >= 0 ? '+' : '−'}${formatMetric(r.metric, Math.abs(t.difference), false)} ± ${formatMetric(r.metric, t.ci.halfWidth, false)}` : '—'}
+                </td>
+                <td className="px-3 pt-2 text-right font-mono tabular-nums">{t && Number.isFinite(t.t) ? t.t.toFixed(2) : '—'}</td>
+                <td className="px-3 pt-2 text-right font-mono tabular-nums">{t ? t.df.toFixed(1) : '—'}</td>
+                <td className="px-3 pt-2 text-right font-mono tabular-nums">{t ? formatPValue(t.p).replace(/^p = /, '').replace(/^p < /, '< ') : '—'}</td>
+              </tr>,
+              <tr key={`${r.metric}-v`}>
+                <td colSpan={9} className={clsx('px-3 pb-2 text-xs', LEVEL_TONE[r.level])} data-testid={`verdict-${r.metric}`}>
+                  {r.verdict}
+                </td>
+              </tr>,
+            ];
+          })}
+        </tbody>
+      </table>
+    </div>
+  );
+}

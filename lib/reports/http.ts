@@ -1,0 +1,24 @@
+import { AppError, notFound } from '../errors';
+import { uuidSchema } from '../schemas/common';
+import { decodeGroup, type GroupKey } from '../targets/compare';
+
+/** A malformed id and another lab's id answer the same 404. */
+export function idOr404(raw: string, what: string): string {
+  const parsed = uuidSchema.safeParse(raw);
+  if (!parsed.success) throw notFound(`No such ${what}`);
+  return parsed.data.toLowerCase();
+}
+
+/** The two sides of a comparison from ?a=…&b=…; a clear 422 when one is missing or malformed. */
+export function groupsFrom(url: string): { a: GroupKey; b: GroupKey } {
+  const q = new URL(url).searchParams;
+  const a = decodeGroup(q.get('a'));
+  const b = decodeGroup(q.get('b'));
+  if (!a || !b) {
+    const fieldErrors: Record<string, string[]> = {};
+    if (!a) fieldErrors.a = ['Pick group A: a revision id, optionally followed by ":" and a variant'];
+    if (!b) fieldErrors.b = ['Pick group B: a revision id, optionally followed by ":" and a variant'];
+    throw new AppError(422, 'Choose the two groups to compare', 'invalid', fieldErrors);
+  }
+  return { a, b };
+}
