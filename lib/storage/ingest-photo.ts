@@ -2,7 +2,7 @@ import { createHash } from 'node:crypto';
 import { findPhotoBySha, listPhotos, putPhoto, type Photo } from '../../db/queries/photos';
 import { AppError } from '../errors';
 import { makePreview } from '../image/preview';
-import { probePhoto } from '../image/probe';
+import { probePhoto, type ProbedPhoto } from '../image/probe';
 import { isEngineInputError } from '../photometry/errors';
 import { MAX_UPLOAD_BYTES, ROLE_LABELS, type PhotoRole } from '../schemas/upload';
 import { deleteKeys, getStorage, photoKey, previewKey } from './index';
@@ -69,7 +69,7 @@ export async function ingestPhoto(input: { labId: string; userId: string; captur
       height: probed.height,
       format: probed.format,
       bitDepth: probed.bitDepth,
-      exif: probed.exif,
+      exif: plausibleExif(probed.exif),
       originalName: name,
     });
     await deleteKeys(replacedKeys);
@@ -80,6 +80,27 @@ export async function ingestPhoto(input: { labId: string; userId: string; captur
     if ((e as { code?: string }).code === '23505') throw refuse(`${name} is already uploaded in this lab.`, 'duplicate', 409);
     throw e;
   }
+}
+
+// EXIF is whatever the file says: values no camera can produce are dropped rather than shown to
+// the tester as facts about the shot (a 10⁹ s exposure, a photo taken in the year 10007)
+function plausibleExif(exif: ProbedPhoto['exif']): ProbedPhoto['exif'] {
+  const out: ProbedPhoto['exif'] = {};
+  const within = (v: number | undefined, lo: number, hi: number) => typeof v === 'number' && Number.isFinite(v) && v >= lo && v <= hi;
+  if (within(exif.exposureTime, 1e-6, 3600)) out.exposureTime = exif.exposureTime;
+  if (within(exif.fNumber, 0.5, 256)) out.fNumber = exif.fNumber;
+  if (within(exif.iso, 1, 1e7)) out.iso = exif.iso;
+  if (within(exif.orientation, 1, 8)) out.orientation = exif.orientation;
+  const text = (v: string | undefined) => (v ? v.replace(/[\u0000-\u001f\u007f]/g, '').trim().slice(0, 80) || undefined : undefined);
+  const make = text(exif.make);
+  const model = text(exif.model);
+  const lens = text(exif.lens);
+  if (make) out.make = make;
+  if (model) out.model = model;
+  if (lens) out.lens = lens;
+  const taken = exif.takenAt ? Date.parse(exif.takenAt) : NaN;
+  if (Number.isFinite(taken) && taken >= Date.UTC(1990, 0, 1) && taken <= Date.now() + 366 * 86_400_000) out.takenAt = exif.takenAt;
+  return out;
 }
 
 // messages start with the file's own name, so only the full stop is added
