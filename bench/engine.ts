@@ -6,7 +6,7 @@
 import { execFileSync } from 'node:child_process';
 import { existsSync, mkdirSync, readFileSync } from 'node:fs';
 import { writeFile } from 'node:fs/promises';
-import { cpus, tmpdir, totalmem } from 'node:os';
+import { cpus, loadavg, tmpdir, totalmem } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { analyzeFiles, decodeRawOnly, writeArtifacts } from '../lib/image';
@@ -59,7 +59,7 @@ const ratio = Math.round((analysisMs / decodeMs) * 100) / 100;
 const peakRssMb = Math.round(process.resourceUsage().maxRSS / 1024);
 const figures = { decodeMs, analysisMs, ratio, peakRssMb };
 
-const machine = `${cpus().length} × ${cpus()[0]?.model.trim() ?? 'cpu'}, ${Math.round(totalmem() / 2 ** 30)} GB, Node ${process.version}`;
+const machine = `${cpus().length} × ${cpus()[0]?.model.trim() ?? 'cpu'}, ${Math.round(totalmem() / 2 ** 30)} GB, Node ${process.version}, load average ${loadavg()[0]?.toFixed(1)} at the end (other work on the machine slows both figures)`;
 const md = `# Engine benchmark
 
 6000 × 4000 JPEG triplet (on, off, ambient; quality 90), median of ${RUNS} runs after a warm-up, one process.
@@ -72,6 +72,10 @@ Run on ${new Date().toISOString().slice(0, 10)}, ${machine}. Reproduce with \`np
 | ratio | ${ratio} | ≤ 1.6 |
 | peak RSS | ${peakRssMb} MB | ≤ 1024 MB |
 `;
-await writeFile(join(here, 'RESULTS.md'), md);
+// hand-written notes below the generated table survive a re-run
+const resultsPath = join(here, 'RESULTS.md');
+const previous = existsSync(resultsPath) ? readFileSync(resultsPath, 'utf8') : '';
+const notesAt = previous.indexOf('\n## Notes');
+await writeFile(resultsPath, notesAt >= 0 ? md + previous.slice(notesAt) : md);
 if (process.argv.includes('--json')) process.stdout.write(`${JSON.stringify(figures)}\n`);
 else process.stdout.write(`decode ${decodeMs} ms · analysis ${analysisMs} ms · ratio ${ratio} · peak RSS ${peakRssMb} MB\nall runs: decode ${decodes.map(Math.round).join(', ')}; analysis ${analyses.map(Math.round).join(', ')}\n`);
