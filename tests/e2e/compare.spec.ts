@@ -1,0 +1,78 @@
+import { expect, test } from '@playwright/test';
+import { closeDb, getDb } from '../../db/index';
+import { DEMO_LAB } from '../../db/seeds/demo-data';
+import { signIn } from './helpers';
+
+// Runs against the seeded demo lab: VX-B has two variants of at least 4 analysed captures each.
+let projectId: string;
+let revisions: Record<string, string>;
+
+test.beforeAll(async () => {
+  const db = getDb();
+  const project = await db('projects as p').join('labs as l', 'l.id', 'p.lab_id').where({ 'l.name': DEMO_LAB, 'p.name': 'Visor VX birdbath' }).first<{ id: string }>('p.id');
+  projectId = project.id;
+  const rows = await db('revisions').where({ project_id: projectId }).select<{ id: string; label: string }[]>('id', 'label');
+  revisions = Object.fromEntries(rows.map((r) => [r.label, r.id]));
+});
+
+test.afterAll(async () => {
+  await closeDb();
+});
+
+test('the VX-B variants compare with a difference, its CI, Welch figures and a plain verdict; the choice stays in the URL', async ({ page }, testInfo) => {
+  await signIn(page, 'viewer@example.test');
+  await page.goto(`/projects/${projectId}/revisions/${revisions['VX-B']}`);
+  await page.getByRole('link', { name: 'Compare variants' }).click();
+  await page.waitForURL(/\/compare\?a=.+&b=.+/);
+  const url = new URL(page.url());
+  expect(url.searchParams.get('a')).toBe(`${revisions['VX-B']}:no polarizer`);
+  expect(url.searchParams.get('b')).toBe(`${revisions['VX-B']}:with polarizer`);
+  await expect(page.getByTestId('compare-title')).toHaveText('VX-B · with polarizer against VX-B · no polarizer');
+
+  const diff = page.getByTestId('difference-ambientContrastRatio');
+  await expect(diff).toHaveText(/^[+−]\d+\.\d+ ± \d+\.\d+$/);
+  const verdict = page.getByTestId('verdict-ambientContrastRatio');
+  await expect(verdict).toHaveText(/^VX-B · with polarizer \(against VX-B · no polarizer\) (raises|lowers|leaves) the ambient contrast ratio .*; 5 vs 5 captures; .*p [=<] \d/);
+  await expect(page.getByTestId('headline-verdict')).toHaveText(await verdict.innerText());
+  const row = page.locator('tr[data-metric="ambientContrastRatio"] td');
+  await expect(row.nth(0)).toHaveText('5');
+  await expect(row.nth(2)).toHaveText('5');
+  await expect(row.nth(5)).toHaveText(/^-?\d+\.\d\d$/); // Welch t
+  await expect(row.nth(6)).toHaveText(/^\d+\.\d$/); // df
+
+  // previews of both sides with the measured regions drawn over them
+  await expect(page.getByTestId('compare-preview')).toHaveCount(8);
+  await expect(page.getByTestId('compare-preview').first().locator('rect[data-region="screen"]')).toHaveCount(1);
+  await page.screenshot({ path: testInfo.outputPath('compare-vx-b.png'), fullPage: true });
+
+  // the same URL opened afresh shows the same comparison
+  await page.goto(url.toString());
+  await expect(page.getByTestId('difference-ambientContrastRatio')).toHaveText(await diff.innerText());
+});
+
+test('the project page links to a comparison already chosen in the URL', async ({ page }) => {
+  await signIn(page, 'viewer@example.test');
+  await page.goto(`/projects/${projectId}`);
+  await page.getByRole('link', { name: 'Compare', exact: true }).click();
+  await page.waitForURL(/\/compare\?a=.+&b=.+/);
+  await expect(page.getByTestId('comparison-table')).toBeVisible();
+});
+
+test('two revisions chosen in the picker land in the URL and compare', async ({ page }) => {
+  await signIn(page, 'tester@example.test');
+  await page.goto(`/projects/${projectId}/compare`);
+  await page.getByTestId('group-a').selectOption(revisions['VX-A']!);
+  await page.getByTestId('group-b').selectOption(revisions['VX-C']!);
+  await page.getByRole('button', { name: 'Compare', exact: true }).click();
+  await page.waitForURL(new RegExp(`a=${revisions['VX-A']}&b=${revisions['VX-C']}`));
+  await expect(page.getByTestId('compare-title')).toHaveText('VX-C against VX-A');
+  await expect(page.getByTestId('verdict-ambientContrastRatio')).toHaveText(/^VX-C \(against VX-A\) (raises|lowers|leaves) the ambient contrast ratio .* ± .*; \d+ vs \d+ captures;/);
+  await expect(page.getByTestId('difference-ambientContrastRatio')).toHaveText(/± \d/);
+});
+
+test('a group that is not in the project says so and shows no statistics', async ({ page }) => {
+  await signIn(page, 'viewer@example.test');
+  await page.goto(`/projects/${projectId}/compare?a=${revisions['VX-A']}&b=00000000-0000-4000-8000-000000000000`);
+  await expect(page.getByText('Group B is not a revision of this project')).toBeVisible();
+  await expect(page.getByTestId('comparison-table')).toHaveCount(0);
+});

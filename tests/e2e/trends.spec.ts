@@ -1,0 +1,71 @@
+import { expect, test } from '@playwright/test';
+import { closeDb, getDb } from '../../db/index';
+import { DEMO_LAB } from '../../db/seeds/demo-data';
+import { signIn } from './helpers';
+
+// The seeded demo project: VX-A, VX-B, VX-C in order, each with analysed captures. Two targets are
+// added for the test and removed after it (invented values).
+let projectId: string;
+let labId: string;
+let readings: number;
+const targetIds: string[] = [];
+
+test.beforeAll(async () => {
+  const db = getDb();
+  const project = await db('projects as p').join('labs as l', 'l.id', 'p.lab_id').where({ 'l.name': DEMO_LAB, 'p.name': 'Visor VX birdbath' }).first<{ id: string; lab_id: string }>('p.id', 'p.lab_id');
+  projectId = project.id;
+  labId = project.lab_id;
+  const n = await db.raw('SELECT count(DISTINCT capture_set_id)::int AS n FROM readings WHERE project_id = ? AND ambient_contrast_ratio IS NOT NULL', [projectId]);
+  readings = n.rows[0].n as number;
+  const rows = await db('targets')
+    .insert([
+      { lab_id: labId, project_id: projectId, metric: 'ambientContrastRatio', comparator: '>=', value: 1.2, condition_note: 'e2e trend test', is_default: true },
+      { lab_id: labId, project_id: projectId, metric: 'ambientContrastRatio', comparator: '>=', value: 1.5, condition_note: 'e2e trend test', is_default: false },
+    ])
+    .returning<{ id: string }[]>('id');
+  targetIds.push(...rows.map((r) => r.id));
+});
+
+test.afterAll(async () => {
+  await getDb()('targets').whereIn('id', targetIds).delete();
+  await closeDb();
+});
+
+test('the trend chart draws means, a CI band, every capture and the target lines, and opens a revision on click', async ({ page }, testInfo) => {
+  await signIn(page, 'viewer@example.test');
+  await page.goto(`/projects/${projectId}`);
+  const chart = page.getByTestId('trend-chart');
+  await expect(chart).toHaveAttribute('data-metric', 'ambientContrastRatio');
+  const svg = chart.locator('svg.recharts-surface').first();
+  await expect(svg.locator('.recharts-reference-line')).toHaveCount(2);
+  await expect(svg.locator('.recharts-reference-line line')).toHaveCount(2);
+  await expect(svg.locator('[data-testid="trend-point"]')).toHaveCount(readings);
+  expect(readings).toBeGreaterThanOrEqual(13);
+  await expect(svg.locator('[data-testid="trend-mean"]')).toHaveCount(await page.locator('[data-testid="trend-mean"]').count());
+  const revisionsWithData = await svg.locator('[data-testid="trend-mean"]').count();
+  expect(revisionsWithData).toBeGreaterThanOrEqual(3);
+  const band = svg.locator('.vm-ci-band path.recharts-area-area');
+  await expect(band).toHaveCount(1);
+  expect((await band.getAttribute('d'))?.length ?? 0).toBeGreaterThan(20);
+  await expect(svg.locator('.vm-trend-line path.recharts-line-curve')).toHaveCount(1);
+  await expect(chart.getByText('target ≥ 1.500:1')).toBeVisible();
+  await expect(chart.getByText('target ≥ 1.200:1 (default)')).toBeVisible();
+  await chart.screenshot({ path: testInfo.outputPath('trend-acr.png') });
+
+  // hover details on a mean
+  await svg.locator('[data-testid="trend-mean"]').first().hover();
+  await expect(page.locator('.recharts-tooltip-wrapper')).toContainText('mean');
+
+  // metric picker: the ghost ratio has no targets, so no target lines
+  await page.getByRole('button', { name: 'Ghost', exact: true }).click();
+  await expect(chart).toHaveAttribute('data-metric', 'ghostRatio');
+  await expect(svg.locator('.recharts-reference-line')).toHaveCount(0);
+  await expect(page).toHaveURL(/metric=ghostRatio/);
+  await page.getByRole('button', { name: 'ACR', exact: true }).click();
+
+  // click through to the revision
+  await svg.locator('[data-testid="trend-mean"]').first().click();
+  await page.waitForURL(/\/revisions\//);
+  await expect(page.getByTestId('revision-label')).toHaveText('VX-A');
+  await expect(page.getByTestId('revision-target-summary')).toContainText('targets');
+});
