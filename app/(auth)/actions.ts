@@ -6,14 +6,15 @@ import { getUserByEmail } from '@/db/queries/users';
 import { hashPassword, verifyPassword } from '@/lib/auth/password';
 import { AppError } from '@/lib/errors';
 import { invitationAcceptSchema, newAccountSchema } from '@/lib/schemas/team';
-import { echoValues, type FormState } from '@/lib/auth/action';
+import { echoValues, isFormData, type FormState } from '@/lib/auth/action';
 import { isUniqueViolation, zodFieldErrors } from '@/lib/errors';
 import { signUpSchema } from '@/lib/schemas/user';
 import { createUserWithLab } from '@/db/queries/users';
 import { recordAudit } from '@/db/queries/audit';
 
 /** Creates a person and their lab (they become its admin); the form then signs them in. */
-export async function signUpAction(_prev: FormState, form: FormData): Promise<FormState> {
+export async function signUpAction(prevOrForm: FormState | FormData, maybeForm?: FormData): Promise<FormState> {
+  const form = maybeForm ?? (isFormData(prevOrForm) ? prevOrForm : new FormData());
   try {
     const input = signUpSchema.parse(Object.fromEntries(form.entries()));
     const { userId, labId } = await createUserWithLab({ email: input.email, name: input.name, labName: input.labName, passwordHash: await hashPassword(input.password) });
@@ -28,7 +29,8 @@ export async function signUpAction(_prev: FormState, form: FormData): Promise<Fo
 }
 
 /** Accepts an invitation: signs into the existing account's password, or creates the account. */
-export async function acceptInvitationAction(_prev: FormState, form: FormData): Promise<FormState> {
+export async function acceptInvitationAction(prevOrForm: FormState | FormData, maybeForm?: FormData): Promise<FormState> {
+  const form = maybeForm ?? (isFormData(prevOrForm) ? prevOrForm : new FormData());
   try {
     const input = invitationAcceptSchema.parse(Object.fromEntries(form.entries()));
     const inv = await findOpenInvitation(input.token);

@@ -26,7 +26,7 @@ export function formAction<S extends z.ZodType>(
   // Called as (state, form) by useActionState, or as (form) by a plain <form action> and by a
   // post without JavaScript.
   return async (prevOrForm: FormState | FormData, maybeForm?: FormData): Promise<FormState> => {
-    const form = maybeForm ?? (prevOrForm instanceof FormData ? prevOrForm : new FormData());
+    const form = maybeForm ?? (isFormData(prevOrForm) ? prevOrForm : new FormData());
     try {
       const actor = await actorWith(permission);
       const input = schema.parse(Object.fromEntries(form.entries()));
@@ -40,6 +40,11 @@ export function formAction<S extends z.ZodType>(
       return { ok: false, message: safe.error.message };
     }
   };
+}
+
+/** The decoded argument may come from another realm's FormData class, so instanceof won't do. */
+export function isFormData(v: unknown): v is FormData {
+  return typeof v === 'object' && v !== null && typeof (v as FormData).get === 'function' && typeof (v as FormData).entries === 'function';
 }
 
 // redirect() and notFound() signal by throwing; they must pass through untouched.
