@@ -24,19 +24,19 @@ const BACKGROUND = { x: 40, y: 40, w: 200, h: 140 };
 // weaker ghost, and the polarizer variant darkens the world more than the display.
 export const DEMO_PLANS: Record<string, Plan[]> = {
   'Visor VX birdbath': [
-    { revision: 'VX-A', template: 'birdbath', variants: [{ variant: '', count: 4, scene: { transmission: 0.25, displayLevel: 0.1, backgroundLevel: 0.55, ghost: { gain: 0.025, dx: 14, dy: 9 } } }] },
+    { revision: 'VX-A', template: 'birdbath', variants: [{ variant: '', count: 4, scene: { transmission: 0.25, displayLevel: 0.1, backgroundLevel: 0.4, ghost: { gain: 0.025, dx: 14, dy: 9 } } }] },
     {
       revision: 'VX-B',
       template: 'birdbath-polariser',
       variants: [
-        { variant: 'no polarizer', count: 5, scene: { transmission: 0.3, displayLevel: 0.14, backgroundLevel: 0.55, ghost: { gain: 0.006, dx: 14, dy: 9 } } },
-        { variant: 'with polarizer', count: 5, scene: { transmission: 0.16, displayLevel: 0.13, backgroundLevel: 0.55, ghost: { gain: 0.006, dx: 14, dy: 9 } } },
+        { variant: 'no polarizer', count: 5, scene: { transmission: 0.3, displayLevel: 0.14, backgroundLevel: 0.4, ghost: { gain: 0.006, dx: 14, dy: 9 } } },
+        { variant: 'with polarizer', count: 5, scene: { transmission: 0.16, displayLevel: 0.13, backgroundLevel: 0.4, ghost: { gain: 0.006, dx: 14, dy: 9 } } },
       ],
     },
-    { revision: 'VX-C', template: 'birdbath', variants: [{ variant: '', count: 4, scene: { transmission: 0.35, displayLevel: 0.22, backgroundLevel: 0.55, ghost: { gain: 0.004, dx: 14, dy: 9 } } }] },
+    { revision: 'VX-C', template: 'birdbath', variants: [{ variant: '', count: 4, scene: { transmission: 0.35, displayLevel: 0.22, backgroundLevel: 0.4, ghost: { gain: 0.004, dx: 14, dy: 9 } } }] },
   ],
   'Ridgeline M2 helmet HUD': [
-    { revision: 'M2-P1', template: 'single-combiner', variants: [{ variant: '', count: 4, scene: { transmission: 0.78, displayLevel: 0.2, backgroundLevel: 0.5, ghost: { gain: 0.04, dx: 22, dy: 0 } } }] },
+    { revision: 'M2-P1', template: 'single-combiner', variants: [{ variant: '', count: 4, scene: { transmission: 0.78, displayLevel: 0.2, backgroundLevel: 0.38, ghost: { gain: 0.04, dx: 22, dy: 0 } } }] },
   ],
 };
 
