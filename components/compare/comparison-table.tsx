@@ -46,16 +46,16 @@ export function ComparisonTable({ rows, aLabel, bLabel }: { rows: MetricComparis
                   {m.label}
                   {m.unit && m.unit !== ':1' ? <span className="ml-1 text-xs text-muted">({m.unit})</span> : null}
                 </th>
-                <td className="px-3 pt-2 text-right font-mono tabular-nums">{r.a.n}</td>
-                <td className="px-3 pt-2 text-right font-mono tabular-nums">{meanCi(r.metric, r.a)}</td>
-                <td className="px-3 pt-2 text-right font-mono tabular-nums">{r.b.n}</td>
-                <td className="px-3 pt-2 text-right font-mono tabular-nums">{meanCi(r.metric, r.b)}</td>
-                <td className="px-3 pt-2 text-right font-mono tabular-nums" data-testid={`difference-${r.metric}`}>
+                <td className="px-3 pt-2 whitespace-nowrap text-right font-mono tabular-nums">{r.a.n}</td>
+                <td className="px-3 pt-2 whitespace-nowrap text-right font-mono tabular-nums">{meanCi(r.metric, r.a)}</td>
+                <td className="px-3 pt-2 whitespace-nowrap text-right font-mono tabular-nums">{r.b.n}</td>
+                <td className="px-3 pt-2 whitespace-nowrap text-right font-mono tabular-nums">{meanCi(r.metric, r.b)}</td>
+                <td className="px-3 pt-2 whitespace-nowrap text-right font-mono tabular-nums" data-testid={`difference-${r.metric}`}>
                   {t ? `${t.difference >= 0 ? '+' : '−'}${formatMetric(r.metric, Math.abs(t.difference), false)} ± ${formatMetric(r.metric, t.ci.halfWidth, false)}` : '—'}
                 </td>
-                <td className="px-3 pt-2 text-right font-mono tabular-nums">{t && Number.isFinite(t.t) ? t.t.toFixed(2) : '—'}</td>
-                <td className="px-3 pt-2 text-right font-mono tabular-nums">{t ? t.df.toFixed(1) : '—'}</td>
-                <td className="px-3 pt-2 text-right font-mono tabular-nums">{t ? formatPValue(t.p).replace(/^p = /, '').replace(/^p < /, '< ') : '—'}</td>
+                <td className="px-3 pt-2 whitespace-nowrap text-right font-mono tabular-nums">{t && Number.isFinite(t.t) ? t.t.toFixed(2) : '—'}</td>
+                <td className="px-3 pt-2 whitespace-nowrap text-right font-mono tabular-nums">{t ? t.df.toFixed(1) : '—'}</td>
+                <td className="px-3 pt-2 whitespace-nowrap text-right font-mono tabular-nums">{t ? formatPValue(t.p).replace(/^p = /, '').replace(/^p < /, '< ') : '—'}</td>
               </tr>,
               <tr key={`${r.metric}-v`}>
                 <td colSpan={9} className={clsx('px-3 pb-2 text-xs', LEVEL_TONE[r.level])} data-testid={`verdict-${r.metric}`}>

@@ -13,7 +13,7 @@ function PreviewCard({ p }: { p: Preview }) {
     <figure className="overflow-hidden rounded-md border border-line bg-canvas" data-testid="compare-preview">
       <div className="relative">
         {/* eslint-disable-next-line @next/next/no-img-element -- a private, session-bound preview; next/image would cache it publicly */}
-        <img src={`/api/captures/${p.captureSetId}/photos/${p.photoId}/preview`} alt={`On photo of ${p.captureLabel}`} className="block w-full" loading="lazy" />
+        <img src={`/api/captures/${p.captureSetId}/photos/${p.photoId}/preview`} alt={`On photo of ${p.captureLabel}`} className="block w-full" />
         <svg viewBox={`0 0 ${p.width} ${p.height}`} className="absolute inset-0 h-full w-full" aria-hidden preserveAspectRatio="none">
           {(['background', 'ghost', 'screen'] as const).map((kind) => {
             const r = p[kind];

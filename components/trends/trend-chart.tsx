@@ -93,7 +93,7 @@ export function TrendChart({ projectId, trends, targets, initialMetric }: { proj
   const trend = trends[metric];
   const metricTargets = targets.filter((t) => t.metric === metric);
 
-  const { means, points, domain } = useMemo(() => {
+  const { means, points, domain, ticks } = useMemo(() => {
     const means: MeanRow[] = trend.revisions.map((r, i) => ({
       x: i,
       id: r.id,
@@ -112,8 +112,15 @@ export function TrendChart({ projectId, trends, targets, initialMetric }: { proj
       lo -= Math.abs(lo) * 0.1 || 0.5;
       hi += Math.abs(hi) * 0.1 || 0.5;
     }
-    const pad = (hi - lo) * 0.1;
-    return { means, points, domain: [lo - pad, hi + pad] as [number, number] };
+    // round ticks (1, 2 or 5 × 10^k apart) read better than the data's own extremes
+    const raw = (hi - lo) / 5;
+    const mag = 10 ** Math.floor(Math.log10(raw));
+    const step = ([1, 2, 5, 10].find((f) => f * mag >= raw) ?? 10) * mag;
+    const start = Math.floor(lo / step) * step;
+    const end = Math.ceil(hi / step) * step;
+    const ticks: number[] = [];
+    for (let v = start; v <= end + step / 2; v += step) ticks.push(Number(v.toPrecision(12)));
+    return { means, points, domain: [start, end] as [number, number], ticks };
   }, [trend, metricTargets]);
 
   const open = (id: string) => router.push(`/projects/${projectId}/revisions/${id}`);
@@ -167,6 +174,7 @@ export function TrendChart({ projectId, trends, targets, initialMetric }: { proj
               <YAxis
                 type="number"
                 domain={domain}
+                ticks={ticks}
                 tickFormatter={tick}
                 width={56}
                 stroke="rgb(var(--muted))"

@@ -43,6 +43,8 @@ test('the VX-B variants compare with a difference, its CI, Welch figures and a p
   // previews of both sides with the measured regions drawn over them
   await expect(page.getByTestId('compare-preview')).toHaveCount(8);
   await expect(page.getByTestId('compare-preview').first().locator('rect[data-region="screen"]')).toHaveCount(1);
+  const img = page.getByTestId('compare-preview').first().locator('img');
+  await expect.poll(() => img.evaluate((el: HTMLImageElement) => el.complete && el.naturalWidth > 0)).toBe(true);
   await page.screenshot({ path: testInfo.outputPath('compare-vx-b.png'), fullPage: true });
 
   // the same URL opened afresh shows the same comparison
