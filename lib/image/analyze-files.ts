@@ -1,6 +1,6 @@
 import { readFile } from 'node:fs/promises';
 import { basename } from 'node:path';
-import { analyzeCaptureDetailed, preparePhoto, type AnalysisMemo, type CapturePhoto } from '../photometry/analyze-capture';
+import { analyzeCaptureDetailed, preparePhoto, resolveRolePhoto, type AnalysisMemo, type BracketedResult, type CapturePhoto } from '../photometry/analyze-capture';
 import { EngineInputError } from '../photometry/errors';
 import type { CaptureResult } from '../photometry/result';
 import type { Offset, Pattern, PhotoRole, Rect } from '../photometry/types';
@@ -10,11 +10,14 @@ import { decodePhoto } from './decode';
 /** A photo by path or as bytes already in memory (the worker reads from storage). */
 export type PhotoSource = string | { name: string; bytes: Uint8Array };
 
+/** One photo of a role, or several at different exposures (a bracket, merged before measuring). */
+export type RoleSource = PhotoSource | readonly PhotoSource[];
+
 export interface AnalyzeFilesOptions {
-  on: PhotoSource;
-  off: PhotoSource;
-  ambient?: PhotoSource | null;
-  dark?: PhotoSource | null;
+  on: RoleSource;
+  off: RoleSource;
+  ambient?: RoleSource | null;
+  dark?: RoleSource | null;
   pattern?: Pattern;
   screen?: Rect | null;
   background?: Rect | null;
@@ -28,7 +31,7 @@ export interface AnalyzeFilesOptions {
 }
 
 export interface FileAnalysis {
-  result: CaptureResult;
+  result: CaptureResult & Pick<BracketedResult, 'brackets'>;
   artifacts: Artifacts | null;
 }
 
@@ -46,6 +49,51 @@ async function load(source: PhotoSource, role: PhotoRole): Promise<{ name: strin
 
 /** Decodes and analyses a capture set end to end: files in, reading and artifacts out. */
 export async function analyzeFiles(options: AnalyzeFilesOptions): Promise<FileAnalysis> {
+  const roles = [['on', options.on], ['off', options.off], ['ambient', options.ambient], ['dark', options.dark]] as const;
+  if (roles.some(([, s]) => Array.isArray(s) && s.length !== 1)) return analyzeBrackets(options);
+  const single = (s: RoleSource | null | undefined): PhotoSource | null => (s === null || s === undefined ? null : Array.isArray(s) ? (s[0] as PhotoSource) : (s as PhotoSource));
+  return analyzeSingles({ ...options, on: single(options.on) as PhotoSource, off: single(options.off) as PhotoSource, ambient: single(options.ambient), dark: single(options.dark) });
+}
+
+// at least one role is a bracket: decode everything, merge each bracket once, analyse once
+async function analyzeBrackets(options: AnalyzeFilesOptions): Promise<FileAnalysis> {
+  const progress = options.onProgress ?? ((): void => undefined);
+  const list = (s: RoleSource | null | undefined): PhotoSource[] => (s === null || s === undefined ? [] : Array.isArray(s) ? [...(s as readonly PhotoSource[])] : [s as PhotoSource]);
+  const byRole: [PhotoRole, PhotoSource[]][] = [['on', list(options.on)], ['off', list(options.off)], ['ambient', list(options.ambient)], ['dark', list(options.dark)]];
+  progress('read', 0);
+  const photos: Partial<Record<PhotoRole, CapturePhoto>> = {};
+  for (const [role, sources] of byRole) {
+    if (sources.length === 0) continue;
+    const files = await Promise.all(sources.map((s) => load(s, role)));
+    const decoded = await Promise.all(
+      files.map(async (f, i) => {
+        const d = await decodePhoto(f.bytes, { name: sources.length > 1 ? `the ${role} photo ${f.name} (bracket ${i + 1} of ${sources.length})` : `the ${role} photo ${f.name}`, linear16: options.linear16 ?? false });
+        return { raster: d.raster, exposure: d.exposure } satisfies CapturePhoto;
+      }),
+    );
+    const merged = resolveRolePhoto(decoded, role);
+    photos[role] = { ...merged, small: preparePhoto(merged.raster) };
+  }
+  if (!photos.on || !photos.off) throw new EngineInputError('file-missing', 'both an on and an off photo are needed');
+  progress('analyse', 0.4);
+  const { result, maps } = analyzeCaptureDetailed({
+    on: photos.on,
+    off: photos.off,
+    ambient: photos.ambient ?? null,
+    dark: photos.dark ?? null,
+    pattern: options.pattern ?? 'full',
+    screen: options.screen ?? null,
+    background: options.background ?? null,
+    ghostOffset: options.ghostOffset ?? null,
+    calibration: options.calibration ?? null,
+    onProgress: (stage, f) => progress(stage, 0.4 + 0.5 * f),
+  });
+  const artifacts = options.artifacts !== false ? await renderArtifacts(maps, null) : null;
+  progress('done', 1);
+  return { result, artifacts };
+}
+
+async function analyzeSingles(options: AnalyzeFilesOptions & { on: PhotoSource; off: PhotoSource; ambient: PhotoSource | null; dark: PhotoSource | null }): Promise<FileAnalysis> {
   const progress = options.onProgress ?? ((): void => undefined);
   const sources: [PhotoRole, PhotoSource][] = [['on', options.on], ['off', options.off]];
   if (options.ambient) sources.push(['ambient', options.ambient]);

@@ -3,17 +3,18 @@ import { deltaE2000 } from './ciede2000';
 import { chromaticity, linearRgbToXyz, xyzToLab, D65_WHITE } from './color';
 import { contrastRatio, michelson } from './contrast';
 import { luminanceCrop } from './crop';
-import { detectScreen } from './detect-screen';
+import { detectScreen, strided } from './detect-screen';
 import { downsampleLuminance } from './downsample';
 import { EngineInputError } from './errors';
 import { exposureFactor, exposureScales } from './exposure';
 import { GHOST_MIN_SNR, searchGhost } from './ghost-search';
 import { measureGhostAt } from './ghost-measure';
 import { bandRects } from './band';
+import { mergeBracket, type BracketSummary } from './bracket-merge';
 import { measureRects, totalsMean, totalsRgbMean, type RectRequest, type RectTotals } from './region-pass';
 import { luminanceHistogram } from './histogram';
 import { meterLuminance, METERED_TONE } from './meter';
-import { robustSigma } from './percentile';
+import { percentile, robustSigma } from './percentile';
 import { assertRaster, downsampleFactor } from './raster';
 import { gridCells, intersectRects, translateRect } from './rect';
 import { registerPhotos, registerPlanes } from './register';
@@ -33,13 +34,38 @@ export interface CapturePhoto {
   exposure?: ExposureTags | null;
   /** Downsampled luminance made by `preparePhoto` (saves a pass when the caller made it early). */
   small?: Plane;
+  /** Multiplier from the raster's luminance to the photo's own exposure scale (a merged bracket's; 1 otherwise). */
+  gain?: number;
+  /** Set on a merged bracket: how it was merged, reported in the reading. */
+  bracket?: BracketSummary;
+}
+
+/** A role's photo, or several photos of it at different exposures (a bracket). */
+export type CaptureRoleInput = CapturePhoto | readonly CapturePhoto[];
+
+/**
+ * One photo standing for a role: a single photo as given, a bracket merged into one linear
+ * 16-bit plane on its first member's exposure (see `mergeBracket`).
+ */
+export function resolveRolePhoto(input: CaptureRoleInput, role: PhotoRole): CapturePhoto {
+  if (!Array.isArray(input)) return input as CapturePhoto;
+  const list = input as readonly CapturePhoto[];
+  if (list.length === 0) throw new EngineInputError('file-missing', `the ${role} bracket holds no photo`);
+  if (list.length === 1) return list[0] as CapturePhoto;
+  try {
+    const m = mergeBracket(list.map((p) => ({ raster: p.raster, exposure: p.exposure ?? null })));
+    return { raster: m.raster, exposure: m.exposure, gain: m.gain, bracket: m.summary };
+  } catch (e) {
+    if (e instanceof RangeError) throw new EngineInputError(/size/.test(e.message) ? 'size-mismatch' : 'bad-argument', `the ${role} bracket: ${e.message}`);
+    throw e;
+  }
 }
 
 export interface CaptureInput {
-  on: CapturePhoto;
-  off: CapturePhoto;
-  ambient?: CapturePhoto | null;
-  dark?: CapturePhoto | null;
+  on: CaptureRoleInput;
+  off: CaptureRoleInput;
+  ambient?: CaptureRoleInput | null;
+  dark?: CaptureRoleInput | null;
   pattern?: Pattern;
   /** Regions in the on photo's pixels; a missing screen is detected. */
   screen?: Rect | null;
@@ -85,8 +111,11 @@ function cached<T>(memo: AnalysisMemo | null, key: string, compute: () => T): T 
 
 const rectKey = (r: Rect): string => `${r.x},${r.y},${r.w},${r.h}`;
 
+/** A reading whose roles were bracketed carries how each bracket was merged. */
+export type BracketedResult = CaptureResult & { brackets?: Partial<Record<PhotoRole, BracketSummary>> };
+
 export interface CaptureAnalysis {
-  result: CaptureResult;
+  result: BracketedResult;
   maps: AnalysisMaps;
 }
 
@@ -118,10 +147,11 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
   if (input.calibration !== undefined && input.calibration !== null && !(Number.isFinite(input.calibration) && input.calibration > 0)) {
     throw new EngineInputError('bad-argument', 'the calibration factor must be a positive number');
   }
-  const photos: Partial<Record<PhotoRole, CapturePhoto>> = { on: input.on, off: input.off };
-  if (input.ambient) photos.ambient = input.ambient;
-  if (input.dark) photos.dark = input.dark;
-  const on = input.on.raster;
+  const photos: Partial<Record<PhotoRole, CapturePhoto>> = { on: resolveRolePhoto(input.on, 'on'), off: resolveRolePhoto(input.off, 'off') };
+  if (input.ambient) photos.ambient = resolveRolePhoto(input.ambient, 'ambient');
+  if (input.dark) photos.dark = resolveRolePhoto(input.dark, 'dark');
+  const onPhoto = photos.on as CapturePhoto;
+  const on = onPhoto.raster;
   const { width: W, height: H } = on;
   for (const [role, p] of Object.entries(photos) as [PhotoRole, CapturePhoto][]) {
     assertRaster(p.raster);
@@ -140,7 +170,12 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
   if (!exp.known) {
     warnings.push({ code: 'exposure-unknown', message: `no exposure time, f-number and ISO in the EXIF of: ${exp.missing.join(', ')}; equal exposure assumed` });
   }
-  const scaleOf = (role: PhotoRole): number => (exp.scales as Partial<Record<PhotoRole, number>>)[role] ?? 1;
+  // a merged bracket's gain folds into its exposure scale; single photos have none, so their scale is untouched
+  const scaleOf = (role: PhotoRole): number => {
+    const s = (exp.scales as Partial<Record<PhotoRole, number>>)[role] ?? 1;
+    const g = photos[role]?.gain;
+    return g === undefined ? s : s * g;
+  };
 
   const memo = input.memo ?? null;
   const factor = downsampleFactor(W, MAP_MAX_WIDTH);
@@ -156,6 +191,26 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
 
   // registration (PRODUCT.md §5.6)
   const registration: Partial<Record<PhotoRole, Offset>> = { on: { dx: 0, dy: 0 } };
+  // A merged bracket keeps a display far brighter than the room; registration's log floor (a share
+  // of the brightest level) would then flatten the room it locks onto. Capping both planes a little
+  // above the off photo's brightest room level gives it back the view a single exposure has.
+  const bracketed = Object.values(photos).some((p) => p?.bracket);
+  let regCap = Number.POSITIVE_INFINITY;
+  if (bracketed) {
+    regCap = 4 * percentile(strided((small.off as Plane).data, 100_000), 99);
+    if (!(regCap > 0)) regCap = Number.POSITIVE_INFINITY;
+  }
+  const capped = new Map<PhotoRole, Plane>();
+  const regSmall = (role: PhotoRole): Plane => {
+    const p = small[role] as Plane;
+    if (!bracketed || !Number.isFinite(regCap)) return p;
+    let c = capped.get(role);
+    if (!c) {
+      c = { data: p.data.map((v) => (v > regCap ? regCap : v)), width: p.width, height: p.height };
+      capped.set(role, c);
+    }
+    return c;
+  };
   const maxShift = Math.ceil(2 * MAX_SHIFT_SHARE * W) + 2;
   for (const role of ROLES_AFTER_ON) {
     const p = photos[role];
@@ -168,12 +223,12 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
       const rs = registerPlanes(dOn, small.dark as Plane, Math.ceil(maxShift / factor));
       r = { dx: rs.dx * factor, dy: rs.dy * factor };
     } else {
-      r = cached(memo, `register:${smallKey.on}:${smallKey[role]}:${factor}:${maxShift}`, () =>
+      r = cached(memo, `register:${smallKey.on}:${smallKey[role]}:${factor}:${maxShift}${bracketed ? `:cap${regCap}` : ''}`, () =>
         registerPhotos({
           reference: on,
           moving: p.raster,
-          referenceSmall: small.on as Plane,
-          movingSmall: small[role] as Plane,
+          referenceSmall: regSmall('on'),
+          movingSmall: regSmall(role),
           factor,
           maxShift,
         }),
@@ -453,8 +508,8 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
 
   // absolute luminance: a camera profile, or the meter equation as a labelled rough estimate
   let absoluteLuminance: CaptureResult['absoluteLuminance'] = null;
-  const eOn = exposureFactor(input.on.exposure);
-  const onTags = input.on.exposure;
+  const eOn = exposureFactor(onPhoto.exposure);
+  const onTags = onPhoto.exposure;
   if (input.calibration) {
     if (eOn === null) warnings.push({ code: 'calibration-needs-exposure', message: 'the on photo has no exposure EXIF, so the calibration factor cannot convert to cd/m²' });
     else {
@@ -482,7 +537,7 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
   const histograms: AnalysisMaps['histograms'] = {};
   for (const [role, p] of Object.entries(small) as [PhotoRole, Plane][]) histograms[role] = cached(memo, `histogram:${smallKey[role]}`, () => luminanceHistogram(p.data, 96, -14, 2, Math.max(1, Math.floor(p.data.length / 250_000))));
 
-  const result: CaptureResult = {
+  const result: BracketedResult = {
     engineVersion: ENGINE_VERSION,
     image: { width: W, height: H },
     pattern,
@@ -510,6 +565,10 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     exposure: { known: exp.known, scales: exp.scales },
     warnings,
   };
+  const brackets: Partial<Record<PhotoRole, BracketSummary>> = {};
+  for (const [role, p] of Object.entries(photos) as [PhotoRole, CapturePhoto][]) if (p.bracket) brackets[role] = p.bracket;
+  // the key appears only for bracketed input, so single-photo readings keep their exact shape
+  if (Object.keys(brackets).length > 0) result.brackets = brackets;
   progress('done', 1);
   return {
     result,
@@ -518,6 +577,6 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
 }
 
 /** Analyses one capture set and returns the reading only. */
-export function analyzeCapture(input: CaptureInput): CaptureResult {
+export function analyzeCapture(input: CaptureInput): BracketedResult {
   return analyzeCaptureDetailed(input).result;
 }

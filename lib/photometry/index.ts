@@ -3,6 +3,7 @@ export { EngineInputError, isEngineInputError, type EngineInputErrorCode } from 
 export type { Plane, PhotoRaster, Rect, Offset, ExposureTags, PhotoRole, Pattern } from './types';
 export { WARNING_CODES, type WarningCode, type EngineWarning, type CaptureResult, type GhostResult, type GhostAndUniformity, type AnalysisMaps } from './result';
 export { analyzeCapture, analyzeCaptureDetailed, preparePhoto, MAP_MAX_WIDTH, MAX_SHIFT_SHARE, type CaptureInput, type CapturePhoto, type CaptureAnalysis } from './analyze-capture';
+export { resolveRolePhoto, type CaptureRoleInput, type BracketedResult } from './analyze-capture';
 export { srgbDecode, srgbEncode, srgb8Table, linearTable } from './srgb';
 export { LUMINANCE_WEIGHTS, relativeLuminance } from './luminance';
 export { luminanceTables, downsampleFactor, assertRaster, type LuminanceTables } from './raster';
@@ -31,3 +32,6 @@ export { linearRgbToXyz, chromaticity, xyzToLab, D65_XY, D65_WHITE, type Xyz, ty
 export { deltaE2000 } from './ciede2000';
 export { luminanceHistogram, type LuminanceHistogram } from './histogram';
 export { falseColour, rampColour } from './false-colour';
+export { mergeBracket, type BracketMember, type BracketMergeOptions, type BracketSummary, type MergedBracket } from './bracket-merge';
+export { fitLinearity, readGreySteps, LINEARITY_EXPONENT_TOLERANCE, LINEARITY_MAX_DEVIATION, type LinearityFit, type GreyStepReading } from './linearity';
+export { calibrationFactor, absoluteLuminance, roughCalibrationFactor, calibrateFromPatch, CALIBRATION_MAX_CLIPPED, CALIBRATION_MIN_LEVEL, type PatchCalibration } from './calibration';
