@@ -1,5 +1,6 @@
 import { createHash } from 'node:crypto';
-import { findPhotoBySha, listPhotos, putPhoto, type Photo } from '../../db/queries/photos';
+import { putBracketPhoto } from '../../db/queries/camera-profiles';
+import { findPhotoBySha, listPhotos, type Photo } from '../../db/queries/photos';
 import { AppError } from '../errors';
 import { makePreview } from '../image/preview';
 import { probePhoto, type ProbedPhoto } from '../image/probe';
@@ -7,12 +8,14 @@ import { isEngineInputError } from '../photometry/errors';
 import { MAX_UPLOAD_BYTES, ROLE_LABELS, type PhotoRole } from '../schemas/upload';
 import { deleteKeys, getStorage, photoKey, previewKey } from './index';
 
-export type IngestResult = { photo: Photo; duplicate: boolean };
+/** `bracketSize`: photos of this role now kept (several at different exposures form a bracket). */
+export type IngestResult = { photo: Photo; duplicate: boolean; bracketSize?: number };
 
 const refuse = (message: string, code = 'photo_refused', status = 422) => new AppError(status, message, code);
 
 /**
- * Takes one uploaded photo for a role: checks it (type from content, size, pixels, same size as
+ * Takes one uploaded photo for a role (a photo at a new exposure joins the role's bracket; one at
+ * an exposure the role already has replaces that shot): checks it (type from content, size, pixels, same size as
  * the set's other photos, not already in the lab), stores the original and a preview under fresh
  * keys, then records it. A refused file leaves no row and no stored object behind.
  */
@@ -37,7 +40,8 @@ export async function ingestPhoto(input: { labId: string; userId: string; captur
     throw refuse(`${name} is already uploaded ${where}. Each photo belongs to one capture set: shoot the ${role} photo separately.`, 'duplicate', 409);
   }
 
-  const others = (await listPhotos(labId, captureSetId)).filter((p) => p.role !== role);
+  // bracket members share the size of every other photo in the set, whatever their role
+  const others = await listPhotos(labId, captureSetId);
   const mismatch = others.find((p) => p.width !== probed.width || p.height !== probed.height);
   if (mismatch) {
     throw refuse(`${name} is ${probed.width} × ${probed.height} pixels but the ${mismatch.role} photo is ${mismatch.width} × ${mismatch.height}: shoot every role with the same camera and settings, uncropped`, 'size_mismatch');
@@ -59,7 +63,7 @@ export async function ingestPhoto(input: { labId: string; userId: string; captur
     written.push(original);
     await storage.put(small, preview.webp, { contentType: 'image/webp' });
     written.push(small);
-    const { photo, replacedKeys } = await putPhoto(labId, userId, captureSetId, {
+    const { photo, replacedKeys, bracketSize } = await putBracketPhoto(labId, userId, captureSetId, {
       role,
       storageKey: original,
       previewKey: small,
@@ -73,7 +77,7 @@ export async function ingestPhoto(input: { labId: string; userId: string; captur
       originalName: name,
     });
     await deleteKeys(replacedKeys);
-    return { photo, duplicate: false };
+    return { photo, duplicate: false, bracketSize };
   } catch (e) {
     await deleteKeys(written);
     // two uploads of the same file at once: the loser sees the same message as a later duplicate

@@ -1,0 +1,153 @@
+import type { Knex } from 'knex';
+import { getDb } from '../index';
+import type { CalibrationDetails, LinearityDetails } from '../../lib/schemas/camera-profile';
+import type { PhotoRole } from '../../lib/schemas/upload';
+import { recordAudit } from './audit';
+import type { PhotoExif, PhotoWrite, Photo } from './photos';
+
+export type CameraProfile = {
+  id: string;
+  make: string;
+  model: string;
+  name: string;
+  k: number;
+  calibration: CalibrationDetails;
+  linearity: LinearityDetails | null;
+  createdBy: string | null;
+  createdAt: Date;
+  updatedAt: Date;
+};
+
+type Row = { id: string; lab_id: string; make: string; model: string; name: string; k: number | string; calibration: CalibrationDetails; linearity: LinearityDetails | null; created_by: string | null; created_at: Date; updated_at: Date };
+
+const toProfile = (r: Row): CameraProfile => ({
+  id: r.id,
+  make: r.make,
+  model: r.model,
+  name: r.name,
+  k: Number(r.k),
+  calibration: r.calibration,
+  linearity: r.linearity,
+  createdBy: r.created_by,
+  createdAt: r.created_at,
+  updatedAt: r.updated_at,
+});
+
+/** EXIF spells make and model with varying case and padding: profiles match on a normalised form. */
+export const cameraKey = (s: string): string => s.trim().replace(/\s+/g, ' ').toLowerCase();
+
+export async function listCameraProfiles(labId: string): Promise<CameraProfile[]> {
+  const rows: Row[] = await getDb()('camera_profiles').where({ lab_id: labId }).orderBy(['make', 'model']);
+  return rows.map(toProfile);
+}
+
+export async function getCameraProfile(labId: string, id: string): Promise<CameraProfile | null> {
+  const row: Row | undefined = await getDb()('camera_profiles').where({ lab_id: labId, id }).first();
+  return row ? toProfile(row) : null;
+}
+
+/** The lab's profile for a camera, by EXIF make and model; null without both or without a profile. */
+export async function findCameraProfile(labId: string, make: string | undefined, model: string | undefined, trx: Knex | Knex.Transaction = getDb()): Promise<CameraProfile | null> {
+  if (!make || !model) return null;
+  const row: Row | undefined = await trx('camera_profiles').where({ lab_id: labId, make: cameraKey(make), model: cameraKey(model) }).first();
+  return row ? toProfile(row) : null;
+}
+
+/** Saves a calibration for a camera, replacing the lab's earlier one for the same make and model. */
+export async function saveCameraCalibration(
+  labId: string,
+  userId: string,
+  input: { make: string; model: string; name: string; k: number; calibration: CalibrationDetails },
+): Promise<CameraProfile> {
+  return getDb().transaction(async (trx) => {
+    const make = cameraKey(input.make);
+    const model = cameraKey(input.model);
+    const [row] = await trx('camera_profiles')
+      .insert({ lab_id: labId, make, model, name: input.name, k: input.k, calibration: JSON.stringify(input.calibration), created_by: userId })
+      .onConflict(['lab_id', 'make', 'model'])
+      .merge({ name: input.name, k: input.k, calibration: JSON.stringify(input.calibration), updated_at: trx.fn.now() })
+      .returning<Row[]>('*');
+    if (!row) throw new Error('insert returned nothing');
+    await recordAudit({ labId, userId, action: 'camera.calibrate', targetType: 'camera_profile', targetId: row.id, details: { make, model, k: input.k } }, trx);
+    return toProfile(row);
+  });
+}
+
+/** Keeps the latest linearity check on the camera's profile; false when the lab has none for it. */
+export async function saveCameraLinearity(labId: string, userId: string, make: string, model: string, linearity: LinearityDetails): Promise<CameraProfile | null> {
+  return getDb().transaction(async (trx) => {
+    const [row] = await trx('camera_profiles')
+      .where({ lab_id: labId, make: cameraKey(make), model: cameraKey(model) })
+      .update({ linearity: JSON.stringify(linearity), updated_at: trx.fn.now() })
+      .returning<Row[]>('*');
+    if (!row) return null;
+    await recordAudit({ labId, userId, action: 'camera.linearity', targetType: 'camera_profile', targetId: row.id, details: { exponent: linearity.exponent, linear: linearity.linear } }, trx);
+    return toProfile(row);
+  });
+}
+
+export async function deleteCameraProfile(labId: string, userId: string, id: string): Promise<boolean> {
+  return getDb().transaction(async (trx) => {
+    const [row] = await trx('camera_profiles').where({ lab_id: labId, id }).delete().returning<Row[]>('*');
+    if (!row) return false;
+    await recordAudit({ labId, userId, action: 'camera.delete', targetType: 'camera_profile', targetId: id, details: { make: row.make, model: row.model } }, trx);
+    return true;
+  });
+}
+
+type PhotoRow = { id: string; capture_set_id: string; role: PhotoRole; storage_key: string; preview_key: string | null; sha256: string; bytes: string | number; width: number; height: number; format: string; bit_depth: number; exif: PhotoExif | null; original_name: string; created_at: Date };
+
+const rowToPhoto = (r: PhotoRow): Photo => ({
+  id: r.id,
+  captureSetId: r.capture_set_id,
+  role: r.role,
+  storageKey: r.storage_key,
+  previewKey: r.preview_key,
+  sha256: r.sha256.trim(),
+  bytes: Number(r.bytes),
+  width: r.width,
+  height: r.height,
+  format: r.format,
+  bitDepth: r.bit_depth,
+  exif: r.exif ?? {},
+  originalName: r.original_name,
+  createdAt: r.created_at,
+});
+
+const sameExposure = (a: PhotoExif, b: PhotoExif): boolean => a.exposureTime === b.exposureTime && a.fNumber === b.fNumber && a.iso === b.iso;
+
+/**
+ * Stores a photo of a role as part of its bracket: earlier photos of the role taken with the same
+ * exposure (a reshoot) are replaced, photos at other exposures are kept. Without full exposure
+ * EXIF nothing can tell the shots apart, so the role keeps only the new photo, as before.
+ * (Lives here until the photos module takes brackets itself.)
+ */
+export async function putBracketPhoto(labId: string, userId: string, captureSetId: string, p: PhotoWrite): Promise<{ photo: Photo; replacedKeys: string[]; bracketSize: number }> {
+  return getDb().transaction(async (trx) => {
+    const rows: PhotoRow[] = await trx('photos').where({ lab_id: labId, capture_set_id: captureSetId, role: p.role }).forUpdate();
+    const full = (e: PhotoExif): boolean => [e.exposureTime, e.fNumber, e.iso].every((v) => typeof v === 'number' && v > 0);
+    const old = full(p.exif) ? rows.filter((r) => !full(r.exif ?? {}) || sameExposure(r.exif ?? {}, p.exif)) : rows;
+    if (old.length) await trx('photos').whereIn('id', old.map((o) => o.id)).delete();
+    const [row] = await trx('photos')
+      .insert({
+        lab_id: labId,
+        capture_set_id: captureSetId,
+        role: p.role,
+        storage_key: p.storageKey,
+        preview_key: p.previewKey,
+        sha256: p.sha256,
+        bytes: p.bytes,
+        width: p.width,
+        height: p.height,
+        format: p.format,
+        bit_depth: p.bitDepth,
+        exif: JSON.stringify(p.exif),
+        original_name: p.originalName,
+      })
+      .returning<PhotoRow[]>('*');
+    if (!row) throw new Error('insert returned nothing');
+    const bracketSize = rows.length - old.length + 1;
+    await recordAudit({ labId, userId, action: 'photo.upload', targetType: 'photo', targetId: row.id, details: { captureSetId, role: p.role, bytes: p.bytes, bracketSize } }, trx);
+    return { photo: rowToPhoto(row), replacedKeys: old.flatMap((o) => [o.storage_key, ...(o.preview_key ? [o.preview_key] : [])]), bracketSize };
+  });
+}
