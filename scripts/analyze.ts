@@ -1,6 +1,7 @@
 /**
  * Command-line front of the photometry engine:
  * npm run -s analyze -- --on FILE --off FILE [--ambient FILE] [--dark FILE] [--pattern full|checkerboard]
+ *   (repeat --on, --off, --ambient or --dark to give a bracket of one role at different exposures)
  *   [--screen x,y,w,h] [--background x,y,w,h] [--ghost-offset dx,dy|none] [--calibration K] [--linear16]
  *   [--artifacts DIR] [--json]
  * Bad input exits with status 2 and one line on stderr.
@@ -8,6 +9,7 @@
 import { parseArgs } from 'node:util';
 import { analyzeFiles, writeArtifacts } from '../lib/image';
 import { EngineInputError } from '../lib/photometry/errors';
+import type { BracketedResult } from '../lib/photometry/analyze-capture';
 import type { CaptureResult } from '../lib/photometry/result';
 import type { Offset, Pattern, Rect } from '../lib/photometry/types';
 
@@ -53,6 +55,10 @@ function table(r: CaptureResult): string {
     const a = r.absoluteLuminance;
     rows.push([`cd/m² on / off / ambient (${a.kind})`, `${fmt(a.on, 1)} / ${fmt(a.off, 1)} / ${fmt(a.ambient, 1)}`]);
   }
+  const brackets = (r as CaptureResult & Pick<BracketedResult, 'brackets'>).brackets;
+  for (const [roleName, b] of Object.entries(brackets ?? {})) {
+    if (b) rows.push([`${roleName} bracket`, `${b.count} photos, dynamic range ${b.dynamicRange === null ? '—' : `${fmt(b.dynamicRange, 0)}:1 (${fmt(b.stops, 1)} stops)`}`]);
+  }
   const width = Math.max(...rows.map(([k]) => k.length));
   const lines = rows.map(([k, v]) => `${k.padEnd(width)}  ${v}`);
   for (const w of r.warnings) lines.push(`warning ${w.code}: ${w.message}`);
@@ -60,14 +66,14 @@ function table(r: CaptureResult): string {
 }
 
 async function main(): Promise<void> {
-  let values: Record<string, string | boolean | undefined>;
+  let values: Record<string, string | boolean | string[] | undefined>;
   try {
     ({ values } = parseArgs({
       options: {
-        on: { type: 'string' },
-        off: { type: 'string' },
-        ambient: { type: 'string' },
-        dark: { type: 'string' },
+        on: { type: 'string', multiple: true },
+        off: { type: 'string', multiple: true },
+        ambient: { type: 'string', multiple: true },
+        dark: { type: 'string', multiple: true },
         pattern: { type: 'string', default: 'full' },
         screen: { type: 'string' },
         background: { type: 'string' },
@@ -84,8 +90,14 @@ async function main(): Promise<void> {
     throw new EngineInputError('bad-argument', (e as Error).message.split('\n')[0] ?? 'bad arguments');
   }
   const str = (k: string): string | undefined => (typeof values[k] === 'string' ? (values[k] as string) : undefined);
-  const on = str('on');
-  const off = str('off');
+  const files = (k: string): string[] => (Array.isArray(values[k]) ? (values[k] as string[]) : []);
+  // one file stays a plain path, so single-photo runs take exactly the path they always took
+  const role = (k: string): string | string[] | null => {
+    const f = files(k);
+    return f.length === 0 ? null : f.length === 1 ? (f[0] as string) : f;
+  };
+  const on = role('on');
+  const off = role('off');
   if (!on || !off) throw new EngineInputError('bad-argument', 'both --on FILE and --off FILE are required');
   const pattern = str('pattern') as Pattern;
   if (pattern !== 'full' && pattern !== 'checkerboard') throw new EngineInputError('bad-argument', `--pattern must be full or checkerboard, got "${pattern}"`);
@@ -105,8 +117,8 @@ async function main(): Promise<void> {
   const { result, artifacts } = await analyzeFiles({
     on,
     off,
-    ambient: str('ambient') ?? null,
-    dark: str('dark') ?? null,
+    ambient: role('ambient'),
+    dark: role('dark'),
     pattern,
     screen: rect('screen', str('screen')),
     background: rect('background', str('background')),

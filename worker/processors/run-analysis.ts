@@ -1,5 +1,6 @@
 import { getDb } from '../../db/index';
 import { markAnalysisDone, setAnalysisProgress, startAnalysisRun } from '../../db/queries/analyses';
+import { findCameraProfile } from '../../db/queries/camera-profiles';
 import { getCaptureSet } from '../../db/queries/capture-sets';
 import { listPhotos, type Photo } from '../../db/queries/photos';
 import { listRegions } from '../../db/queries/regions';
@@ -25,8 +26,9 @@ export async function runAnalysis(labId: string, analysisId: string, onProgress?
   const set = await getCaptureSet(labId, analysis.captureSetId);
   if (!set) throw new EngineInputError('file-missing', 'the capture set was deleted before it could be analysed');
   const [photos, regions] = await Promise.all([listPhotos(labId, set.id), listRegions(labId, set.id)]);
-  const byRole = new Map<PhotoRole, Photo>();
-  for (const p of photos) if (!byRole.has(p.role)) byRole.set(p.role, p);
+  // several photos of one role are a bracket, in upload order (the first sets the reference exposure)
+  const byRole = new Map<PhotoRole, Photo[]>();
+  for (const p of photos) byRole.set(p.role, [...(byRole.get(p.role) ?? []), p]);
   for (const role of ['on', 'off'] as const) {
     if (!byRole.has(role)) throw new EngineInputError('file-missing', `the capture set has no ${role} photo: upload the display-${role} photo, then analyse again`);
   }
@@ -46,14 +48,21 @@ export async function runAnalysis(labId: string, analysisId: string, onProgress?
 
   report('loading', 3, true);
   const storage = getStorage();
-  const load = async (role: PhotoRole): Promise<PhotoSource | null> => {
-    const p = byRole.get(role);
-    if (!p) return null;
+  const loadOne = async (role: PhotoRole, p: Photo): Promise<PhotoSource> => {
     const bytes = await storage.get(p.storageKey);
     if (!bytes) throw new EngineInputError('file-missing', `the stored ${role} photo ${p.originalName || ''} is missing: upload it again`);
     return { name: p.originalName || `${role} photo`, bytes };
   };
+  const load = async (role: PhotoRole): Promise<PhotoSource | PhotoSource[] | null> => {
+    const list = byRole.get(role);
+    if (!list?.length) return null;
+    const sources = await Promise.all(list.map((p) => loadOne(role, p)));
+    return sources.length === 1 ? (sources[0] as PhotoSource) : sources;
+  };
   const [on, off, ambient, dark] = await Promise.all((['on', 'off', 'ambient', 'dark'] as const).map(load));
+  // absolute luminance when the lab has calibrated the camera that took the on photo
+  const onExif = (byRole.get('on') as Photo[])[0]?.exif ?? {};
+  const profile = await findCameraProfile(labId, onExif.make, onExif.model);
 
   const screen = regions.find((r) => r.kind === 'screen') ?? null;
   const background = regions.find((r) => r.kind === 'background') ?? null;
@@ -62,9 +71,10 @@ export async function runAnalysis(labId: string, analysisId: string, onProgress?
   // a marked ghost rectangle is the screen's copy: its offset is what the engine wants
   const ghostOffset = ghost && screen ? { dx: ghost.x - screen.x, dy: ghost.y - screen.y } : null;
 
-  const { result, artifacts } = await analyzeFiles({
-    on: on as PhotoSource,
-    off: off as PhotoSource,
+  const { result: engineResult, artifacts } = await analyzeFiles({
+    on: on as PhotoSource | PhotoSource[],
+    off: off as PhotoSource | PhotoSource[],
+    calibration: profile?.k ?? null,
     ambient,
     dark,
     pattern: set.pattern,
@@ -73,6 +83,9 @@ export async function runAnalysis(labId: string, analysisId: string, onProgress?
     ghostOffset,
     onProgress: (stage, fraction) => report(stage === 'done' ? 'artifacts' : stage, 5 + 85 * fraction),
   });
+
+  // the reading names the profile it was converted with (more keys are allowed in the result)
+  const result = profile ? { ...engineResult, cameraProfile: { id: profile.id, name: profile.name, make: profile.make, model: profile.model, k: profile.k } } : engineResult;
 
   report('artifacts', 92, true);
   const stored: ReadingArtifacts = {};
