@@ -1,15 +1,11 @@
 'use client';
 
-import { Button } from '@/components/ui/button';
+import { RouteError } from '@/components/ui/route-states';
 
 export default function LabError({ reset }: { error: Error & { digest?: string }; reset: () => void }) {
   return (
-    <div className="mx-auto max-w-lg rounded-lg border border-fail/40 bg-fail/5 p-6">
-      <h2 className="font-semibold text-fail">This page could not be shown</h2>
-      <p className="mt-2 text-sm text-muted">Something failed while loading it. Your data is safe. Try again; if it keeps failing, tell your lab admin.</p>
-      <Button className="mt-4" onClick={reset}>
-        Try again
-      </Button>
-    </div>
+    <RouteError title="This page could not be shown" reset={reset}>
+      Something failed while loading it. Your data is safe. Try again; if it keeps failing, tell your lab admin.
+    </RouteError>
   );
 }

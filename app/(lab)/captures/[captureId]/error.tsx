@@ -1,15 +1,11 @@
 'use client';
 
-import { Button } from '@/components/ui/button';
+import { RouteError } from '@/components/ui/route-states';
 
 export default function CaptureError({ reset }: { error: Error & { digest?: string }; reset: () => void }) {
   return (
-    <div className="mx-auto max-w-lg rounded-lg border border-fail/40 bg-fail/5 p-6">
-      <h2 className="font-semibold text-fail">This capture set could not be shown</h2>
-      <p className="mt-2 text-sm text-muted">Loading it failed; your photos and readings are safe. Try again in a moment.</p>
-      <Button className="mt-4" onClick={reset}>
-        Try again
-      </Button>
-    </div>
+    <RouteError title="This capture set could not be shown" reset={reset}>
+      Loading it failed; your photos and readings are safe. Try again in a moment.
+    </RouteError>
   );
 }

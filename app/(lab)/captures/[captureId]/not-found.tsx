@@ -1,12 +1,5 @@
-import Link from 'next/link';
-import { EmptyState } from '@/components/ui/panel';
+import { MissingRecord } from '@/components/ui/route-states';
 
 export default function CaptureNotFound() {
-  return (
-    <EmptyState title="No such capture set in this lab">
-      <Link href="/projects" className="text-beam hover:underline">
-        Back to projects
-      </Link>
-    </EmptyState>
-  );
+  return <MissingRecord title="No such capture set">It was deleted, or it belongs to another lab.</MissingRecord>;
 }

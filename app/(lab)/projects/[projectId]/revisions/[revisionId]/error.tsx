@@ -1,15 +1,11 @@
 'use client';
 
-import { Button } from '@/components/ui/button';
+import { RouteError } from '@/components/ui/route-states';
 
 export default function RevisionError({ reset }: { error: Error & { digest?: string }; reset: () => void }) {
   return (
-    <div className="mx-auto max-w-lg rounded-lg border border-fail/40 bg-fail/5 p-6">
-      <h2 className="font-semibold text-fail">This revision could not be shown</h2>
-      <p className="mt-2 text-sm text-muted">Loading it failed; nothing was changed. Try again in a moment.</p>
-      <Button className="mt-4" onClick={reset}>
-        Try again
-      </Button>
-    </div>
+    <RouteError title="This revision could not be shown" reset={reset}>
+      Loading it failed; nothing was changed. Try again in a moment.
+    </RouteError>
   );
 }
