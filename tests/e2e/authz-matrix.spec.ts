@@ -20,7 +20,7 @@ const allowed = (role: Role, p: Permission) => EXPECTED[role].has(p);
 type Access = Permission | 'public' | 'session';
 
 // Every route handler and method, with the permission it must demand. `{id}` segments get ids.
-const ROUTES: { method: string; path: string; access: Access }[] = [
+const ROUTES: { method: string; path: string; access: Access; query?: string }[] = [
   { method: 'GET', path: '/api/health', access: 'public' },
   { method: 'POST', path: '/api/password-reset', access: 'public' },
   { method: 'POST', path: '/api/password-reset/complete', access: 'public' },
@@ -33,8 +33,8 @@ const ROUTES: { method: string; path: string; access: Access }[] = [
   { method: 'GET', path: '/api/projects/[projectId]/trend', access: 'project.read' },
   { method: 'GET', path: '/api/projects/[projectId]/readings.csv', access: 'export.create' },
   { method: 'GET', path: '/api/projects/[projectId]/report.pdf', access: 'export.create' },
-  { method: 'GET', path: '/api/projects/[projectId]/compare/readings.csv', access: 'export.create' },
-  { method: 'GET', path: '/api/projects/[projectId]/compare/report.pdf', access: 'export.create' },
+  { method: 'GET', path: '/api/projects/[projectId]/compare/readings.csv', access: 'export.create', query: '?a=[revisionId]&b=[revisionId]' },
+  { method: 'GET', path: '/api/projects/[projectId]/compare/report.pdf', access: 'export.create', query: '?a=[revisionId]&b=[revisionId]' },
   { method: 'GET', path: '/api/revisions/[revisionId]/readings.csv', access: 'export.create' },
   { method: 'GET', path: '/api/revisions/[revisionId]/report.pdf', access: 'export.create' },
   { method: 'POST', path: '/api/captures', access: 'capture.write' },
@@ -78,6 +78,10 @@ const ACTIONS: Record<string, Access> = {
   updateRevisionAction: 'revision.write',
   createCaptureSetAction: 'capture.write',
   saveStackAction: 'stack.write',
+  createTargetAction: 'target.write',
+  updateTargetAction: 'target.write',
+  deleteTargetAction: 'target.write',
+  adoptDefaultTargetAction: 'target.write',
   inviteMemberAction: 'invitation.manage',
   revokeInvitationAction: 'invitation.manage',
   changeRoleAction: 'member.manage',
@@ -129,8 +133,8 @@ function url(path: string, real: boolean): string {
   });
 }
 
-async function call(client: APIRequestContext, method: string, path: string, real = false) {
-  const res = await client.fetch(url(path, real), { method, data: method === 'GET' || method === 'DELETE' ? undefined : {}, maxRedirects: 0 });
+async function call(client: APIRequestContext, method: string, path: string, real = false, query = '') {
+  const res = await client.fetch(url(path + query, real), { method, data: method === 'GET' || method === 'DELETE' ? undefined : {}, maxRedirects: 0 });
   return res.status();
 }
 
@@ -191,7 +195,7 @@ test('the matrix lists every server action with the permission its source declar
 for (const r of ROUTES) {
   test(`${r.method} ${r.path}: each role, another lab, no session, tokens`, async () => {
     for (const role of ROLES) {
-      const status = await call(clients.get(role)!, r.method, r.path);
+      const status = await call(clients.get(role)!, r.method, r.path, false, r.query);
       if (r.access === 'public' || r.access === 'session' || allowed(role, r.access)) {
         expect(status, `${role} may`).not.toBe(403);
         expect(status, `${role} may`).not.toBe(401);
@@ -200,12 +204,12 @@ for (const r of ROUTES) {
         expect(status, `${role} may not`).toBe(403);
       }
     }
-    const anon = await call(clients.get('anon')!, r.method, r.path);
+    const anon = await call(clients.get('anon')!, r.method, r.path, false, r.query);
     if (r.access === 'public') expect(anon).not.toBe(401);
     else expect(anon, 'no session').toBe(401);
 
     if (r.access !== 'public' && /\[\w+Id\]/.test(r.path)) {
-      const outsider = await call(clients.get('outsider')!, r.method, r.path, true);
+      const outsider = await call(clients.get('outsider')!, r.method, r.path, true, r.query);
       if (r.method === 'GET') expect(outsider, 'another lab reads').toBe(404);
       else {
         expect(outsider, 'another lab writes').toBeGreaterThanOrEqual(400);
