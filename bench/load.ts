@@ -170,7 +170,7 @@ async function hammer(route: string, base: string, cookie: string, paths: string
     inst.on('done', resolve);
   });
   times.sort((a, b) => a - b);
-  return { route, requests: times.length, rps: Math.round(times.length / DURATION), p50: percentile(times, 50), p95: percentile(times, 95), p99: percentile(times, 99), errors: bad + result.errors + result.timeouts };
+  return { route, requests: times.length, rps: Math.round(times.length / DURATION), p50: Math.round(percentile(times, 50)), p95: Math.round(percentile(times, 95)), p99: Math.round(percentile(times, 99)), errors: bad + result.errors + result.timeouts };
 }
 
 async function uploadBurst(base: string, cookie: string, projectId: string): Promise<{ accepted: number; analysed: number; lost: number; seconds: number }> {
