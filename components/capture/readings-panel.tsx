@@ -38,8 +38,18 @@ function metrics(r: Reading): Metric[] {
     { key: 'clip', label: 'Clipped pixels', value: pct(res.clippedFraction, 3), unit: '%', definition: 'Share of pixels with a channel at ≥ 98 % of full scale inside the analysed regions.' },
     { key: 'reg', label: 'Registration, off photo', value: `${res.registration.off.dx}, ${res.registration.off.dy}`, unit: 'px', definition: 'Shift of the off photo against the on photo, found by phase correlation.' },
   ];
+  // the worker adds the profile it converted with; readings from before camera profiles lack it
+  const extra = res as typeof res & { cameraProfile?: { name: string }; brackets?: Partial<Record<string, { count: number; dynamicRange: number | null; stops: number | null }>> };
   if (abs) {
-    out.push({ key: 'abs', label: abs.kind === 'calibrated' ? 'Display luminance' : 'Display luminance (rough estimate)', value: f(abs.on, 1), unit: 'cd/m²', definition: abs.kind === 'calibrated' ? 'From the camera profile.' : 'From the reflected-light meter equation (K ≈ 12.5): for orientation only.' });
+    const calibrated = abs.kind === 'calibrated';
+    const source = calibrated ? `calibrated with ${extra.cameraProfile?.name ?? 'a camera profile'}` : 'uncalibrated — rough estimate';
+    out.push({ key: 'abs', label: calibrated ? 'Display luminance' : 'Display luminance (rough estimate)', value: f(abs.on, 1), unit: `cd/m² · ${source}`, definition: calibrated ? 'On photo converted with the camera profile’s factor k.' : 'From the reflected-light meter equation (K ≈ 12.5): for orientation only. Calibrate the camera under Lab settings → Camera profiles.' });
+    out.push({ key: 'abs-off', label: calibrated ? 'Background luminance' : 'Background luminance (rough estimate)', value: f(abs.off, 1), unit: `cd/m² · ${source}`, definition: 'The see-through background behind the screen, display dark.' });
+  } else {
+    out.push({ key: 'abs', label: 'Display luminance', value: '—', unit: 'uncalibrated', definition: 'No camera profile and no exposure EXIF: results are relative only.' });
+  }
+  for (const [role, b] of Object.entries(extra.brackets ?? {})) {
+    if (b) out.push({ key: `bracket-${role}`, label: `Bracket, ${role} photo`, value: b.dynamicRange === null ? '—' : `${f(b.dynamicRange, 0)}:1`, unit: `${b.count} exposures${b.stops === null ? '' : ` · ${f(b.stops, 1)} stops`}`, definition: 'Photos of one role at different exposures merged into one linear plane; the range spans the brightest to the darkest measured pixels.' });
   }
   return out;
 }

@@ -40,6 +40,8 @@ export function UploadPanel({ captureSetId, photos, canWrite }: { captureSetId: 
   const router = useRouter();
   const [items, setItems] = useState<Item[]>([]);
   const byRole = new Map(photos.map((p) => [p.role, p]));
+  // several photos of a role at different exposures form a bracket
+  const bracketCount = (role: PhotoRole) => photos.filter((p) => p.role === role).length;
 
   const patch = (key: string, p: Partial<Item>) => setItems((all) => all.map((i) => (i.key === key ? { ...i, ...p } : i)));
 
@@ -95,7 +97,7 @@ export function UploadPanel({ captureSetId, photos, canWrite }: { captureSetId: 
       {canWrite ? <MultiDrop onFiles={(f) => enqueue(f, 'auto')} /> : null}
       <div className="grid gap-3 sm:grid-cols-2 xl:grid-cols-4">
         {PHOTO_ROLES.map((role) => (
-          <RoleSlot key={role} role={role} photo={byRole.get(role) ?? null} captureSetId={captureSetId} canWrite={canWrite} onFiles={(f) => enqueue(f.slice(0, 1), role)} />
+          <RoleSlot key={role} role={role} photo={byRole.get(role) ?? null} captureSetId={captureSetId} canWrite={canWrite} bracket={bracketCount(role)} onFiles={(f) => enqueue(f, role)} />
         ))}
       </div>
       {items.length ? (
@@ -151,8 +153,8 @@ function MultiDrop({ onFiles }: { onFiles: (files: File[]) => void }) {
   );
 }
 
-function RoleSlot({ role, photo, captureSetId, canWrite, onFiles }: { role: PhotoRole; photo: PhotoCard | null; captureSetId: string; canWrite: boolean; onFiles: (files: File[]) => void }) {
-  const { getRootProps, getInputProps, isDragActive } = useDropzone({ onDrop: onFiles, multiple: false, disabled: !canWrite, noClick: !canWrite });
+function RoleSlot({ role, photo, captureSetId, canWrite, onFiles, bracket = 1 }: { role: PhotoRole; photo: PhotoCard | null; captureSetId: string; canWrite: boolean; onFiles: (files: File[]) => void; bracket?: number }) {
+  const { getRootProps, getInputProps, isDragActive } = useDropzone({ onDrop: onFiles, multiple: true, disabled: !canWrite, noClick: !canWrite });
   return (
     <div
       {...getRootProps({
@@ -163,7 +165,10 @@ function RoleSlot({ role, photo, captureSetId, canWrite, onFiles }: { role: Phot
       {canWrite ? <input {...getInputProps()} data-testid={`slot-${role}-input`} /> : null}
       <div className="flex items-baseline justify-between gap-2">
         <span className="font-semibold text-ink">{ROLE_LABELS[role]}</span>
-        <span className="text-[10px] uppercase tracking-wider text-muted">{role}</span>
+        <span className="text-[10px] uppercase tracking-wider text-muted">
+          {role}
+          {bracket > 1 ? <span data-testid={`bracket-${role}`}> · bracket of {bracket}</span> : null}
+        </span>
       </div>
       {photo ? (
         <div className="mt-2 space-y-1 text-xs">
