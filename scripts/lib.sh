@@ -6,6 +6,14 @@ set -euo pipefail
 ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 PG_BIN="${PG_BIN:-}"
 
+# Prints the first port from $1 upwards that nothing listens on (tests must not trip over a
+# leftover server or a second run on the same machine).
+free_port() {
+  local p="$1"
+  while (exec 3<>"/dev/tcp/127.0.0.1/$p") 2>/dev/null; do p=$((p + 1)); done
+  echo "$p"
+}
+
 log() { printf '\033[36m[veilmeter]\033[0m %s\n' "$*"; }
 fail() { printf '\033[31m[veilmeter]\033[0m %s\n' "$*" >&2; exit 1; }
 

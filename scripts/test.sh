@@ -6,9 +6,10 @@ set -uo pipefail
 cd "$ROOT"
 set -e
 
-export PORT="${TEST_PORT:-3107}" PGPORT="${TEST_PGPORT:-54339}" REDIS_PORT="${TEST_REDIS_PORT:-63809}"
-export SMTP_PORT="${TEST_SMTP_PORT:-2539}"
-S3_FAKE_PORT="${TEST_S3_PORT:-45689}"
+PORT="$(free_port "${TEST_PORT:-3107}")"; PGPORT="$(free_port "${TEST_PGPORT:-54339}")"
+REDIS_PORT="$(free_port "${TEST_REDIS_PORT:-63809}")"; SMTP_PORT="$(free_port "${TEST_SMTP_PORT:-2539}")"
+S3_FAKE_PORT="$(free_port "${TEST_S3_PORT:-45689}")"
+export PORT PGPORT REDIS_PORT SMTP_PORT
 mkdir -p .test-data
 export DATA_DIR="$(mktemp -d "$ROOT/.test-data/run-XXXXXX")"
 export PGDATABASE=veilmeter_test NODE_ENV=production VEILMETER_TEST=1
