@@ -115,6 +115,12 @@ const rowToPhoto = (r: PhotoRow): Photo => ({
 });
 
 const sameExposure = (a: PhotoExif, b: PhotoExif): boolean => a.exposureTime === b.exposureTime && a.fNumber === b.fNumber && a.iso === b.iso;
+const fullExposure = (e: PhotoExif): boolean => [e.exposureTime, e.fNumber, e.iso].every((v) => typeof v === 'number' && v > 0);
+
+/** Whether a new photo with `incoming` EXIF replaces an earlier photo of its role (a reshoot) rather than joining its bracket. */
+export function replacesInBracket(earlier: PhotoExif, incoming: PhotoExif): boolean {
+  return !fullExposure(incoming) || !fullExposure(earlier) || sameExposure(earlier, incoming);
+}
 
 /**
  * Stores a photo of a role as part of its bracket: earlier photos of the role taken with the same
@@ -125,8 +131,7 @@ const sameExposure = (a: PhotoExif, b: PhotoExif): boolean => a.exposureTime ===
 export async function putBracketPhoto(labId: string, userId: string, captureSetId: string, p: PhotoWrite): Promise<{ photo: Photo; replacedKeys: string[]; bracketSize: number }> {
   return getDb().transaction(async (trx) => {
     const rows: PhotoRow[] = await trx('photos').where({ lab_id: labId, capture_set_id: captureSetId, role: p.role }).forUpdate();
-    const full = (e: PhotoExif): boolean => [e.exposureTime, e.fNumber, e.iso].every((v) => typeof v === 'number' && v > 0);
-    const old = full(p.exif) ? rows.filter((r) => !full(r.exif ?? {}) || sameExposure(r.exif ?? {}, p.exif)) : rows;
+    const old = rows.filter((r) => replacesInBracket(r.exif ?? {}, p.exif));
     if (old.length) await trx('photos').whereIn('id', old.map((o) => o.id)).delete();
     const [row] = await trx('photos')
       .insert({

@@ -1,5 +1,5 @@
 import { createHash } from 'node:crypto';
-import { putBracketPhoto } from '../../db/queries/camera-profiles';
+import { putBracketPhoto, replacesInBracket } from '../../db/queries/camera-profiles';
 import { findPhotoBySha, listPhotos, type Photo } from '../../db/queries/photos';
 import { AppError } from '../errors';
 import { makePreview } from '../image/preview';
@@ -40,8 +40,10 @@ export async function ingestPhoto(input: { labId: string; userId: string; captur
     throw refuse(`${name} is already uploaded ${where}. Each photo belongs to one capture set: shoot the ${role} photo separately.`, 'duplicate', 409);
   }
 
-  // bracket members share the size of every other photo in the set, whatever their role
-  const others = await listPhotos(labId, captureSetId);
+  // bracket members share the size of every other photo in the set, whatever their role; a photo
+  // this upload replaces (same role, same exposure) is not compared
+  const exif = plausibleExif(probed.exif);
+  const others = (await listPhotos(labId, captureSetId)).filter((p) => p.role !== role || !replacesInBracket(p.exif, exif));
   const mismatch = others.find((p) => p.width !== probed.width || p.height !== probed.height);
   if (mismatch) {
     throw refuse(`${name} is ${probed.width} × ${probed.height} pixels but the ${mismatch.role} photo is ${mismatch.width} × ${mismatch.height}: shoot every role with the same camera and settings, uncropped`, 'size_mismatch');
@@ -73,7 +75,7 @@ export async function ingestPhoto(input: { labId: string; userId: string; captur
       height: probed.height,
       format: probed.format,
       bitDepth: probed.bitDepth,
-      exif: plausibleExif(probed.exif),
+      exif,
       originalName: name,
     });
     await deleteKeys(replacedKeys);
