@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
 import { getDb } from '../index';
 import type { CaptureResult } from '../../lib/photometry/result';
+import { toAnalysis, type Analysis } from './analyses';
 
 export type ReadingArtifacts = {
   logContrastKey?: string;
@@ -66,6 +67,26 @@ const toReading = (r: Row): Reading => ({
 export async function getReadingForAnalysis(labId: string, analysisId: string): Promise<Reading | null> {
   const row: Row | undefined = await getDb()('readings').where({ lab_id: labId, analysis_id: analysisId }).first();
   return row ? toReading(row) : null;
+}
+
+export type PollReading = Pick<Reading, 'id' | 'ambientContrastRatio' | 'warningCount' | 'result'>;
+
+/**
+ * An analysis and, once it is done, the part of its reading a status poll shows: one query and
+ * none of the reading's other columns (artifacts and the metric copies), since clients poll often.
+ */
+export async function getAnalysisForPoll(labId: string, analysisId: string): Promise<{ analysis: Analysis; reading: PollReading | null } | null> {
+  const row = await getDb()('analyses as a')
+    .leftJoin('readings as g', function joinReading() {
+      this.on('g.analysis_id', '=', 'a.id').andOn('g.lab_id', '=', 'a.lab_id');
+    })
+    .where({ 'a.lab_id': labId, 'a.id': analysisId })
+    .first('a.*', 'g.id as reading_id', 'g.ambient_contrast_ratio as reading_acr', 'g.warning_count as reading_warning_count', 'g.result as reading_result');
+  if (!row) return null;
+  const { reading_id, reading_acr, reading_warning_count, reading_result, ...a } = row as Parameters<typeof toAnalysis>[0] & { reading_id: string | null; reading_acr: number | null; reading_warning_count: number; reading_result: CaptureResult };
+  const analysis = toAnalysis(a);
+  const reading = analysis.status === 'done' && reading_id ? { id: reading_id, ambientContrastRatio: reading_acr, warningCount: reading_warning_count, result: reading_result } : null;
+  return { analysis, reading };
 }
 
 export async function getLatestReading(labId: string, captureSetId: string): Promise<Reading | null> {

@@ -30,6 +30,26 @@ export async function listMemberships(userId: string): Promise<Membership[]> {
   return rows.map((r) => ({ labId: r.lab_id, labName: r.name, role: r.role }));
 }
 
+/**
+ * A person and their memberships (oldest first, then by lab name, as listMemberships) in one
+ * query: what every signed-in request needs. Null when the user is gone.
+ */
+export async function getUserWithMemberships(userId: string): Promise<{ user: User; memberships: Membership[] } | null> {
+  const { rows } = await getDb().raw<{ rows: { id: string; email: string; name: string; created_at: Date; lab_id: string | null; lab_name: string | null; role: Role | null }[] }>(
+    `SELECT u.id, u.email, u.name, u.created_at, m.lab_id, l.name AS lab_name, m.role
+       FROM users u
+       LEFT JOIN (memberships m JOIN labs l ON l.id = m.lab_id) ON m.user_id = u.id
+      WHERE u.id = ?
+      ORDER BY m.created_at, l.name`,
+    [userId],
+  );
+  const first = rows[0];
+  if (!first) return null;
+  const user: User = { id: first.id, email: first.email, name: first.name, createdAt: first.created_at };
+  const memberships = rows.flatMap((r) => (r.lab_id && r.lab_name !== null && r.role ? [{ labId: r.lab_id, labName: r.lab_name, role: r.role }] : []));
+  return { user, memberships };
+}
+
 export async function getMembership(userId: string, labId: string): Promise<Membership | null> {
   const r = await getDb()('memberships as m')
     .join('labs as l', 'l.id', 'm.lab_id')

@@ -1,8 +1,8 @@
 import 'server-only';
-import { getServerSession } from 'next-auth';
+import { decode } from 'next-auth/jwt';
 import { cookies } from 'next/headers';
 import { redirect } from 'next/navigation';
-import { getMembership, getUserById, listMemberships, type Membership, type User } from '../../db/queries/users';
+import { getMembership, getUserWithMemberships, type Membership, type User } from '../../db/queries/users';
 import { getEnv } from '../env';
 import { AppError, forbidden, unauthorized } from '../errors';
 import { getAuthOptions } from './options';
@@ -15,20 +15,54 @@ export { LAB_COOKIE };
 /** Who is acting, in which lab, with which role: the role always comes from the database. */
 export type Actor = { user: User; labId: string; labName: string; role: Role; memberships: Membership[] };
 
+type CookieJar = Awaited<ReturnType<typeof cookies>>;
+
+/**
+ * The session token as next-auth stores it: one cookie, or several numbered chunks when long.
+ * Mirrors next-auth's SessionStore so a chunked token reads back the same.
+ */
+function sessionToken(jar: CookieJar): string {
+  const name = `${getAuthOptions().useSecureCookies ? '__Secure-' : ''}next-auth.session-token`;
+  const suffix = (n: string) => parseInt(n.split('.').pop() ?? '0');
+  return jar
+    .getAll()
+    .filter((c) => c.name.startsWith(name))
+    .sort((a, b) => suffix(a.name) - suffix(b.name))
+    .map((c) => c.value)
+    .join('');
+}
+
+/**
+ * The signed-in user's id from the session JWT. getServerSession gives the same answer but runs
+ * next-auth's whole session route per call (config checks, CSRF token, a re-encrypted token whose
+ * cookie is then thrown away); decoding is all a handler needs, with the same secret and expiry
+ * check.
+ */
+async function userIdFrom(jar: CookieJar): Promise<string | null> {
+  const token = sessionToken(jar);
+  if (!token) return null;
+  try {
+    const payload = await decode({ token, secret: getAuthOptions().secret as string });
+    return typeof payload?.sub === 'string' && payload.sub ? payload.sub : null;
+  } catch {
+    return null;
+  }
+}
+
 export async function getSessionUserId(): Promise<string | null> {
-  const session = await getServerSession(getAuthOptions());
-  const id = (session?.user as { id?: string } | undefined)?.id;
-  return id ?? null;
+  return userIdFrom(await cookies());
 }
 
 /** The signed-in person's actor in the lab chosen by the lab cookie (or their first lab). */
 export async function getActor(): Promise<Actor | null> {
-  const userId = await getSessionUserId();
+  const jar = await cookies();
+  const userId = await userIdFrom(jar);
   if (!userId) return null;
-  const user = await getUserById(userId);
-  if (!user) return null;
-  const memberships = await listMemberships(userId);
-  const wanted = (await cookies()).get(LAB_COOKIE)?.value;
+  // one round trip: the user and their memberships, so the role is read fresh on every request
+  const found = await getUserWithMemberships(userId);
+  if (!found) return null;
+  const { user, memberships } = found;
+  const wanted = jar.get(LAB_COOKIE)?.value;
   const current = memberships.find((m) => m.labId === wanted) ?? memberships[0];
   if (!current) return null;
   return { user, labId: current.labId, labName: current.labName, role: current.role, memberships };

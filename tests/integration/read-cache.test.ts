@@ -1,0 +1,186 @@
+import { encode } from 'next-auth/jwt';
+import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from 'vitest';
+import { closeDb, getDb } from '../../db/index';
+import { getAnalysis } from '../../db/queries/analyses';
+import { listExportRows } from '../../db/queries/exports';
+import { getReadingForAnalysis } from '../../db/queries/readings';
+import { createTarget, listTargets, updateTarget } from '../../db/queries/targets';
+import { getProjectTrend } from '../../db/queries/trends';
+import { createUserWithLab } from '../../db/queries/users';
+import { getEnv } from '../../lib/env';
+import { stageLabel } from '../../lib/queue/jobs';
+import { readingsCsv } from '../../lib/reports/csv';
+import { deleteFixtureProject, insertFixtureProject, insertReading, type Fixture } from '../fixtures/readings-fixture';
+
+// The route handlers run as in `next start`, with the request's cookies supplied here: a real
+// next-auth session token and the lab cookie.
+const jar = new Map<string, string>();
+vi.mock('server-only', () => ({}));
+vi.mock('next/headers', () => ({
+  cookies: async () => ({
+    get: (name: string) => (jar.has(name) ? { name, value: jar.get(name) } : undefined),
+    getAll: () => [...jar].map(([name, value]) => ({ name, value })),
+    set: () => undefined,
+  }),
+}));
+
+const { GET: trendGET } = await import('../../app/api/projects/[projectId]/trend/route');
+const { GET: csvGET } = await import('../../app/api/projects/[projectId]/readings.csv/route');
+const { GET: pollGET } = await import('../../app/api/analyses/[analysisId]/route');
+const { clearReadCache, readCacheStats } = await import('../../lib/cache/read-cache');
+
+const tag = `${process.pid}-${Date.now()}`;
+let a: { userId: string; labId: string };
+let b: { userId: string; labId: string };
+let both: string;
+let fx: Fixture;
+
+async function signInAs(userId: string, labId?: string): Promise<void> {
+  jar.clear();
+  jar.set('next-auth.session-token', await encode({ token: { sub: userId }, secret: getEnv().NEXTAUTH_SECRET }));
+  if (labId) jar.set('vm-lab', labId);
+}
+
+type Handler = (req: Request, ctx: never) => Promise<Response>;
+async function call(get: Handler, url: string, params: Record<string, string>): Promise<{ status: number; headers: Headers; text: string }> {
+  const res = await get(new Request(url), { params: Promise.resolve(params) } as never);
+  // bytes, not res.text(): that would drop the CSV's byte-order mark
+  return { status: res.status, headers: res.headers, text: Buffer.from(await res.arrayBuffer()).toString('utf8') };
+}
+const trend = (projectId: string) => call(trendGET, `http://127.0.0.1/api/projects/${projectId}/trend`, { projectId });
+const csv = (projectId: string) => call(csvGET, `http://127.0.0.1/api/projects/${projectId}/readings.csv`, { projectId });
+
+/** What the routes answered before the cache, built straight from the queries. */
+async function uncachedTrend(labId: string, projectId: string): Promise<string> {
+  const t = await getProjectTrend(labId, projectId);
+  const targets = await listTargets(labId, projectId);
+  return JSON.stringify({ revisions: t!.revisions, trends: t!.trends, targets });
+}
+const uncachedCsv = async (labId: string, projectId: string) => `\uFEFF${readingsCsv(await listExportRows(labId, { projectId }))}`;
+
+beforeAll(async () => {
+  a = await createUserWithLab({ email: `ca-${tag}@example.test`, name: 'Cache A', passwordHash: 'x', labName: `Cache A ${tag}` });
+  b = await createUserWithLab({ email: `cb-${tag}@example.test`, name: 'Cache B', passwordHash: 'x', labName: `Cache B ${tag}` });
+  const [u] = await getDb()('users').insert({ email: `cboth-${tag}@example.test`, name: 'Cache both', password_hash: 'x' }).returning<{ id: string }[]>('id');
+  both = u!.id;
+  await getDb()('memberships').insert([{ lab_id: b.labId, user_id: both, role: 'lead' }, { lab_id: a.labId, user_id: both, role: 'lead' }]);
+  fx = await insertFixtureProject(a.labId, `Cache visor ${tag}`, [
+    { label: 'R-1', variants: [{ variant: '', readings: [{ acr: 1.2 }, { acr: 1.22 }] }] },
+    { label: 'R-2', variants: [{ variant: 'a', readings: [{ acr: 1.3 }] }] },
+  ]);
+  await createTarget(a.labId, a.userId, fx.projectId, { metric: 'ambientContrastRatio', comparator: '>=', value: 1.25, conditionNote: '', isDefault: false });
+});
+
+beforeEach(() => clearReadCache());
+
+afterAll(async () => {
+  await deleteFixtureProject(fx.projectId);
+  await getDb()('labs').whereIn('id', [a.labId, b.labId]).delete();
+  await getDb()('users').whereIn('id', [a.userId, b.userId, both]).delete();
+  await closeDb();
+});
+
+describe('read cache of the trend and the readings list', () => {
+  it('answers the same bytes as building them afresh, from memory the second time', async () => {
+    await signInAs(a.userId);
+    const first = await trend(fx.projectId);
+    expect(first.status).toBe(200);
+    expect(first.headers.get('content-type')).toBe('application/json');
+    expect(first.headers.get('cache-control')).toBe('private, no-store');
+    expect(first.text).toBe(await uncachedTrend(a.labId, fx.projectId));
+    const c = await csv(fx.projectId);
+    expect(c.status).toBe(200);
+    expect(c.headers.get('content-type')).toBe('text/csv; charset=utf-8');
+    expect(c.headers.get('content-disposition')).toMatch(/^attachment; filename="Cache-visor-.*-readings\.csv"$/);
+    expect(c.text).toBe(await uncachedCsv(a.labId, fx.projectId));
+    expect(readCacheStats().entries).toBe(2);
+    expect((await trend(fx.projectId)).text).toBe(first.text);
+  });
+
+  it('is replaced at once by a new reading', async () => {
+    await signInAs(a.userId);
+    const before = await trend(fx.projectId);
+    const beforeCsv = await csv(fx.projectId);
+    const rev = fx.revisions['R-2']!;
+    const readingId = await insertReading(a.labId, fx.projectId, rev.id, rev.captureSetIds[0]!, { acr: 1.9 }, new Date(Date.now() + 60_000));
+    const after = await trend(fx.projectId);
+    const afterCsv = await csv(fx.projectId);
+    expect(after.text).not.toBe(before.text);
+    expect(after.text).toBe(await uncachedTrend(a.labId, fx.projectId));
+    expect(afterCsv.text).not.toBe(beforeCsv.text);
+    expect(afterCsv.text).toContain(readingId);
+    expect(afterCsv.text).toBe(await uncachedCsv(a.labId, fx.projectId));
+  });
+
+  it('is replaced at once by a changed target', async () => {
+    await signInAs(a.userId);
+    const before = await trend(fx.projectId);
+    const [t] = await listTargets(a.labId, fx.projectId);
+    await updateTarget(a.labId, a.userId, fx.projectId, t!.id, { metric: 'ambientContrastRatio', comparator: '>=', value: 1.4, conditionNote: 'changed', isDefault: false });
+    const after = await trend(fx.projectId);
+    expect(after.text).not.toBe(before.text);
+    expect(JSON.parse(after.text).targets[0].value).toBe(1.4);
+    expect(after.text).toBe(await uncachedTrend(a.labId, fx.projectId));
+  });
+
+  it('is replaced when a reading is edited inside a transaction older than the newest row', async () => {
+    await signInAs(a.userId);
+    const rev = fx.revisions['R-1']!;
+    const older = getDb().transaction();
+    const trx = await older;
+    // the transaction's now() is fixed here, before the newer reading below is written
+    await trx.raw('SELECT now()');
+    await insertReading(a.labId, fx.projectId, rev.id, rev.captureSetIds[1]!, { acr: 1.5 }, new Date(Date.now() + 120_000));
+    const before = await trend(fx.projectId);
+    // an older row, so neither the count nor the newest updated_at moves: only the sum does
+    const newest = await getDb()('readings').where({ capture_set_id: rev.captureSetIds[0] }).orderBy('created_at', 'desc').first('id');
+    await trx('readings').where({ id: newest.id }).update({ ambient_contrast_ratio: 1.55, updated_at: trx.fn.now() });
+    await trx.commit();
+    const after = await trend(fx.projectId);
+    expect(after.text).not.toBe(before.text);
+    expect(after.text).toBe(await uncachedTrend(a.labId, fx.projectId));
+  });
+
+  it('never gives another lab the cached body', async () => {
+    await signInAs(a.userId);
+    expect((await trend(fx.projectId)).status).toBe(200);
+    expect((await csv(fx.projectId)).status).toBe(200);
+    await signInAs(b.userId);
+    for (const r of [await trend(fx.projectId), await csv(fx.projectId)]) {
+      expect(r.status).toBe(404);
+      expect(r.text).not.toContain('Cache visor');
+    }
+    // a member of both labs acting in the other one is refused too, though the body is warm
+    await signInAs(both, b.labId);
+    expect((await trend(fx.projectId)).status).toBe(404);
+    expect((await csv(fx.projectId)).status).toBe(404);
+    await signInAs(both, a.labId);
+    expect((await trend(fx.projectId)).text).toBe(await uncachedTrend(a.labId, fx.projectId));
+  });
+
+  it('still asks who is signed in: no session is 401', async () => {
+    jar.clear();
+    expect((await trend(fx.projectId)).status).toBe(401);
+    expect((await csv(fx.projectId)).status).toBe(401);
+  });
+});
+
+describe('status polling', () => {
+  it('answers what the two queries answered, in one', async () => {
+    await signInAs(a.userId);
+    const analysis = await getDb()('readings').where({ project_id: fx.projectId }).first('analysis_id');
+    const id = analysis.analysis_id as string;
+    const res = await call(pollGET, `http://127.0.0.1/api/analyses/${id}`, { analysisId: id });
+    const old = await getAnalysis(a.labId, id);
+    const reading = await getReadingForAnalysis(a.labId, id);
+    expect(res.status).toBe(200);
+    expect(res.text).toBe(
+      JSON.stringify({
+        analysis: { ...old, stageLabel: stageLabel(old!.stage) },
+        reading: { id: reading!.id, ambientContrastRatio: reading!.ambientContrastRatio, warningCount: reading!.warningCount, result: reading!.result },
+      }),
+    );
+    await signInAs(b.userId);
+    expect((await call(pollGET, `http://127.0.0.1/api/analyses/${id}`, { analysisId: id })).status).toBe(404);
+  });
+});
