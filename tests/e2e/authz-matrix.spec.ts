@@ -55,6 +55,9 @@ const ROUTES: { method: string; path: string; access: Access; query?: string }[]
   { method: 'POST', path: '/api/captures/[captureId]/templates/apply', access: 'capture.write' },
   { method: 'GET', path: '/api/analyses/[analysisId]', access: 'capture.read' },
   { method: 'GET', path: '/api/analyses/[analysisId]/artifacts/[name]', access: 'capture.read' },
+  { method: 'POST', path: '/api/cameras/calibrate', access: 'camera.write' },
+  { method: 'POST', path: '/api/cameras/linearity', access: 'camera.write' },
+  { method: 'DELETE', path: '/api/cameras/[profileId]', access: 'camera.write' },
   { method: 'GET', path: '/api/v1/projects', access: 'project.read' },
   { method: 'POST', path: '/api/v1/captures', access: 'capture.write' },
   { method: 'POST', path: '/api/v1/captures/[captureId]/photos', access: 'capture.write' },
@@ -145,7 +148,9 @@ test.beforeAll(async () => {
   const revision = await db('revisions').where({ project_id: project.id }).orderBy('position').first('id');
   const photo = await db('photos').where({ lab_id: lab.id }).first('id', 'capture_set_id');
   const analysis = await db('analyses').where({ capture_set_id: photo.capture_set_id }).first('id');
-  ids = { projectId: project.id, revisionId: revision.id, captureId: photo.capture_set_id, photoId: photo.id, analysisId: analysis.id };
+  let profile = await db('camera_profiles').where({ lab_id: lab.id, make: 'Matrix', model: 'Probe' }).first('id');
+  if (!profile) [profile] = await db('camera_profiles').insert({ lab_id: lab.id, make: 'Matrix', model: 'Probe', name: 'Matrix probe camera', k: 60 }).returning('id');
+  ids = { projectId: project.id, revisionId: revision.id, captureId: photo.capture_set_id, photoId: photo.id, analysisId: analysis.id, profileId: profile.id };
 
   if (!(await db('users').where({ email: OUTSIDER.email }).first())) {
     const [u] = await db('users').insert({ email: OUTSIDER.email, name: 'Matrix Outsider', password_hash: await hashPassword(OUTSIDER.password) }).returning('id');
@@ -232,8 +237,11 @@ for (const r of ROUTES) {
 
 /** Calls a server action the way the browser does and returns its answer (or the HTTP status). */
 async function invoke(client: APIRequestContext, id: string, pagePath: string, fields: Record<string, string>): Promise<{ status: number; state: { ok?: boolean; message?: string } | null }> {
-  const multipart: Record<string, string> = { '0': '["$K1"]' };
-  for (const [k, v] of Object.entries(fields)) multipart[`_1_${k}`] = v;
+  // Field order matters to the decoder: the form's entries first, then the argument list (a
+  // FormData keeps that order; an object would put the key "0" first).
+  const multipart = new FormData();
+  for (const [k, v] of Object.entries(fields)) multipart.append(`_1_${k}`, v);
+  multipart.append('0', '["$K1"]');
   const res = await client.post(pagePath, { headers: { 'Next-Action': id, Accept: 'text/x-component' }, multipart, maxRedirects: 0 });
   const line = (await res.text()).split('\n').find((l) => l.startsWith('1:'));
   return { status: res.status(), state: line ? (JSON.parse(line.slice(2)) as { ok?: boolean; message?: string }) : null };
