@@ -10,8 +10,8 @@ import { signIn } from './helpers';
 let labId = '';
 let projectId = '';
 let revisionId = '';
-let originalStack: unknown = null;
-const captureSetIds: string[] = [];
+// A revision of its own, so the demo's seeded readings never mix with the ones this file places.
+const REV_LABEL = `VX-P${Date.now() % 100000}`;
 
 const birdbath = getStackTemplate('birdbath').stack;
 
@@ -20,16 +20,16 @@ test.beforeAll(async () => {
   const project = await db('projects').where({ name: 'Visor VX birdbath' }).first<{ id: string; lab_id: string }>('id', 'lab_id');
   projectId = project.id;
   labId = project.lab_id;
-  const rev = await db('revisions').where({ project_id: projectId, label: 'VX-C' }).first<{ id: string; stack: unknown }>('id', 'stack');
-  revisionId = rev.id;
-  originalStack = rev.stack;
-  await db('revisions').where({ id: revisionId }).update({ stack: JSON.stringify({ elements: [] }) });
+  const last = await db('revisions').where({ project_id: projectId }).max<{ max: number }[]>('position as max').first();
+  const [rev] = await db('revisions')
+    .insert({ lab_id: labId, project_id: projectId, label: REV_LABEL, position: Number(last?.max ?? 0) + 1, status: 'built', stack: JSON.stringify({ elements: [] }) })
+    .returning<{ id: string }[]>('id');
+  revisionId = rev!.id;
 });
 
 test.afterAll(async () => {
   const db = getDb();
-  if (captureSetIds.length) await db('capture_sets').whereIn('id', captureSetIds).delete();
-  await db('revisions').where({ id: revisionId }).update({ stack: JSON.stringify(originalStack ?? { elements: [] }) });
+  await db('revisions').where({ id: revisionId }).delete();
   await closeDb();
 });
 
@@ -48,7 +48,7 @@ async function readingsOfRevision(): Promise<number> {
 async function openAs(page: Page, email: string) {
   await signIn(page, email);
   await page.goto(stackPage());
-  await expect(page.getByTestId('revision-label')).toContainText('VX-C');
+  await expect(page.getByTestId('revision-label')).toContainText(REV_LABEL);
 }
 
 test('a lead applies the birdbath template, sees the predicted budget, tries a what-if, saves and finds it after a reload', async ({ page }) => {
@@ -161,7 +161,6 @@ test('measured readings sit on the curve at their background luminance; one with
   for (const s of shots) {
     const [cs] = await db('capture_sets').insert({ lab_id: labId, revision_id: revisionId, label: s.label, variant: s.variant, pattern: 'full' }).returning<{ id: string }[]>('id');
     if (!cs) throw new Error('no capture set');
-    captureSetIds.push(cs.id);
     // An older analysis of the same shot, at a different background: only the newest may count.
     for (const [age, bg, acr] of [
       ['2 hours', 35_000, 1.01],
@@ -208,7 +207,7 @@ test('measured readings sit on the curve at their background luminance; one with
   expect(cxs[1]).toBeCloseTo(expectedX(2000), 0);
 
   const table = page.getByTestId('comparison-table');
-  const row = table.locator('tr', { hasText: 'VX-C' });
+  const row = table.locator('tr', { hasText: REV_LABEL });
   await expect(row).toContainText('3');
   await expect(row).toContainText(formatPercent(pred.tau));
   await expect(row).toContainText('21.0 %');
