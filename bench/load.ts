@@ -6,7 +6,6 @@ import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
 import { existsSync, rmSync } from 'node:fs';
 import { createRequire } from 'node:module';
-import { createServer } from 'node:net';
 import { join } from 'node:path';
 import { Queue } from 'bullmq';
 import { closeDb, getDb } from '../db/index';
@@ -16,6 +15,7 @@ import { analyzeFiles } from '../lib/image';
 import { workerConnection } from '../lib/queue/connection';
 import { ANALYSIS_QUEUE } from '../lib/queue/names';
 import { renderCapture, type RenderedCapture } from '../tests/fixtures/capture-generator';
+import { freePort } from '../tests/fixtures/free-port';
 
 type Instance = { on(ev: 'response', cb: (client: unknown, status: number, bytes: number, ms: number) => void): void; on(ev: 'done', cb: (r: Result) => void): void; stop(): void };
 type Result = { errors: number; timeouts: number; non2xx: number; requests: { total: number; average: number } };
@@ -44,17 +44,6 @@ const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 const children: ChildProcess[] = [];
 let labId = '';
 let userId = '';
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const s = createServer();
-    s.once('error', reject);
-    s.listen(0, '127.0.0.1', () => {
-      const a = s.address();
-      s.close(() => resolve(typeof a === 'object' && a ? a.port : 0));
-    });
-  });
-}
 
 function start(args: string[], extra: Record<string, string>, name: string): ChildProcess {
   const child = spawn('npx', args, { env: { ...process.env, ...extra }, stdio: ['ignore', 'pipe', 'pipe'], detached: true });

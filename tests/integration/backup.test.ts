@@ -2,10 +2,10 @@
 // file's own (restoring replaces the whole database, so never the shared test one).
 import { spawnSync } from 'node:child_process';
 import { chmodSync, chownSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { createServer } from 'node:net';
 import { join } from 'node:path';
 import knexFactory, { type Knex } from 'knex';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { freePort } from '../fixtures/free-port';
 
 const tmp = mkdtempSync('/tmp/vm-backup-');
 chmodSync(tmp, 0o755);
@@ -25,17 +25,6 @@ function run(cmd: string, args: string[], env: NodeJS.ProcessEnv = process.env, 
   const r = spawnSync(cmd, args, { env, timeout, encoding: 'utf8' });
   if (r.status !== 0) throw new Error(`${cmd} ${args.join(' ')} failed (${r.status}): ${r.stderr}${r.stdout}`);
   return r.stdout + r.stderr;
-}
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const s = createServer();
-    s.once('error', reject);
-    s.listen(0, '127.0.0.1', () => {
-      const a = s.address();
-      s.close(() => resolve(typeof a === 'object' && a ? a.port : 0));
-    });
-  });
 }
 
 const scriptEnv = () => ({ ...process.env, DATABASE_URL: url, STORAGE_DIR: storageDir, DATA_DIR: tmp, STORAGE_DRIVER: 'local' });

@@ -3,12 +3,12 @@
 // Workers are real processes storing photos through STORAGE_DRIVER=s3.
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { chmodSync, chownSync, existsSync, mkdirSync, mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
-import { createServer } from 'node:net';
 import { join } from 'node:path';
 import type { Queue } from 'bullmq';
 import { Redis } from 'ioredis';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { renderCapture, type RenderedCapture } from '../fixtures/capture-generator';
+import { freePort } from '../fixtures/free-port';
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 // under /tmp, not a home folder: the postgres user must reach the cluster folder
@@ -23,17 +23,6 @@ const pgBin = readdirSync('/usr/lib/postgresql')
   .pop();
 const pgDir = join(tmp, 'pg');
 const ports = { pg: 0, redis: 0, s3: 0 };
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const s = createServer();
-    s.once('error', reject);
-    s.listen(0, '127.0.0.1', () => {
-      const a = s.address();
-      s.close(() => resolve(typeof a === 'object' && a ? a.port : 0));
-    });
-  });
-}
 
 function run(cmd: string, args: string[], timeout = 60_000, env: NodeJS.ProcessEnv = process.env): string {
   const r = spawnSync(cmd, args, { timeout, env, encoding: 'utf8' });

@@ -2,13 +2,13 @@
 // one when this file runs on its own.
 import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdtempSync, rmSync } from 'node:fs';
-import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { toErrorResponse } from '../../lib/errors';
 import { createS3Storage, isStorageUnavailable, S3Storage } from '../../lib/storage/s3';
 import type { Env } from '../../lib/env';
+import { freePort } from '../fixtures/free-port';
 
 const tmp = mkdtempSync(join(tmpdir(), 'vm-s3-'));
 let fake: ChildProcess | undefined;
@@ -21,17 +21,6 @@ const driver = (over: Partial<ConstructorParameters<typeof S3Storage>[0]> = {}) 
   drivers.push(d);
   return d;
 };
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const s = createServer();
-    s.once('error', reject);
-    s.listen(0, '127.0.0.1', () => {
-      const a = s.address();
-      s.close(() => resolve(typeof a === 'object' && a ? a.port : 0));
-    });
-  });
-}
 
 beforeAll(async () => {
   if (!endpoint) {

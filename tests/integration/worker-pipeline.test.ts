@@ -1,28 +1,17 @@
 // The analysis pipeline against real PostgreSQL, a private Redis and real worker processes.
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { mkdtempSync, rmSync } from 'node:fs';
-import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { Queue } from 'bullmq';
 import { Redis } from 'ioredis';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { renderCapture, type RenderedCapture } from '../fixtures/capture-generator';
+import { freePort } from '../fixtures/free-port';
 
 const tmp = mkdtempSync(join(tmpdir(), 'vm-worker-'));
 const prefix = `vmtest${Math.random().toString(36).slice(2, 8)}`;
 let redisPort = 0;
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const s = createServer();
-    s.once('error', reject);
-    s.listen(0, '127.0.0.1', () => {
-      const a = s.address();
-      s.close(() => resolve(typeof a === 'object' && a ? a.port : 0));
-    });
-  });
-}
 
 function startRedis(): void {
   const r = spawnSync('redis-server', ['--bind', '127.0.0.1', '--port', String(redisPort), '--daemonize', 'yes', '--dir', tmp, '--pidfile', join(tmp, 'redis.pid'), '--logfile', join(tmp, 'redis.log'), '--save', '', '--appendonly', 'no']);
