@@ -1,9 +1,7 @@
 import type { Knex } from 'knex';
 import { getDb } from '../index';
 import type { CalibrationDetails, LinearityDetails } from '../../lib/schemas/camera-profile';
-import type { PhotoRole } from '../../lib/schemas/upload';
 import { recordAudit } from './audit';
-import type { PhotoExif, PhotoWrite, Photo } from './photos';
 
 export type CameraProfile = {
   id: string;
@@ -92,67 +90,5 @@ export async function deleteCameraProfile(labId: string, userId: string, id: str
     if (!row) return false;
     await recordAudit({ labId, userId, action: 'camera.delete', targetType: 'camera_profile', targetId: id, details: { make: row.make, model: row.model } }, trx);
     return true;
-  });
-}
-
-type PhotoRow = { id: string; capture_set_id: string; role: PhotoRole; storage_key: string; preview_key: string | null; sha256: string; bytes: string | number; width: number; height: number; format: string; bit_depth: number; exif: PhotoExif | null; original_name: string; created_at: Date };
-
-const rowToPhoto = (r: PhotoRow): Photo => ({
-  id: r.id,
-  captureSetId: r.capture_set_id,
-  role: r.role,
-  storageKey: r.storage_key,
-  previewKey: r.preview_key,
-  sha256: r.sha256.trim(),
-  bytes: Number(r.bytes),
-  width: r.width,
-  height: r.height,
-  format: r.format,
-  bitDepth: r.bit_depth,
-  exif: r.exif ?? {},
-  originalName: r.original_name,
-  createdAt: r.created_at,
-});
-
-const sameExposure = (a: PhotoExif, b: PhotoExif): boolean => a.exposureTime === b.exposureTime && a.fNumber === b.fNumber && a.iso === b.iso;
-const fullExposure = (e: PhotoExif): boolean => [e.exposureTime, e.fNumber, e.iso].every((v) => typeof v === 'number' && v > 0);
-
-/** Whether a new photo with `incoming` EXIF replaces an earlier photo of its role (a reshoot) rather than joining its bracket. */
-export function replacesInBracket(earlier: PhotoExif, incoming: PhotoExif): boolean {
-  return !fullExposure(incoming) || !fullExposure(earlier) || sameExposure(earlier, incoming);
-}
-
-/**
- * Stores a photo of a role as part of its bracket: earlier photos of the role taken with the same
- * exposure (a reshoot) are replaced, photos at other exposures are kept. Without full exposure
- * EXIF nothing can tell the shots apart, so the role keeps only the new photo, as before.
- * (Lives here until the photos module takes brackets itself.)
- */
-export async function putBracketPhoto(labId: string, userId: string, captureSetId: string, p: PhotoWrite): Promise<{ photo: Photo; replacedKeys: string[]; bracketSize: number }> {
-  return getDb().transaction(async (trx) => {
-    const rows: PhotoRow[] = await trx('photos').where({ lab_id: labId, capture_set_id: captureSetId, role: p.role }).forUpdate();
-    const old = rows.filter((r) => replacesInBracket(r.exif ?? {}, p.exif));
-    if (old.length) await trx('photos').whereIn('id', old.map((o) => o.id)).delete();
-    const [row] = await trx('photos')
-      .insert({
-        lab_id: labId,
-        capture_set_id: captureSetId,
-        role: p.role,
-        storage_key: p.storageKey,
-        preview_key: p.previewKey,
-        sha256: p.sha256,
-        bytes: p.bytes,
-        width: p.width,
-        height: p.height,
-        format: p.format,
-        bit_depth: p.bitDepth,
-        exif: JSON.stringify(p.exif),
-        original_name: p.originalName,
-      })
-      .returning<PhotoRow[]>('*');
-    if (!row) throw new Error('insert returned nothing');
-    const bracketSize = rows.length - old.length + 1;
-    await recordAudit({ labId, userId, action: 'photo.upload', targetType: 'photo', targetId: row.id, details: { captureSetId, role: p.role, bytes: p.bytes, bracketSize } }, trx);
-    return { photo: rowToPhoto(row), replacedKeys: old.flatMap((o) => [o.storage_key, ...(o.preview_key ? [o.preview_key] : [])]), bracketSize };
   });
 }

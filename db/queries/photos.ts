@@ -61,13 +61,23 @@ export async function findPhotoBySha(labId: string, sha256: string): Promise<(Ph
 
 export type PhotoWrite = Omit<Photo, 'id' | 'createdAt' | 'captureSetId'>;
 
+const sameExposure = (a: PhotoExif, b: PhotoExif): boolean => a.exposureTime === b.exposureTime && a.fNumber === b.fNumber && a.iso === b.iso;
+const fullExposure = (e: PhotoExif): boolean => [e.exposureTime, e.fNumber, e.iso].every((v) => typeof v === 'number' && v > 0);
+
+/** Whether a new photo with `incoming` EXIF replaces an earlier photo of its role (a reshoot) rather than joining its bracket. */
+export function replacesInBracket(earlier: PhotoExif, incoming: PhotoExif): boolean {
+  return !fullExposure(incoming) || !fullExposure(earlier) || sameExposure(earlier, incoming);
+}
+
 /**
- * Stores a photo for a role, replacing the set's earlier photo of that role (one photo per role);
- * returns the new photo and the storage keys the replaced one used.
+ * Stores a photo of a role as part of its bracket: earlier photos of the role taken with the same
+ * exposure (a reshoot) are replaced, photos at other exposures are kept. Without full exposure
+ * EXIF nothing can tell the shots apart, so the role keeps only the new photo.
  */
-export async function putPhoto(labId: string, userId: string, captureSetId: string, p: PhotoWrite): Promise<{ photo: Photo; replacedKeys: string[] }> {
+export async function putPhoto(labId: string, userId: string, captureSetId: string, p: PhotoWrite): Promise<{ photo: Photo; replacedKeys: string[]; bracketSize: number }> {
   return getDb().transaction(async (trx) => {
-    const old: Row[] = await trx('photos').where({ lab_id: labId, capture_set_id: captureSetId, role: p.role }).forUpdate();
+    const rows: Row[] = await trx('photos').where({ lab_id: labId, capture_set_id: captureSetId, role: p.role }).forUpdate();
+    const old = rows.filter((r) => replacesInBracket(r.exif ?? {}, p.exif));
     if (old.length) await trx('photos').whereIn('id', old.map((o) => o.id)).delete();
     const [row] = await trx('photos')
       .insert({
@@ -87,9 +97,9 @@ export async function putPhoto(labId: string, userId: string, captureSetId: stri
       })
       .returning<Row[]>('*');
     if (!row) throw new Error('insert returned nothing');
-    await recordAudit({ labId, userId, action: 'photo.upload', targetType: 'photo', targetId: row.id, details: { captureSetId, role: p.role, bytes: p.bytes } }, trx);
-    const replacedKeys = old.flatMap((o) => [o.storage_key, ...(o.preview_key ? [o.preview_key] : [])]);
-    return { photo: toPhoto(row), replacedKeys };
+    const bracketSize = rows.length - old.length + 1;
+    await recordAudit({ labId, userId, action: 'photo.upload', targetType: 'photo', targetId: row.id, details: { captureSetId, role: p.role, bytes: p.bytes, bracketSize } }, trx);
+    return { photo: toPhoto(row), replacedKeys: old.flatMap((o) => [o.storage_key, ...(o.preview_key ? [o.preview_key] : [])]), bracketSize };
   });
 }
 

@@ -1,6 +1,5 @@
 import { createHash } from 'node:crypto';
-import { putBracketPhoto, replacesInBracket } from '../../db/queries/camera-profiles';
-import { findPhotoBySha, listPhotos, type Photo } from '../../db/queries/photos';
+import { findPhotoBySha, listPhotos, putPhoto, replacesInBracket, type Photo } from '../../db/queries/photos';
 import { AppError } from '../errors';
 import { makePreview } from '../image/preview';
 import { probePhoto, type ProbedPhoto } from '../image/probe';
@@ -65,7 +64,7 @@ export async function ingestPhoto(input: { labId: string; userId: string; captur
     written.push(original);
     await storage.put(small, preview.webp, { contentType: 'image/webp' });
     written.push(small);
-    const { photo, replacedKeys, bracketSize } = await putBracketPhoto(labId, userId, captureSetId, {
+    const { photo, replacedKeys, bracketSize } = await putPhoto(labId, userId, captureSetId, {
       role,
       storageKey: original,
       previewKey: small,
