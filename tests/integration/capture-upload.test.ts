@@ -3,9 +3,9 @@
 import { mkdtempSync, readdirSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { deflateSync } from 'node:zlib';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { renderCapture, type RenderedCapture } from '../fixtures/capture-generator';
+import { declaredPng } from '../fixtures/hostile/corpus';
 
 const tmp = mkdtempSync(join(tmpdir(), 'vm-upload-'));
 process.env.STORAGE_DIR = join(tmp, 'storage');
@@ -23,34 +23,6 @@ function filesIn(dir: string): string[] {
   } catch {
     return [];
   }
-}
-
-const crcTable = Array.from({ length: 256 }, (_, n) => {
-  let c = n;
-  for (let k = 0; k < 8; k++) c = c & 1 ? 0xedb88320 ^ (c >>> 1) : c >>> 1;
-  return c >>> 0;
-});
-function crc32(b: Buffer): number {
-  let c = 0xffffffff;
-  for (const x of b) c = (crcTable[(c ^ x) & 0xff] as number) ^ (c >>> 8);
-  return (c ^ 0xffffffff) >>> 0;
-}
-function chunk(type: string, data: Buffer): Buffer {
-  const len = Buffer.alloc(4);
-  len.writeUInt32BE(data.length);
-  const td = Buffer.concat([Buffer.from(type, 'ascii'), data]);
-  const crc = Buffer.alloc(4);
-  crc.writeUInt32BE(crc32(td));
-  return Buffer.concat([len, td, crc]);
-}
-/** A valid PNG header announcing 20000 × 20000 pixels, with one row of data: only the header matters. */
-function hugePng(): Buffer {
-  const ihdr = Buffer.alloc(13);
-  ihdr.writeUInt32BE(20000, 0);
-  ihdr.writeUInt32BE(20000, 4);
-  ihdr[8] = 8;
-  ihdr[9] = 0;
-  return Buffer.concat([Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), chunk('IHDR', ihdr), chunk('IDAT', deflateSync(Buffer.alloc(20001))), chunk('IEND', Buffer.alloc(0))]);
 }
 
 async function refusal(name: string, bytes: Uint8Array, role: 'on' | 'off' | 'ambient' | 'dark' = 'on'): Promise<{ status: number; message: string }> {
@@ -95,7 +67,7 @@ describe('photo upload intake', () => {
       ['notes.jpg', Buffer.from('Bench notes: splitter 40/60, polarizer at 12 degrees.\n'.repeat(20)), /notes\.jpg is not an image/],
       ['cut.jpg', capture.on.subarray(0, Math.floor(capture.on.length / 2)), /cut\.jpg is damaged or cut short/],
       ['empty.jpg', new Uint8Array(0), /empty\.jpg is empty/],
-      ['huge.png', hugePng(), /huge\.png has 400 megapixels .* more than 100/],
+      ['huge.png', declaredPng(20000, 20000), /huge\.png has 400 megapixels .* more than 100/],
       ['phone.heic', Buffer.concat([Buffer.from([0, 0, 0, 24]), Buffer.from('ftypheic'), Buffer.alloc(40)]), /HEIC is not supported: export the photo as 16-bit TIFF or JPEG/],
       ['shot.cr2', Buffer.concat([Buffer.from([0x49, 0x49, 0x2a, 0]), Buffer.from([8, 0, 0, 0]), Buffer.from('CR'), Buffer.alloc(40)]), /camera raw .* not supported: export the photo as 16-bit TIFF or JPEG/],
     ];
