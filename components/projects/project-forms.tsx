@@ -4,16 +4,8 @@ import { useActionState, useEffect, useRef } from 'react';
 import { createProjectAction, deleteProjectAction, renameProjectAction } from '@/app/(lab)/projects/actions';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
+import { FormStatus } from '@/components/ui/form-status';
 import type { FormState } from '@/lib/auth/action';
-
-function Status({ state }: { state: FormState }) {
-  if (!state.message) return null;
-  return (
-    <p role={state.ok ? 'status' : 'alert'} className={state.ok ? 'text-sm text-pass' : 'text-sm text-fail'}>
-      {state.message}
-    </p>
-  );
-}
 
 export function CreateProjectForm() {
   const [state, action, pending] = useActionState<FormState, FormData>(createProjectAction, {});
@@ -29,7 +21,7 @@ export function CreateProjectForm() {
         <Button type="submit" disabled={pending}>
           {pending ? 'Creating…' : 'Create project'}
         </Button>
-        <Status state={state} />
+        <FormStatus state={state} />
       </div>
     </form>
   );
@@ -44,7 +36,7 @@ export function RenameProjectForm({ id, name }: { id: string; name: string }) {
       <Button type="submit" tone="quiet" disabled={pending}>
         {pending ? 'Saving…' : 'Rename'}
       </Button>
-      <Status state={state} />
+      <FormStatus state={state} />
     </form>
   );
 }
@@ -63,7 +55,7 @@ export function DeleteProjectForm({ id, name }: { id: string; name: string }) {
       <Button type="submit" tone="danger" disabled={pending}>
         Delete project
       </Button>
-      <Status state={state} />
+      <FormStatus state={state} />
     </form>
   );
 }

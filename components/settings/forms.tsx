@@ -4,17 +4,9 @@ import { useActionState, useEffect, useRef } from 'react';
 import { changeRoleAction, createTokenAction, inviteMemberAction, removeMemberAction, revokeInvitationAction, revokeTokenAction } from '@/app/(lab)/settings/actions';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
+import { FormStatus } from '@/components/ui/form-status';
 import type { FormState } from '@/lib/auth/action';
 import { ROLE_LABELS, ROLES, type Role } from '@/lib/auth/permissions';
-
-function Status({ state }: { state: FormState }) {
-  if (!state.message) return null;
-  return (
-    <span role={state.ok ? 'status' : 'alert'} className={state.ok ? 'text-xs text-pass' : 'text-xs text-fail'}>
-      {state.message}
-    </span>
-  );
-}
 
 function RoleSelect({ name, defaultValue, label }: { name: string; defaultValue?: Role; label: string }) {
   return (
@@ -51,7 +43,7 @@ export function MemberControls({ userId, role, name }: { userId: string; role: R
           Remove
         </Button>
       </form>
-      <Status state={roleState.message ? roleState : rmState} />
+      <FormStatus small state={roleState.message ? roleState : rmState} />
     </div>
   );
 }
@@ -72,7 +64,7 @@ export function InviteForm() {
       <Button type="submit" disabled={pending}>
         {pending ? 'Sending…' : 'Send invitation'}
       </Button>
-      <Status state={state} />
+      <FormStatus small state={state} />
     </form>
   );
 }
@@ -85,7 +77,7 @@ export function RevokeInvitationButton({ id }: { id: string }) {
       <Button type="submit" tone="quiet" disabled={pending}>
         Withdraw
       </Button>
-      <Status state={state} />
+      <FormStatus small state={state} />
     </form>
   );
 }
@@ -118,7 +110,7 @@ export function CreateTokenForm() {
           </code>
         </div>
       ) : (
-        <Status state={state} />
+        <FormStatus small state={state} />
       )}
     </div>
   );
@@ -132,7 +124,7 @@ export function RevokeTokenButton({ id }: { id: string }) {
       <Button type="submit" tone="danger" disabled={pending}>
         Revoke
       </Button>
-      <Status state={state} />
+      <FormStatus small state={state} />
     </form>
   );
 }
