@@ -35,3 +35,4 @@ export { falseColour, rampColour } from './false-colour';
 export { mergeBracket, type BracketMember, type BracketMergeOptions, type BracketSummary, type MergedBracket } from './bracket-merge';
 export { fitLinearity, readGreySteps, LINEARITY_EXPONENT_TOLERANCE, LINEARITY_MAX_DEVIATION, type LinearityFit, type GreyStepReading } from './linearity';
 export { calibrationFactor, absoluteLuminance, roughCalibrationFactor, calibrateFromPatch, CALIBRATION_MAX_CLIPPED, CALIBRATION_MIN_LEVEL, type PatchCalibration } from './calibration';
+export { detectOrientation, type Orientation, type OrientationReading } from './orientation';
