@@ -7,5 +7,5 @@ export interface RgbImage {
 }
 
 /** Smallest and largest side of a generated pattern, in pixels. */
-export const PATTERN_MIN_SIZE = 16;
+export const PATTERN_MIN_SIZE = 8;
 export const PATTERN_MAX_SIZE = 8192;

@@ -30,7 +30,7 @@ test('an unknown pattern answers 404 and a bad size 422, both as JSON with a cle
   expect(unknown.status()).toBe(404);
   expect(((await unknown.json()) as { error: { code: string } }).error.code).toBe('not_found');
 
-  for (const q of ['width=5&height=480', `width=640&height=${PATTERN_MAX_SIZE + 1}`, 'width=640', 'width=64.5&height=48', 'width=abc&height=480', 'width=1e3&height=480']) {
+  for (const q of ['width=7&height=480', 'width=5&height=480', `width=640&height=${PATTERN_MAX_SIZE + 1}`, 'width=640', 'width=64.5&height=48', 'width=abc&height=480', 'width=1e3&height=480']) {
     const res = await anon.get(`/api/patterns/white.png?${q}`);
     expect(res.status(), q).toBe(422);
     const body = (await res.json()) as { error: { code: string; message: string } };

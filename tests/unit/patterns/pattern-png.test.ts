@@ -19,8 +19,9 @@ describe('pattern PNG', () => {
       expect(Buffer.compare(data, Buffer.from(renderPattern(kind, w, h).data))).toBe(0);
     }
   });
-  it('rejects a size outside 16…8192 with a RangeError', async () => {
-    await expect(patternPng('white', 8, 8)).rejects.toThrow(RangeError);
+  it('rejects a size under 8 or over 8192 with a RangeError', async () => {
+    await expect(patternPng('white', 7, 8)).rejects.toThrow(RangeError);
+    await expect(patternPng('white', 8, 7)).rejects.toThrow(RangeError);
     await expect(patternPng('white', 9000, 100)).rejects.toThrow(RangeError);
   });
 });
