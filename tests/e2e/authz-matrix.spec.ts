@@ -149,7 +149,8 @@ test.beforeAll(async () => {
   const photo = await db('photos').where({ lab_id: lab.id }).first('id', 'capture_set_id');
   const analysis = await db('analyses').where({ capture_set_id: photo.capture_set_id }).first('id');
   let profile = await db('camera_profiles').where({ lab_id: lab.id, make: 'Matrix', model: 'Probe' }).first('id');
-  if (!profile) [profile] = await db('camera_profiles').insert({ lab_id: lab.id, make: 'Matrix', model: 'Probe', name: 'Matrix probe camera', k: 60 }).returning('id');
+  const calibration = { patch: { x: 10, y: 10, w: 20, h: 20 }, meterCdm2: 120, meanY: 0.5, exposure: { exposureTime: 0.01, fNumber: 4, iso: 100, factor: 0.0625 }, photoName: 'matrix.jpg', imageWidth: 64, imageHeight: 48 };
+  if (!profile) [profile] = await db('camera_profiles').insert({ lab_id: lab.id, make: 'Matrix', model: 'Probe', name: 'Matrix probe camera', k: 60, calibration: JSON.stringify(calibration) }).returning('id');
   ids = { projectId: project.id, revisionId: revision.id, captureId: photo.capture_set_id, photoId: photo.id, analysisId: analysis.id, profileId: profile.id };
 
   if (!(await db('users').where({ email: OUTSIDER.email }).first())) {
@@ -170,6 +171,7 @@ test.beforeAll(async () => {
 
 test.afterAll(async () => {
   for (const c of clients.values()) await c.dispose();
+  await getDb()('camera_profiles').where({ make: 'Matrix', model: 'Probe' }).delete();
   await closeDb();
 });
 
