@@ -67,7 +67,7 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
         </div>
         <Panel title="Regions">
           {on ? (
-            <RegionEditor key={`${on.id}-${regions.map((r) => `${r.kind}${r.x},${r.y},${r.w},${r.h}`).join(';')}`} captureSetId={set.id} photo={{ id: on.id, width: on.width, height: on.height }} initial={regions} canWrite={canWrite} />
+            <RegionEditor key={on.id} captureSetId={set.id} photo={{ id: on.id, width: on.width, height: on.height }} initial={regions} canWrite={canWrite} />
           ) : (
             <EmptyState title="No on photo yet">The regions are drawn on the display-on photo, in its full-resolution pixels.</EmptyState>
           )}
