@@ -87,6 +87,9 @@ test('the generator refuses a bad custom size beside the input, previews a good 
   await expect(page.getByTestId('pattern-title')).toHaveText('4 × 4 checkerboard · 640 × 480');
   await page.getByRole('link', { name: 'Show fullscreen' }).click();
   await expect(page.getByTestId('pattern-image')).toHaveAttribute('src', '/api/patterns/checkerboard.png?width=640&height=480');
-  await page.keyboard.press('q');
-  await expect(page).toHaveURL(/\/patterns\?kind=checkerboard&preset=640x480/);
+  // The key handler exists only once the page has hydrated: keep pressing until it answers.
+  await expect(async () => {
+    await page.keyboard.press('q');
+    await expect(page).toHaveURL(/\/patterns\?kind=checkerboard&preset=640x480/, { timeout: 1000 });
+  }).toPass({ timeout: 15_000 });
 });
