@@ -9,6 +9,7 @@ import { Redis } from 'ioredis';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { renderCapture, type RenderedCapture } from '../fixtures/capture-generator';
 import { freePort } from '../fixtures/free-port';
+import { createTestLab } from '../fixtures/test-lab';
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 // under /tmp, not a home folder: the postgres user must reach the cluster folder
@@ -207,14 +208,7 @@ beforeAll(async () => {
     ingest: await import('../../lib/storage/ingest-photo'),
   };
   const db = m.db.getDb();
-  const [lab] = await db('labs').insert({ name: `Fault test ${prefix}` }).returning<{ id: string }[]>('id');
-  labId = (lab as { id: string }).id;
-  const [user] = await db('users').insert({ email: `${prefix}@example.test`, name: 'Fault Test', password_hash: 'x' }).returning<{ id: string }[]>('id');
-  userId = (user as { id: string }).id;
-  await db('memberships').insert({ lab_id: labId, user_id: userId, role: 'tester' });
-  const [project] = await db('projects').insert({ lab_id: labId, name: 'Fault rig' }).returning<{ id: string }[]>('id');
-  const [rev] = await db('revisions').insert({ lab_id: labId, project_id: (project as { id: string }).id, label: 'F1', position: 1 }).returning<{ id: string }[]>('id');
-  revisionId = (rev as { id: string }).id;
+  ({ labId, userId, revisionId } = await createTestLab(db, { tag: prefix, name: 'Fault test', project: 'Fault rig', revision: 'F1' }));
   queueRedis = new Redis(env.REDIS_URL as string, { maxRetriesPerRequest: 1, enableOfflineQueue: false, retryStrategy: (n) => Math.min(n * 100, 500) });
   queueRedis.on('error', () => undefined);
   await new Promise<void>((r) => queueRedis.once('ready', () => r()));

@@ -8,6 +8,7 @@ import { Redis } from 'ioredis';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { renderCapture, type RenderedCapture } from '../fixtures/capture-generator';
 import { freePort } from '../fixtures/free-port';
+import { createTestLab } from '../fixtures/test-lab';
 
 const tmp = mkdtempSync(join(tmpdir(), 'vm-worker-'));
 const prefix = `vmtest${Math.random().toString(36).slice(2, 8)}`;
@@ -139,14 +140,7 @@ beforeAll(async () => {
     storage: await import('../../lib/storage'),
   };
   const db = m.db.getDb();
-  const [lab] = await db('labs').insert({ name: `Worker test ${prefix}` }).returning<{ id: string }[]>('id');
-  labId = (lab as { id: string }).id;
-  const [user] = await db('users').insert({ email: `${prefix}@example.test`, name: 'Worker Test', password_hash: 'x' }).returning<{ id: string }[]>('id');
-  userId = (user as { id: string }).id;
-  await db('memberships').insert({ lab_id: labId, user_id: userId, role: 'tester' });
-  const [project] = await db('projects').insert({ lab_id: labId, name: 'Bench rig' }).returning<{ id: string }[]>('id');
-  const [rev] = await db('revisions').insert({ lab_id: labId, project_id: (project as { id: string }).id, label: 'R1', position: 1 }).returning<{ id: string }[]>('id');
-  revisionId = (rev as { id: string }).id;
+  ({ labId, userId, revisionId } = await createTestLab(db, { tag: prefix, name: 'Worker test', project: 'Bench rig', revision: 'R1' }));
   queueRedis = new Redis(`redis://127.0.0.1:${redisPort}`, { maxRetriesPerRequest: 1, enableOfflineQueue: false, retryStrategy: (n) => Math.min(n * 100, 500) });
   queueRedis.on('error', () => undefined);
   await new Promise<void>((r) => queueRedis.once('ready', () => r()));
