@@ -1,5 +1,5 @@
-import { getToken } from 'next-auth/jwt';
 import { NextResponse, type NextRequest } from 'next/server';
+import { sessionUserId } from './lib/auth/session-token';
 import { getEnv } from './lib/env';
 
 // The first gate only: visitors without a session go to sign-in. Every page, action and
@@ -9,8 +9,9 @@ const PUBLIC = [/^\/sign-in/, /^\/sign-up/, /^\/invite\//, /^\/reset/, /^\/api\/
 export async function proxy(req: NextRequest) {
   const { pathname } = req.nextUrl;
   if (PUBLIC.some((re) => re.test(pathname))) return NextResponse.next();
-  const token = await getToken({ req, secret: getEnv().NEXTAUTH_SECRET });
-  if (token) return NextResponse.next();
+  const env = getEnv();
+  // the same decode (and memo) the handlers use; a token that decodes to no user is no session
+  if (await sessionUserId(req.cookies, env.NEXTAUTH_URL.startsWith('https://'), env.NEXTAUTH_SECRET)) return NextResponse.next();
   if (pathname.startsWith('/api/')) {
     return NextResponse.json({ error: { code: 'unauthorized', message: 'Sign in first' } }, { status: 401 });
   }

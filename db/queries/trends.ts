@@ -48,23 +48,14 @@ export async function getProjectTrend(labId: string, projectId: string): Promise
 }
 
 /**
- * A fingerprint of everything a project's trend and readings list are built from: its readings,
- * capture sets, revisions and targets (count, newest change and the exact sum of change times, so an
- * edit whose transaction began before the newest row's still moves it) and
- * the project row itself. Every write to these tables sets updated_at, and a delete lowers a
- * count, so any change gives a new fingerprint. Null when the project is not in this lab.
+ * A fingerprint of everything a project's trend and readings list are built from: the project row
+ * and its data version, which triggers move on inside every transaction that writes its readings,
+ * capture sets, revisions or targets (migration 20270105090000). One primary-key lookup. Null when
+ * the project is not in this lab.
  */
 export async function getProjectDataVersion(labId: string, projectId: string): Promise<string | null> {
-  const stamp = (alias: string) => `count(*) || '/' || coalesce(max(${alias}.updated_at)::text, '-') || '/' || coalesce(sum(${alias}.updated_at - timestamptz 'epoch')::text, '-')`;
-  const { rows } = await getDb().raw<{ rows: { v: string | null }[] }>(
-    `SELECT p.updated_at::text
-         || '|' || (SELECT ${stamp('g')} FROM readings g WHERE g.project_id = p.id AND g.lab_id = p.lab_id)
-         || '|' || (SELECT ${stamp('c')} FROM capture_sets c JOIN revisions r ON r.id = c.revision_id WHERE r.project_id = p.id AND c.lab_id = p.lab_id)
-         || '|' || (SELECT ${stamp('r')} FROM revisions r WHERE r.project_id = p.id AND r.lab_id = p.lab_id)
-         || '|' || (SELECT ${stamp('t')} FROM targets t WHERE t.project_id = p.id AND t.lab_id = p.lab_id) AS v
-       FROM projects p
-      WHERE p.lab_id = ? AND p.id = ?`,
-    [labId, projectId],
-  );
-  return rows[0]?.v ?? null;
+  const row = (await getDb()('projects')
+    .where({ lab_id: labId, id: projectId })
+    .first(getDb().raw(`updated_at::text || '|' || data_version::text AS v`))) as { v: string } | undefined;
+  return row?.v ?? null;
 }

@@ -1,5 +1,4 @@
 import 'server-only';
-import { decode } from 'next-auth/jwt';
 import { cookies } from 'next/headers';
 import { redirect } from 'next/navigation';
 import { getMembership, getUserWithMemberships, type Membership, type User } from '../../db/queries/users';
@@ -9,6 +8,7 @@ import { getAuthOptions } from './options';
 import { can, type Permission, type Role } from './permissions';
 
 import { LAB_COOKIE } from './lab-cookie';
+import { sessionUserId } from './session-token';
 
 export { LAB_COOKIE };
 
@@ -17,58 +17,12 @@ export type Actor = { user: User; labId: string; labName: string; role: Role; me
 
 type CookieJar = Awaited<ReturnType<typeof cookies>>;
 
-/**
- * The session token as next-auth stores it: one cookie, or several numbered chunks when long.
- * Mirrors next-auth's SessionStore so a chunked token reads back the same.
- */
-function sessionToken(jar: CookieJar): string {
-  const name = `${getAuthOptions().useSecureCookies ? '__Secure-' : ''}next-auth.session-token`;
-  const suffix = (n: string) => parseInt(n.split('.').pop() ?? '0');
-  return jar
-    .getAll()
-    .filter((c) => c.name.startsWith(name))
-    .sort((a, b) => suffix(a.name) - suffix(b.name))
-    .map((c) => c.value)
-    .join('');
-}
-
-// jose's leeway on exp/nbf in next-auth's decode, repeated for tokens answered from memory
-const CLOCK_TOLERANCE_S = 15;
-const DECODED_MAX = 1000;
-type Claims = { sub: string | null; exp?: number; nbf?: number };
-const g = globalThis as unknown as { __veilmeterDecoded?: Map<string, Claims> };
-
-/**
- * The signed-in user's id from the session JWT. getServerSession gives the same answer but runs
- * next-auth's whole session route per call (config checks, CSRF token, a re-encrypted token whose
- * cookie is then thrown away); decoding is all a handler needs, with the same secret and expiry
- * check. A decoded token is remembered by its exact text: the text is authenticated ciphertext,
- * so the same text always decodes to the same claims, and decoding (an HKDF key derivation and
- * an AES-GCM decryption) was the largest single cost of a cached read. Expiry is still checked
- * on every request.
- */
-async function userIdFrom(jar: CookieJar): Promise<string | null> {
-  const token = sessionToken(jar);
-  if (!token) return null;
-  const memo = (g.__veilmeterDecoded ??= new Map());
-  let claims = memo.get(token);
-  if (!claims) {
-    try {
-      const payload = await decode({ token, secret: getAuthOptions().secret as string });
-      claims = { sub: typeof payload?.sub === 'string' && payload.sub ? payload.sub : null, exp: payload?.exp as number | undefined, nbf: payload?.nbf as number | undefined };
-    } catch {
-      return null;
-    }
-    if (memo.size >= DECODED_MAX) memo.delete(memo.keys().next().value as string);
-    memo.set(token, claims);
-  }
-  const now = Math.floor(Date.now() / 1000);
-  if (typeof claims.exp === 'number' && claims.exp <= now - CLOCK_TOLERANCE_S) {
-    memo.delete(token);
-    return null;
-  }
-  if (typeof claims.nbf === 'number' && claims.nbf > now + CLOCK_TOLERANCE_S) return null;
-  return claims.sub;
+// getServerSession gives the same answer but runs next-auth's whole session route per call (config
+// checks, CSRF token, a re-encrypted token whose cookie is then thrown away); decoding is all a
+// handler needs, with the same secret and expiry check.
+function userIdFrom(jar: CookieJar): Promise<string | null> {
+  const options = getAuthOptions();
+  return sessionUserId(jar, options.useSecureCookies === true, options.secret as string);
 }
 
 export async function getSessionUserId(): Promise<string | null> {

@@ -5,7 +5,7 @@ import { getAnalysis } from '../../db/queries/analyses';
 import { listExportRows } from '../../db/queries/exports';
 import { getReadingForAnalysis } from '../../db/queries/readings';
 import { createTarget, listTargets, updateTarget } from '../../db/queries/targets';
-import { getProjectTrend } from '../../db/queries/trends';
+import { getProjectDataVersion, getProjectTrend } from '../../db/queries/trends';
 import { createUserWithLab } from '../../db/queries/users';
 import { getEnv } from '../../lib/env';
 import { stageLabel } from '../../lib/queue/jobs';
@@ -139,6 +139,44 @@ describe('read cache of the trend and the readings list', () => {
     const after = await trend(fx.projectId);
     expect(after.text).not.toBe(before.text);
     expect(after.text).toBe(await uncachedTrend(a.labId, fx.projectId));
+  });
+
+  it('moves its version on every write to the project’s rows, and only then', async () => {
+    const version = () => getProjectDataVersion(a.labId, fx.projectId);
+    const rev = fx.revisions['R-1']!;
+    const setId = rev.captureSetIds[0]!;
+    const other = await insertFixtureProject(a.labId, `Cache other ${tag}`, [{ label: 'O-1', variants: [{ variant: '', readings: [{ acr: 2 }] }] }]);
+    try {
+      const seen = [await version()];
+      const expectMoved = async (what: string) => {
+        const v = await version();
+        expect(seen, what).not.toContain(v);
+        seen.push(v);
+      };
+      // writes elsewhere leave it alone
+      await getDb()('revisions').where({ id: other.revisions['O-1']!.id }).update({ label: 'O-1 renamed' });
+      await getDb()('readings').where({ project_id: other.projectId }).update({ ambient_contrast_ratio: 2.5 });
+      expect(await version()).toBe(seen[0]);
+      await getDb()('revisions').where({ id: rev.id }).update({ label: 'R-1 renamed' });
+      await expectMoved('revision renamed');
+      await getDb()('capture_sets').where({ id: setId }).update({ label: 'set renamed' });
+      await expectMoved('capture set relabelled');
+      const readingId = await insertReading(a.labId, fx.projectId, rev.id, setId, { acr: 1.7 }, new Date(Date.now() + 180_000));
+      await expectMoved('reading added');
+      await getDb()('readings').where({ id: readingId }).delete();
+      await expectMoved('reading deleted');
+      const [t] = await listTargets(a.labId, fx.projectId);
+      await getDb()('targets').where({ id: t!.id }).update({ condition_note: 'moved' });
+      await expectMoved('target edited');
+      // the cached answers follow: the renamed revision is in the next trend at once
+      await signInAs(a.userId);
+      expect((await trend(fx.projectId)).text).toContain('R-1 renamed');
+      await getDb()('revisions').where({ id: rev.id }).update({ label: 'R-1' });
+      expect((await trend(fx.projectId)).text).toBe(await uncachedTrend(a.labId, fx.projectId));
+    } finally {
+      await deleteFixtureProject(other.projectId);
+    }
+    expect(await getProjectDataVersion(b.labId, fx.projectId)).toBeNull();
   });
 
   it('never gives another lab the cached body', async () => {
