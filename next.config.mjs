@@ -27,6 +27,9 @@ const securityHeaders = [
 const nextConfig = {
   // Lets parallel builds (one per engineer or test run) keep their own output folder.
   distDir: process.env.NEXT_DIST_DIR || '.next',
+  // scripts/web.mjs compresses instead, leaving answers that come compressed already (the read
+  // cache keeps its bodies gzipped) as they are; Next's own compression would gzip them again
+  compress: false,
   reactStrictMode: true,
   poweredByHeader: false,
   // `npm test` runs tsc over the whole tree as its own step; the build need not repeat it.

@@ -22,7 +22,7 @@ export default defineConfig({
     trace: 'off',
   },
   webServer: {
-    command: `npx next start -p ${port} -H 127.0.0.1`,
+    command: `node scripts/web.mjs -p ${port} -H 127.0.0.1`,
     url: `http://127.0.0.1:${port}/api/health`,
     reuseExistingServer: false,
     timeout: 60_000,

@@ -45,7 +45,7 @@ setsid npx tsx scripts/mail-catcher.ts >"$RUN/mail.log" 2>&1 & echo $! > "$RUN/m
 for i in $(seq 1 "$WORKERS"); do
   setsid npx tsx worker/index.ts >"$RUN/worker-$i.log" 2>&1 & echo $! > "$RUN/worker-$i.pid"
 done
-setsid npx next start -p "$PORT" -H "${HOST:-127.0.0.1}" >"$RUN/web.log" 2>&1 & echo $! > "$RUN/web.pid"
+setsid node scripts/web.mjs -p "$PORT" -H "${HOST:-127.0.0.1}" >"$RUN/web.log" 2>&1 & echo $! > "$RUN/web.pid"
 
 for i in $(seq 1 150); do
   curl -fsS "http://127.0.0.1:$PORT/api/health" >/dev/null 2>&1 && break

@@ -33,6 +33,28 @@ export async function listNewestReadings(labId: string, filter: { projectId?: st
   return rows.map(toSetReading).sort((a, b) => a.createdAt.getTime() - b.createdAt.getTime() || a.captureLabel.localeCompare(b.captureLabel));
 }
 
+export type ReadingsPage = { readings: (SetReading & { revisionLabel: string })[]; total: number };
+
+/**
+ * One page of a project's readings list: the newest reading of each capture set, newest first
+ * (ties by reading id, so pages never overlap), with the number of capture sets that have one.
+ */
+export async function listNewestReadingsPage(labId: string, projectId: string, page: { limit: number; offset: number }): Promise<ReadingsPage> {
+  const db = getDb();
+  const newest = db
+    .select(db.raw('DISTINCT ON (g.capture_set_id) g.id'), 'g.capture_set_id', 'c.label as capture_label', 'g.revision_id', 'r.label as revision_label', 'c.variant', 'g.created_at', ...METRIC_COLUMNS)
+    .from('readings as g')
+    .join('capture_sets as c', 'c.id', 'g.capture_set_id')
+    .join('revisions as r', 'r.id', 'g.revision_id')
+    .where({ 'g.lab_id': labId, 'g.project_id': projectId })
+    .orderBy([{ column: 'g.capture_set_id' }, { column: 'g.created_at', order: 'desc' }, { column: 'g.id', order: 'desc' }]);
+  const [rows, count] = await Promise.all([
+    db.select('*').from(newest.as('n')).orderBy([{ column: 'created_at', order: 'desc' }, { column: 'id', order: 'desc' }]).limit(page.limit).offset(page.offset) as Promise<(Row & { revision_label: string })[]>,
+    db('readings').where({ lab_id: labId, project_id: projectId }).countDistinct<{ n: string }[]>('capture_set_id as n').first(),
+  ]);
+  return { readings: rows.map((r) => ({ ...toSetReading(r), revisionLabel: r.revision_label })), total: Number(count?.n ?? 0) };
+}
+
 export async function listRevisionRefs(labId: string, projectId: string): Promise<RevisionRef[]> {
   return getDb()('revisions').where({ lab_id: labId, project_id: projectId }).orderBy([{ column: 'position' }, { column: 'label' }]).select<RevisionRef[]>('id', 'label', 'position');
 }

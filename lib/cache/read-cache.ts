@@ -1,7 +1,8 @@
+import { gzipSync } from 'node:zlib';
 import { ByteLru } from './lru';
 
 /** A serialized answer, ready to send as it is. */
-export type CachedBody = { body: Uint8Array<ArrayBuffer>; meta: Record<string, string> };
+export type CachedBody = { body: Uint8Array<ArrayBuffer>; meta: Record<string, string>; gzip?: Uint8Array<ArrayBuffer> };
 
 // Large enough for a handful of big projects' trend and CSV answers (≈1 MB each at 2,000 sets),
 // small enough not to matter beside the Node heap.
@@ -50,4 +51,37 @@ export function clearReadCache(): void {
 export function readCacheStats(): { entries: number; bytes: number } {
   const { lru } = state();
   return { entries: lru.size, bytes: lru.bytes };
+}
+
+/** Whether the request's Accept-Encoding takes gzip (a q of 0 refuses it). */
+export function acceptsGzip(req: Request): boolean {
+  const header = req.headers.get('accept-encoding') ?? '';
+  return header.split(',').some((part) => {
+    const [coding, ...params] = part.trim().toLowerCase().split(';');
+    if (coding !== 'gzip' && coding !== '*') return false;
+    const q = params.map((p) => p.trim()).find((p) => p.startsWith('q='));
+    return q === undefined || Number(q.slice(2)) > 0;
+  });
+}
+
+/**
+ * Next.js drops a handler's Content-Encoding header, so a body compressed here would reach the
+ * client unlabelled. scripts/web.mjs marks every request it forwards with PRECOMPRESSED_OK (after
+ * removing any a client sent) and turns ENCODING_HEADER back into Content-Encoding on the way out;
+ * without that mark (next dev, plain next start) answers go uncompressed from here.
+ */
+export const PRECOMPRESSED_OK = 'x-veilmeter-precompressed';
+export const ENCODING_HEADER = 'x-veilmeter-encoding';
+
+/**
+ * A cached body as a response: gzip-compressed once per body (and then kept beside it) for clients
+ * that take gzip, as browsers and fetch do, instead of compressing the same bytes on every request.
+ */
+export function cachedAnswer(req: Request, cached: CachedBody, headers: Record<string, string>): Response {
+  const vary = { ...headers, vary: 'accept-encoding' };
+  if (cached.body.byteLength >= 1024 && req.headers.get(PRECOMPRESSED_OK) === '1' && acceptsGzip(req)) {
+    cached.gzip ??= new Uint8Array(gzipSync(cached.body, { level: 6 }));
+    return new Response(cached.gzip, { status: 200, headers: { ...vary, [ENCODING_HEADER]: 'gzip' } });
+  }
+  return new Response(cached.body, { status: 200, headers: vary });
 }

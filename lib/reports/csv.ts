@@ -58,7 +58,7 @@ export function fileSlug(...parts: string[]): string {
   return parts.join('-').replace(/[^A-Za-z0-9._-]+/g, '-').replace(/-+/g, '-').replace(/^-|-$/g, '').slice(0, 100) || 'veilmeter';
 }
 
-const csvHeaders = (name: string) => ({ 'content-type': 'text/csv; charset=utf-8', 'content-disposition': `attachment; filename="${name}.csv"`, 'cache-control': 'private, no-store' });
+export const csvHeaders = (name: string): Record<string, string> => ({ 'content-type': 'text/csv; charset=utf-8', 'content-disposition': `attachment; filename="${name}.csv"`, 'cache-control': 'private, no-store' });
 
 export function csvResponse(body: string, name: string): Response {
   return new Response(`\uFEFF${body}`, { status: 200, headers: csvHeaders(name) });
@@ -67,9 +67,4 @@ export function csvResponse(body: string, name: string): Response {
 /** The bytes csvResponse sends (a BOM so spreadsheets read UTF-8), for keeping them ready. */
 export function csvBytes(body: string): Uint8Array<ArrayBuffer> {
   return Buffer.from(`\uFEFF${body}`, 'utf8');
-}
-
-/** The same response as csvResponse, from bytes made by csvBytes. */
-export function csvBytesResponse(bytes: Uint8Array<ArrayBuffer>, name: string): Response {
-  return new Response(bytes, { status: 200, headers: csvHeaders(name) });
 }

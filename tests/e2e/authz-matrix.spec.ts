@@ -31,6 +31,7 @@ const ROUTES: { method: string; path: string; access: Access; query?: string }[]
   { method: 'PATCH', path: '/api/projects/[projectId]', access: 'project.write' },
   { method: 'DELETE', path: '/api/projects/[projectId]', access: 'project.delete' },
   { method: 'GET', path: '/api/projects/[projectId]/trend', access: 'project.read' },
+  { method: 'GET', path: '/api/projects/[projectId]/readings', access: 'project.read' },
   { method: 'GET', path: '/api/projects/[projectId]/readings.csv', access: 'export.create' },
   { method: 'GET', path: '/api/projects/[projectId]/report.pdf', access: 'export.create' },
   { method: 'GET', path: '/api/projects/[projectId]/compare/readings.csv', access: 'export.create', query: '?a=[revisionId]&b=[revisionId]' },

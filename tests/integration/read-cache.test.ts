@@ -1,3 +1,4 @@
+import { gunzipSync } from 'node:zlib';
 import { encode } from 'next-auth/jwt';
 import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from 'vitest';
 import { closeDb, getDb } from '../../db/index';
@@ -5,7 +6,7 @@ import { getAnalysis } from '../../db/queries/analyses';
 import { listExportRows } from '../../db/queries/exports';
 import { getReadingForAnalysis } from '../../db/queries/readings';
 import { createTarget, listTargets, updateTarget } from '../../db/queries/targets';
-import { getProjectDataVersion, getProjectTrend } from '../../db/queries/trends';
+import { getProjectDataVersion, getProjectTrend, listNewestReadings } from '../../db/queries/trends';
 import { createUserWithLab } from '../../db/queries/users';
 import { getEnv } from '../../lib/env';
 import { stageLabel } from '../../lib/queue/jobs';
@@ -27,6 +28,7 @@ vi.mock('next/headers', () => ({
 const { GET: trendGET } = await import('../../app/api/projects/[projectId]/trend/route');
 const { GET: csvGET } = await import('../../app/api/projects/[projectId]/readings.csv/route');
 const { GET: pollGET } = await import('../../app/api/analyses/[analysisId]/route');
+const { GET: listGET } = await import('../../app/api/projects/[projectId]/readings/route');
 const { clearReadCache, readCacheStats } = await import('../../lib/cache/read-cache');
 
 const tag = `${process.pid}-${Date.now()}`;
@@ -42,12 +44,14 @@ async function signInAs(userId: string, labId?: string): Promise<void> {
 }
 
 type Handler = (req: Request, ctx: never) => Promise<Response>;
-async function call(get: Handler, url: string, params: Record<string, string>): Promise<{ status: number; headers: Headers; text: string }> {
-  const res = await get(new Request(url), { params: Promise.resolve(params) } as never);
+async function call(get: Handler, url: string, params: Record<string, string>, headers: Record<string, string> = {}): Promise<{ status: number; headers: Headers; text: string; bytes: Buffer }> {
+  const res = await get(new Request(url, { headers }), { params: Promise.resolve(params) } as never);
+  const bytes = Buffer.from(await res.arrayBuffer());
   // bytes, not res.text(): that would drop the CSV's byte-order mark
-  return { status: res.status, headers: res.headers, text: Buffer.from(await res.arrayBuffer()).toString('utf8') };
+  return { status: res.status, headers: res.headers, text: bytes.toString('utf8'), bytes };
 }
 const trend = (projectId: string) => call(trendGET, `http://127.0.0.1/api/projects/${projectId}/trend`, { projectId });
+const list = (projectId: string, query = '') => call(listGET, `http://127.0.0.1/api/projects/${projectId}/readings${query}`, { projectId });
 const csv = (projectId: string) => call(csvGET, `http://127.0.0.1/api/projects/${projectId}/readings.csv`, { projectId });
 
 /** What the routes answered before the cache, built straight from the queries. */
@@ -200,6 +204,93 @@ describe('read cache of the trend and the readings list', () => {
     jar.clear();
     expect((await trend(fx.projectId)).status).toBe(401);
     expect((await csv(fx.projectId)).status).toBe(401);
+  });
+});
+
+describe('readings list, a page at a time', () => {
+  type Page = { readings: { readingId: string; captureSetId: string; revisionLabel: string; createdAt: string; values: { ambientContrastRatio: number | null } }[]; total: number; limit: number; offset: number };
+  it('pages through the newest reading of every capture set, newest first, without overlap', async () => {
+    await signInAs(a.userId);
+    const everything = (await listNewestReadings(a.labId, { projectId: fx.projectId })).sort((x, y) => y.createdAt.getTime() - x.createdAt.getTime() || y.readingId.localeCompare(x.readingId));
+    const first = await list(fx.projectId);
+    expect(first.status).toBe(200);
+    const whole = JSON.parse(first.text) as Page;
+    expect(whole).toMatchObject({ total: everything.length, limit: 50, offset: 0 });
+    expect(whole.readings.map((r) => r.readingId)).toEqual(everything.map((r) => r.readingId));
+    const seen: string[] = [];
+    for (let offset = 0; offset < everything.length + 2; offset += 2) {
+      const page = JSON.parse((await list(fx.projectId, `?limit=2&offset=${offset}`)).text) as Page;
+      expect(page.readings.length).toBe(Math.max(0, Math.min(2, everything.length - offset)));
+      seen.push(...page.readings.map((r) => r.readingId));
+    }
+    expect(seen).toEqual(everything.map((r) => r.readingId));
+    expect(whole.readings.every((r) => r.revisionLabel === 'R-1' || r.revisionLabel === 'R-2')).toBe(true);
+  });
+
+  it('refuses a bad page with 422 and field messages, and another lab with 404', async () => {
+    await signInAs(a.userId);
+    for (const [query, field] of [['?limit=0', 'limit'], ['?limit=501', 'limit'], ['?limit=2.5', 'limit'], ['?limit=ten', 'limit'], ['?offset=-1', 'offset']] as const) {
+      const r = await list(fx.projectId, query);
+      expect(r.status, query).toBe(422);
+      expect(JSON.parse(r.text).error.fieldErrors[field], query).toBeTruthy();
+    }
+    await signInAs(b.userId);
+    const other = await list(fx.projectId);
+    expect(other.status).toBe(404);
+    expect(other.text).not.toContain('R-1');
+  });
+
+  it('shows a new reading on the first page at once', async () => {
+    await signInAs(a.userId);
+    const before = JSON.parse((await list(fx.projectId, '?limit=1')).text) as Page;
+    const rev = fx.revisions['R-2']!;
+    const readingId = await insertReading(a.labId, fx.projectId, rev.id, rev.captureSetIds[0]!, { acr: 1.95 }, new Date(Date.now() + 240_000));
+    const after = JSON.parse((await list(fx.projectId, '?limit=1')).text) as Page;
+    expect(after.readings[0]?.readingId).toBe(readingId);
+    expect(after.readings[0]?.readingId).not.toBe(before.readings[0]?.readingId);
+    expect(after.total).toBe(before.total);
+  });
+});
+
+describe('compressed answers', () => {
+  it('sends the cached bytes gzipped once to clients that take gzip through the web server, and plain to the others', async () => {
+    await signInAs(a.userId);
+    const routes = [
+      (h: Record<string, string>) => call(trendGET, `http://127.0.0.1/api/projects/${fx.projectId}/trend`, { projectId: fx.projectId }, h),
+      (h: Record<string, string>) => call(csvGET, `http://127.0.0.1/api/projects/${fx.projectId}/readings.csv`, { projectId: fx.projectId }, h),
+      (h: Record<string, string>) => call(listGET, `http://127.0.0.1/api/projects/${fx.projectId}/readings`, { projectId: fx.projectId }, h),
+    ];
+    for (const get of routes) {
+      const plain = await get({});
+      expect(plain.headers.get('x-veilmeter-encoding')).toBeNull();
+      expect(plain.headers.get('vary')).toBe('accept-encoding');
+      const ok = { 'x-veilmeter-precompressed': '1' };
+      const zipped = await get({ ...ok, 'accept-encoding': 'gzip, deflate, br' });
+      expect(zipped.headers.get('x-veilmeter-encoding')).toBe('gzip');
+      expect(zipped.bytes.length).toBeLessThan(plain.bytes.length);
+      expect(gunzipSync(zipped.bytes).equals(plain.bytes)).toBe(true);
+      // the same compressed bytes the second time, and none for a client that refuses gzip
+      expect((await get({ ...ok, 'accept-encoding': 'gzip' })).bytes.equals(zipped.bytes)).toBe(true);
+      expect((await get({ ...ok, 'accept-encoding': 'gzip;q=0, deflate' })).headers.get('x-veilmeter-encoding')).toBeNull();
+      // without the web server's mark (next dev, plain next start) nothing comes compressed
+      expect((await get({ 'accept-encoding': 'gzip' })).bytes.equals(plain.bytes)).toBe(true);
+    }
+  });
+});
+
+describe('trend of one metric', () => {
+  it('is the full trend cut to that metric and its targets', async () => {
+    await signInAs(a.userId);
+    const full = JSON.parse((await trend(fx.projectId)).text);
+    const one = await call(trendGET, `http://127.0.0.1/api/projects/${fx.projectId}/trend?metric=ambientContrastRatio`, { projectId: fx.projectId });
+    expect(one.status).toBe(200);
+    const body = JSON.parse(one.text);
+    expect(Object.keys(body.trends)).toEqual(['ambientContrastRatio']);
+    expect(body.trends.ambientContrastRatio).toEqual(full.trends.ambientContrastRatio);
+    expect(body.targets).toEqual(full.targets.filter((t: { metric: string }) => t.metric === 'ambientContrastRatio'));
+    const bad = await call(trendGET, `http://127.0.0.1/api/projects/${fx.projectId}/trend?metric=brightness`, { projectId: fx.projectId });
+    expect(bad.status).toBe(422);
+    expect(JSON.parse(bad.text).error.fieldErrors.metric[0]).toContain('ambientContrastRatio');
   });
 });
 

@@ -1,26 +1,34 @@
-import { NextResponse } from 'next/server';
 import { listTargets } from '@/db/queries/targets';
 import { getProjectDataVersion, getProjectTrend } from '@/db/queries/trends';
 import { withAuth } from '@/lib/auth/with-auth';
-import { cachedBody } from '@/lib/cache/read-cache';
-import { notFound } from '@/lib/errors';
+import { cachedAnswer, cachedBody } from '@/lib/cache/read-cache';
+import { AppError, notFound } from '@/lib/errors';
+import { METRIC_KEYS, type MetricKey } from '@/lib/targets/metrics';
 import { idOr404 } from '@/lib/reports/http';
 
 const HEADERS = { 'content-type': 'application/json', 'cache-control': 'private, no-store' };
 
+/** The trend of every metric, or of one with ?metric=<key> (what one chart needs). */
 export const GET = withAuth<{ projectId: string }>(
-  async (_req, { actor, params }) => {
+  async (req, { actor, params }) => {
     const projectId = idOr404(params.projectId, 'project');
+    const asked = new URL(req.url).searchParams.get('metric');
+    if (asked !== null && !(METRIC_KEYS as readonly string[]).includes(asked)) {
+      throw new AppError(422, `Unknown metric "${asked.slice(0, 60)}"`, 'invalid', { metric: [`Use one of: ${METRIC_KEYS.join(', ')}`] });
+    }
+    const metric = asked as MetricKey | null;
     // the fingerprint is read before the data, so a cached body is never older than its key
     const version = await getProjectDataVersion(actor.labId, projectId);
     if (!version) throw notFound('No such project');
-    const { body } = await cachedBody('trend', actor.labId, projectId, version, async () => {
+    const cached = await cachedBody(metric ? `trend:${metric}` : 'trend', actor.labId, projectId, version, async () => {
       const trend = await getProjectTrend(actor.labId, projectId);
       if (!trend) throw notFound('No such project');
-      const targets = await listTargets(actor.labId, projectId);
-      return { body: Buffer.from(JSON.stringify({ revisions: trend.revisions, trends: trend.trends, targets })), meta: {} };
+      const all = await listTargets(actor.labId, projectId);
+      const trends = metric ? { [metric]: trend.trends[metric] } : trend.trends;
+      const targets = metric ? all.filter((t) => t.metric === metric) : all;
+      return { body: Buffer.from(JSON.stringify({ revisions: trend.revisions, trends, targets })), meta: {} };
     });
-    return new NextResponse(body, { headers: HEADERS });
+    return cachedAnswer(req, cached, HEADERS);
   },
   { permission: 'project.read' },
 );

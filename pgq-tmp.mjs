@@ -1,0 +1,10 @@
+import pg from 'pg';
+const c = new pg.Client({ connectionString: process.env.DATABASE_URL_X || process.env.DATABASE_URL, host: process.env.PGHOST_X || undefined });
+await c.connect();
+for (let i = 0; i < 500; i++) await c.query('select 1');
+const u0 = process.cpuUsage(); const t0 = performance.now();
+const N = 5000;
+for (let i = 0; i < N; i++) await c.query('select $1::int as x', [i]);
+const u = process.cpuUsage(u0); const t = performance.now() - t0;
+console.log(`wall ${(t / N * 1000).toFixed(0)} us/query, user ${(u.user / N).toFixed(0)} us, sys ${(u.system / N).toFixed(0)} us`);
+await c.end();
