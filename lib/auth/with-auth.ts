@@ -35,6 +35,14 @@ async function tokenActor(header: string, permission: Permission): Promise<Actor
   return { user, labId: t.labId, labName: '', role: t.role, memberships: [] };
 }
 
+function onRigApi(req: Request): boolean {
+  try {
+    return new URL(req.url).pathname.startsWith('/api/v1/');
+  } catch {
+    return false;
+  }
+}
+
 /**
  * Wraps a route handler: who is acting (session cookie, or a bearer token under /api/v1) → role
  * from the database → permission → handler; every error becomes safe JSON.
@@ -42,7 +50,9 @@ async function tokenActor(header: string, permission: Permission): Promise<Actor
 export function withAuth<P = Record<string, never>>(handler: Handler<P>, opts: { permission: Permission }) {
   return async (req: Request, ctx: Ctx<P>): Promise<Response> => {
     try {
-      const bearer = req.headers.get('authorization');
+      // tokens are for the rig API under /api/v1 only; elsewhere a bearer header counts for
+      // nothing and the session decides (so a token is no way around it on the app's own routes)
+      const bearer = onRigApi(req) ? req.headers.get('authorization') : null;
       const actor = bearer ? await tokenActor(bearer, opts.permission) : await actorWith(opts.permission);
       return await handler(req, { actor, params: await ctx.params });
     } catch (err) {

@@ -3,6 +3,7 @@ import { deltaE2000 } from './ciede2000';
 import { chromaticity, linearRgbToXyz, xyzToLab, D65_WHITE } from './color';
 import { contrastRatio, michelson } from './contrast';
 import { luminanceCrop } from './crop';
+import { refineGhostOffset, refineScreenEdges } from './screen-edges';
 import { detectScreen, strided } from './detect-screen';
 import { downsampleLuminance } from './downsample';
 import { EngineInputError } from './errors';
@@ -25,9 +26,11 @@ import { ENGINE_VERSION } from './version';
 import type { ExposureTags, Offset, Pattern, Plane, PhotoRaster, PhotoRole, Rect } from './types';
 
 /** Widest downsampled plane: the maps are made from it, and PRODUCT.md caps them at 1600 px. */
-export const MAP_MAX_WIDTH = 1600;
+export const MAP_MAX_WIDTH = 800;
 /** Camera movement beyond this share of the width means the photos do not show the same view. */
 export const MAX_SHIFT_SHARE = 0.05;
+/** The shortest ghost offset searched, in pixels of the downsampled plane. */
+const GHOST_MIN_BLOCKS = 2;
 
 export interface CapturePhoto {
   raster: PhotoRaster;
@@ -279,7 +282,11 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     const y0 = found.y * factor;
     const x1 = Math.min(W, (found.x + found.w) * factor);
     const y1 = Math.min(H, (found.y + found.h) * factor);
-    screen = { x: x0, y: y0, w: x1 - x0, h: y1 - y0 };
+    const coarse = { x: x0, y: y0, w: x1 - x0, h: y1 - y0 };
+    const offPhoto = photos.off as CapturePhoto;
+    screen = cached(memo, `edges:${diffKey}:${rectKey(coarse)}`, () =>
+      refineScreenEdges(coarse, { raster: on, offset: { dx: 0, dy: 0 }, scale: scaleOf('on') }, { raster: offPhoto.raster, offset: registration.off as Offset, scale: scaleOf('off') }, factor),
+    );
     screenSource = 'detected';
   }
   if (pattern === 'checkerboard' && (screen.w < 8 || screen.h < 8)) {
@@ -288,11 +295,13 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
   const background = input.background ? { ...input.background } : null;
 
   // ghost offsets: marked, skipped, or searched on the downsampled difference
+  // every block the screen touches: blocks straddling its edge are partly lit, and left outside
+  // they would form a ring one block wide that the search would take for a ghost close by
   const screenSmall = (): Rect => {
-    const x0 = Math.ceil(screen.x / factor);
-    const y0 = Math.ceil(screen.y / factor);
-    const x1 = Math.max(x0 + 1, Math.floor((screen.x + screen.w) / factor));
-    const y1 = Math.max(y0 + 1, Math.floor((screen.y + screen.h) / factor));
+    const x0 = Math.floor(screen.x / factor);
+    const y0 = Math.floor(screen.y / factor);
+    const x1 = Math.max(x0 + 1, Math.ceil((screen.x + screen.w) / factor));
+    const y1 = Math.max(y0 + 1, Math.ceil((screen.y + screen.h) / factor));
     return { x: x0, y: y0, w: Math.min(diffSmall.width, x1) - x0, h: Math.min(diffSmall.height, y1) - y0 };
   };
   type Found = { offset: Offset; source: 'marked' | 'detected'; snr: number | null } | null;
@@ -301,9 +310,17 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     if (input.ghostOffset) return { offset: { ...input.ghostOffset }, source: 'marked', snr: null };
     const ss = screenSmall();
     if (ss.w < 1 || ss.h < 1) return null;
-    const c = d === diffSmall ? cached(memo, `ghost:${diffKey}:${rectKey(ss)}:${factor}`, () => searchGhost(d, ss, 2 / factor)) : searchGhost(d, ss, 2 / factor);
+    // offsets start at two blocks: closer, a copy cannot be told from the edge's own blur
+    const c = d === diffSmall ? cached(memo, `ghost:${diffKey}:${rectKey(ss)}:${factor}`, () => searchGhost(d, ss, GHOST_MIN_BLOCKS)) : searchGhost(d, ss, GHOST_MIN_BLOCKS);
     if (!c || c.snr < GHOST_MIN_SNR || c.gain <= 0) return null;
-    const offset = factor === 1 ? { dx: Math.round(c.dx), dy: Math.round(c.dy) } : { dx: Math.round(c.dx * factor), dy: Math.round(c.dy * factor) };
+    const coarse = factor === 1 ? { dx: Math.round(c.dx), dy: Math.round(c.dy) } : { dx: Math.round(c.dx * factor), dy: Math.round(c.dy * factor) };
+    // on and off at hand: the ghost's own edges put the offset to the pixel
+    const offset =
+      d === diffSmall && factor > 1
+        ? cached(memo, `ghostfine:${diffKey}:${rectKey(screen)}:${coarse.dx},${coarse.dy}`, () =>
+            refineGhostOffset(screen, coarse, { raster: on, offset: { dx: 0, dy: 0 }, scale: scaleOf('on') }, { raster: (photos.off as CapturePhoto).raster, offset: registration.off as Offset, scale: scaleOf('off') }, factor),
+          )
+        : coarse;
     if (Math.hypot(offset.dx, offset.dy) < 2) return null;
     return { offset, source: 'detected', snr: c.snr };
   };

@@ -36,3 +36,4 @@ export { mergeBracket, type BracketMember, type BracketMergeOptions, type Bracke
 export { fitLinearity, readGreySteps, LINEARITY_EXPONENT_TOLERANCE, LINEARITY_MAX_DEVIATION, type LinearityFit, type GreyStepReading } from './linearity';
 export { calibrationFactor, absoluteLuminance, roughCalibrationFactor, calibrateFromPatch, CALIBRATION_MAX_CLIPPED, CALIBRATION_MIN_LEVEL, type PatchCalibration } from './calibration';
 export { detectOrientation, type Orientation, type OrientationReading } from './orientation';
+export { refineGhostOffset, refineScreenEdges, type EdgeSource } from './screen-edges';

@@ -144,3 +144,40 @@ describe('checkerboard, exposure, clipping and refusals on generated photos', ()
     expect((e as EngineInputError).code).toBe('camera-moved');
   });
 });
+
+// At a camera's size the coarse steps (registration's first pass, detection, the ghost search)
+// run on planes downsampled several times; the truth must still come back within the same bounds.
+describe('the engine recovers the truth at camera size (4800 × 3200, downsampled planes)', () => {
+  const scene: SceneOptions = { width: 4800, height: 3200, seed: 29, shifts: { off: { dx: 17, dy: -11 }, ambient: { dx: -9, dy: 14 } }, ghost: { gain: 0.04, dx: 61, dy: 37 } };
+  let c: RenderedCapture;
+  let r: CaptureResult;
+
+  it('renders and analyses', async () => {
+    c = await renderCapture(scene);
+    r = await run(c);
+    expect(r.image).toEqual({ width: 4800, height: 3200 });
+  }, 120_000);
+
+  it('registers within 1 px, detects the screen with IoU ≥ 0.9', () => {
+    for (const role of ['off', 'ambient'] as const) {
+      expect(Math.abs((r.registration[role]?.dx as number) - c.truth.registration[role].dx)).toBeLessThanOrEqual(1);
+      expect(Math.abs((r.registration[role]?.dy as number) - c.truth.registration[role].dy)).toBeLessThanOrEqual(1);
+    }
+    expect(r.screen.source).toBe('detected');
+    expect(rectIoU(r.screen, c.truth.screen)).toBeGreaterThanOrEqual(0.9);
+  });
+
+  it('recovers contrast, transmission and uniformity within 1.5%, Michelson within 0.01', () => {
+    expect(rel(r.ambientContrastRatio, c.truth.ambientContrastRatio)).toBeLessThan(0.015);
+    expect(rel(r.transmission, c.truth.transmission)).toBeLessThan(0.015);
+    expect(rel(r.uniformity, c.truth.uniformity as number)).toBeLessThan(0.015);
+    expect(Math.abs((r.michelson as number) - c.truth.michelson)).toBeLessThan(0.01);
+  });
+
+  it('finds the ghost: ratio within 6%, offset within 1.5 px', () => {
+    const g = c.truth.ghost as { ratio: number; dx: number; dy: number };
+    expect(r.ghost?.source).toBe('detected');
+    expect(rel(r.ghost?.ratio, g.ratio)).toBeLessThan(0.06);
+    expect(Math.hypot((r.ghost?.dx as number) - g.dx, (r.ghost?.dy as number) - g.dy)).toBeLessThanOrEqual(1.5);
+  });
+});

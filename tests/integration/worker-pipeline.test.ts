@@ -256,7 +256,7 @@ describe('analysis worker', () => {
     expect(killedWhile?.status).toBe('running');
     await spawnWorker();
     const done = await waitFor(analysis.id, ['done', 'failed'], 60_000);
-    expect(done.status).toBe('done');
+    expect(done.status, `error: ${done.error ?? 'none'}`).toBe('done');
     expect(done.attempts).toBeGreaterThanOrEqual(2);
     const n = await m.db.getDb()('readings').where({ analysis_id: analysis.id }).count<{ count: string }[]>('* as count').first();
     expect(Number(n?.count)).toBe(1);

@@ -1,12 +1,12 @@
 import 'server-only';
 import { decodePhoto } from '@/lib/image';
-import { detectScreen, downsampleFactor, MAP_MAX_WIDTH, preparePhoto, robustSigma, subtractPlanes } from '@/lib/photometry';
+import { detectScreen, downsampleFactor, MAP_MAX_WIDTH, preparePhoto, refineScreenEdges, robustSigma, subtractPlanes } from '@/lib/photometry';
 import type { Rect } from '@/lib/photometry/types';
 
 /**
  * The engine's screen detection on the downsampled on − off difference, scaled back to full
- * resolution. Coarse on purpose: the editor shows it for the tester to adjust, and the worker
- * measures inside whatever is saved.
+ * resolution with its edges put to the pixel (the photos taken as aligned). The editor shows it
+ * for the tester to adjust, and the worker measures inside whatever is saved.
  */
 export async function detectScreenRect(on: Uint8Array, off: Uint8Array): Promise<Rect | null> {
   const [a, b] = await Promise.all([decodePhoto(on, { name: 'the on photo' }), decodePhoto(off, { name: 'the off photo' })]);
@@ -18,5 +18,6 @@ export async function detectScreenRect(on: Uint8Array, off: Uint8Array): Promise
   const f = downsampleFactor(width, MAP_MAX_WIDTH);
   const x = Math.min(width - 1, found.x * f);
   const y = Math.min(height - 1, found.y * f);
-  return { x, y, w: Math.max(1, Math.min(width - x, found.w * f)), h: Math.max(1, Math.min(height - y, found.h * f)) };
+  const coarse = { x, y, w: Math.max(1, Math.min(width - x, found.w * f)), h: Math.max(1, Math.min(height - y, found.h * f)) };
+  return refineScreenEdges(coarse, { raster: a.raster, offset: { dx: 0, dy: 0 }, scale: 1 }, { raster: b.raster, offset: { dx: 0, dy: 0 }, scale: 1 }, f);
 }
