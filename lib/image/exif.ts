@@ -3,6 +3,27 @@ import type { ExposureTags } from '../photometry/types';
 
 const PICK = ['ExposureTime', 'FNumber', 'ISO', 'ISOSpeedRatings', 'PhotographicSensitivity', 'Make', 'Model'];
 
+/**
+ * What a camera can put in its EXIF; anything outside is dropped rather than taken as a fact about
+ * the shot (a 10⁹ s exposure would scale the photo by a billion). The intake (lib/storage) and the
+ * engine's own reading of the tags use the same bounds.
+ */
+export const EXIF_BOUNDS = {
+  exposureTime: [1e-6, 3600],
+  fNumber: [0.5, 256],
+  iso: [1, 1e7],
+  orientation: [1, 8],
+} as const satisfies Record<string, readonly [number, number]>;
+
+export function withinBounds(v: number | undefined, [lo, hi]: readonly [number, number]): v is number {
+  return typeof v === 'number' && Number.isFinite(v) && v >= lo && v <= hi;
+}
+
+/** An EXIF text field without control characters, trimmed and at most 80 characters; undefined when empty. */
+export function exifText(v: string | undefined): string | undefined {
+  return v ? v.replace(/[\u0000-\u001f\u007f]/g, '').trim().slice(0, 80) || undefined : undefined;
+}
+
 function num(v: unknown): number | undefined {
   if (typeof v === 'number' && Number.isFinite(v) && v > 0) return v;
   if (Array.isArray(v) && typeof v[0] === 'number') return num(v[0]);
@@ -22,10 +43,12 @@ export async function readExposureTags(buf: Uint8Array): Promise<ExposureTags | 
   const t = num(tags.ExposureTime);
   const n = num(tags.FNumber);
   const s = num(tags.ISO) ?? num(tags.ISOSpeedRatings) ?? num(tags.PhotographicSensitivity);
-  if (t !== undefined) out.exposureTime = t;
-  if (n !== undefined) out.fNumber = n;
-  if (s !== undefined) out.iso = s;
-  if (typeof tags.Make === 'string') out.make = tags.Make.trim();
-  if (typeof tags.Model === 'string') out.model = tags.Model.trim();
+  if (withinBounds(t, EXIF_BOUNDS.exposureTime)) out.exposureTime = t;
+  if (withinBounds(n, EXIF_BOUNDS.fNumber)) out.fNumber = n;
+  if (withinBounds(s, EXIF_BOUNDS.iso)) out.iso = s;
+  const make = typeof tags.Make === 'string' ? exifText(tags.Make) : undefined;
+  const model = typeof tags.Model === 'string' ? exifText(tags.Model) : undefined;
+  if (make) out.make = make;
+  if (model) out.model = model;
   return Object.keys(out).length > 0 ? out : null;
 }

@@ -1,6 +1,7 @@
 import { createHash } from 'node:crypto';
 import { findPhotoBySha, listPhotos, putPhoto, replacesInBracket, type Photo } from '../../db/queries/photos';
 import { AppError } from '../errors';
+import { EXIF_BOUNDS, exifText, withinBounds } from '../image/exif';
 import { makePreview } from '../image/preview';
 import { probePhoto, type ProbedPhoto } from '../image/probe';
 import { isEngineInputError } from '../photometry/errors';
@@ -91,15 +92,13 @@ export async function ingestPhoto(input: { labId: string; userId: string; captur
 // the tester as facts about the shot (a 10⁹ s exposure, a photo taken in the year 10007)
 function plausibleExif(exif: ProbedPhoto['exif']): ProbedPhoto['exif'] {
   const out: ProbedPhoto['exif'] = {};
-  const within = (v: number | undefined, lo: number, hi: number) => typeof v === 'number' && Number.isFinite(v) && v >= lo && v <= hi;
-  if (within(exif.exposureTime, 1e-6, 3600)) out.exposureTime = exif.exposureTime;
-  if (within(exif.fNumber, 0.5, 256)) out.fNumber = exif.fNumber;
-  if (within(exif.iso, 1, 1e7)) out.iso = exif.iso;
-  if (within(exif.orientation, 1, 8)) out.orientation = exif.orientation;
-  const text = (v: string | undefined) => (v ? v.replace(/[\u0000-\u001f\u007f]/g, '').trim().slice(0, 80) || undefined : undefined);
-  const make = text(exif.make);
-  const model = text(exif.model);
-  const lens = text(exif.lens);
+  if (withinBounds(exif.exposureTime, EXIF_BOUNDS.exposureTime)) out.exposureTime = exif.exposureTime;
+  if (withinBounds(exif.fNumber, EXIF_BOUNDS.fNumber)) out.fNumber = exif.fNumber;
+  if (withinBounds(exif.iso, EXIF_BOUNDS.iso)) out.iso = exif.iso;
+  if (withinBounds(exif.orientation, EXIF_BOUNDS.orientation)) out.orientation = exif.orientation;
+  const make = exifText(exif.make);
+  const model = exifText(exif.model);
+  const lens = exifText(exif.lens);
   if (make) out.make = make;
   if (model) out.model = model;
   if (lens) out.lens = lens;

@@ -108,6 +108,19 @@ describe('hostile files', () => {
     expect(photo.exif.model ?? '').not.toMatch(/[\u0000-\u001f]/);
   });
 
+  it('gives the engine none of the values no camera produces; the analysis runs and says exposure is unknown', async () => {
+    const f = corpus.find((c) => c.name === 'absurd-exif.jpg') as HostileFile;
+    const tags = await m.image.readExposureTags(f.bytes);
+    expect(tags?.exposureTime).toBeUndefined();
+    expect(tags?.fNumber).toBeUndefined();
+    expect((tags?.make ?? '').length).toBeLessThanOrEqual(80);
+    // the absurd photo against an ordinary one: equal exposure assumed, and said so
+    const plain = await sharp(f.bytes).jpeg({ quality: 90 }).toBuffer();
+    const { result } = await m.image.analyzeFiles({ on: { name: 'on.jpg', bytes: f.bytes }, off: { name: 'off.jpg', bytes: plain }, screen: { x: 100, y: 80, w: 120, h: 80 }, ghostOffset: 'none', artifacts: false });
+    expect(result.warnings.map((w) => w.code)).toContain('exposure-unknown');
+    expect(Number.isFinite(result.ambientContrastRatio ?? 1)).toBe(true);
+  });
+
   it('are each refused by the engine with its input error, not a crash', async () => {
     const off = { name: 'off.jpg', bytes: capture.off };
     const ambient = { name: 'ambient.jpg', bytes: capture.ambient };
