@@ -1,43 +1,89 @@
 'use client';
 
 import { useActionState } from 'react';
+import { deleteCaptureSetAction, updateCaptureSetAction } from '@/app/(lab)/captures/[captureId]/actions';
 import { createCaptureSetAction } from '@/app/(lab)/projects/[projectId]/revisions/actions';
 import { FormStatus, keepValues, SelectField, TextArea } from '@/components/revisions/revision-forms';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import type { FormState } from '@/lib/auth/action';
 
+type Values = { label?: string; variant?: string; pattern?: string; ambientLux?: number; backgroundCdm2?: number; displayLevel?: string; notes?: string };
+
+/** The fields of a capture set, shared by the new and the edit form. */
+function CaptureSetFields({ errors: e, values: v }: { errors: Record<string, string[]>; values: Values }) {
+  return (
+    <div className="grid gap-3 sm:grid-cols-3">
+      <Field label="Label" name="label" placeholder="e.g. Window light, 0°" defaultValue={v.label} errors={e.label} maxLength={120} />
+      <Field label="Variant (for A/B)" name="variant" placeholder="e.g. with polarizer" defaultValue={v.variant} errors={e.variant} maxLength={80} />
+      <SelectField
+        label="Pattern on the display"
+        name="pattern"
+        defaultValue={v.pattern}
+        options={[
+          { value: 'full', label: 'Full-field white' },
+          { value: 'checkerboard', label: '4 × 4 checkerboard' },
+        ]}
+        errors={e.pattern}
+      />
+      <Field label="Ambient illuminance (lx)" name="ambientLux" inputMode="decimal" placeholder="if measured" defaultValue={v.ambientLux} errors={e.ambientLux} />
+      <Field label="Background luminance (cd/m²)" name="backgroundCdm2" inputMode="decimal" placeholder="if measured" defaultValue={v.backgroundCdm2} errors={e.backgroundCdm2} />
+      <Field label="Display level" name="displayLevel" placeholder="e.g. 80 % brightness" defaultValue={v.displayLevel} errors={e.displayLevel} maxLength={80} />
+      <div className="sm:col-span-3">
+        <TextArea label="Notes" name="notes" defaultValue={v.notes} errors={e.notes} />
+      </div>
+    </div>
+  );
+}
+
 export function CreateCaptureSetForm({ revisionId }: { revisionId: string }) {
   const [state, action, pending] = useActionState<FormState, FormData>(createCaptureSetAction, {});
-  const e = state.fieldErrors ?? {};
   return (
     <form onSubmit={keepValues(action)} className="space-y-3" noValidate aria-label="New capture set">
       <input type="hidden" name="revisionId" value={revisionId} />
-      <div className="grid gap-3 sm:grid-cols-3">
-        <Field label="Label" name="label" placeholder="e.g. Window light, 0°" errors={e.label} maxLength={120} />
-        <Field label="Variant (for A/B)" name="variant" placeholder="e.g. with polarizer" errors={e.variant} maxLength={80} />
-        <SelectField
-          label="Pattern on the display"
-          name="pattern"
-          options={[
-            { value: 'full', label: 'Full-field white' },
-            { value: 'checkerboard', label: '4 × 4 checkerboard' },
-          ]}
-          errors={e.pattern}
-        />
-        <Field label="Ambient illuminance (lx)" name="ambientLux" inputMode="decimal" placeholder="if measured" errors={e.ambientLux} />
-        <Field label="Background luminance (cd/m²)" name="backgroundCdm2" inputMode="decimal" placeholder="if measured" errors={e.backgroundCdm2} />
-        <Field label="Display level" name="displayLevel" placeholder="e.g. 80 % brightness" errors={e.displayLevel} maxLength={80} />
-        <div className="sm:col-span-3">
-          <TextArea label="Notes" name="notes" errors={e.notes} />
-        </div>
-      </div>
+      <CaptureSetFields errors={state.fieldErrors ?? {}} values={{}} />
       <div className="flex items-center gap-3">
         <Button type="submit" disabled={pending}>
           {pending ? 'Creating…' : 'Create capture set'}
         </Button>
         <FormStatus state={state} />
       </div>
+    </form>
+  );
+}
+
+export function EditCaptureSetForm({ id, values }: { id: string; values: Values }) {
+  const [state, action, pending] = useActionState<FormState, FormData>(updateCaptureSetAction, {});
+  return (
+    <form onSubmit={keepValues(action)} className="space-y-3" noValidate aria-label="Edit capture set">
+      <input type="hidden" name="id" value={id} />
+      <CaptureSetFields errors={state.fieldErrors ?? {}} values={values} />
+      <p className="text-xs text-muted">A changed pattern or region applies from the next analysis; earlier readings keep what they were measured with.</p>
+      <div className="flex items-center gap-3">
+        <Button type="submit" tone="quiet" disabled={pending}>
+          {pending ? 'Saving…' : 'Save capture set'}
+        </Button>
+        <FormStatus state={state} />
+      </div>
+    </form>
+  );
+}
+
+export function DeleteCaptureSetForm({ id, label }: { id: string; label: string }) {
+  const [state, action, pending] = useActionState<FormState, FormData>(deleteCaptureSetAction, {});
+  return (
+    <form
+      action={action}
+      onSubmit={(e) => {
+        if (!window.confirm(`Delete “${label}” with its photos, analyses and readings? This cannot be undone.`)) e.preventDefault();
+      }}
+      className="flex items-center gap-3"
+    >
+      <input type="hidden" name="id" value={id} />
+      <Button type="submit" tone="danger" disabled={pending}>
+        {pending ? 'Deleting…' : 'Delete capture set'}
+      </Button>
+      <FormStatus state={state} />
     </form>
   );
 }

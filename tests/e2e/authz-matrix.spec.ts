@@ -82,6 +82,8 @@ const ACTIONS: Record<string, Access> = {
   createRevisionAction: 'revision.write',
   updateRevisionAction: 'revision.write',
   createCaptureSetAction: 'capture.write',
+  updateCaptureSetAction: 'capture.write',
+  deleteCaptureSetAction: 'capture.delete',
   saveStackAction: 'stack.write',
   createTargetAction: 'target.write',
   updateTargetAction: 'target.write',
@@ -291,10 +293,13 @@ test('server actions with another lab’s ids find nothing and change nothing', 
   const db = getDb();
   const tester = await db('users').where({ email: 'tester@example.test' }).first('id');
   const before = await db('projects').where({ id: ids.projectId }).first('name');
+  const captureBefore = await db('capture_sets').where({ id: ids.captureId }).first('label');
   const outsider = clients.get('outsider')!;
   const cases: [string, Record<string, string>][] = [
     ['renameProjectAction', { id: ids.projectId!, name: 'Taken over' }],
     ['deleteProjectAction', { id: ids.projectId! }],
+    ['updateCaptureSetAction', { id: ids.captureId!, label: 'Taken over' }],
+    ['deleteCaptureSetAction', { id: ids.captureId! }],
     ['changeRoleAction', { userId: tester.id, role: 'admin' }],
     ['removeMemberAction', { userId: tester.id }],
   ];
@@ -304,5 +309,6 @@ test('server actions with another lab’s ids find nothing and change nothing', 
     expect(state?.message ?? '', name).toMatch(/No such/);
   }
   expect((await db('projects').where({ id: ids.projectId }).first('name')).name).toBe(before.name);
+  expect((await db('capture_sets').where({ id: ids.captureId }).first('label'))?.label, 'capture set untouched').toBe(captureBefore.label);
   expect(await db('memberships').where({ user_id: tester.id }).pluck('role')).toContain('tester');
 });

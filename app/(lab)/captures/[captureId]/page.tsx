@@ -1,6 +1,7 @@
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { AnalysisRunner } from '@/components/capture/analysis-runner';
+import { DeleteCaptureSetForm, EditCaptureSetForm } from '@/components/capture/capture-set-form';
 import { ProtocolChecklist } from '@/components/capture/protocol-checklist';
 import { QueryProvider } from '@/components/capture/query-provider';
 import { ReadingsPanel } from '@/components/capture/readings-panel';
@@ -29,6 +30,7 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
   const on = photos.find((p) => p.role === 'on');
   const hasOff = photos.some((p) => p.role === 'off');
   const canWrite = can(actor.role, 'capture.write');
+  const canDelete = can(actor.role, 'capture.delete');
   const c = set.conditions;
   const conditions = [
     c.ambientLux !== undefined ? `${c.ambientLux} lx ambient` : null,
@@ -84,6 +86,24 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
             <ReadingsPanel reading={reading} analyses={analyses} captureSetId={set.id} selectedId={reading?.analysisId ?? null} />
           </div>
         </Panel>
+        {canWrite || canDelete ? (
+          <Panel title="Capture set details">
+            <div className="space-y-5">
+              {canWrite ? (
+                <details>
+                  <summary className="cursor-pointer text-sm text-beam">Edit label, variant, pattern and conditions</summary>
+                  <div className="mt-3">
+                    <EditCaptureSetForm
+                      id={set.id}
+                      values={{ label: set.label, variant: set.variant, pattern: set.pattern, ambientLux: c.ambientLux, backgroundCdm2: c.backgroundCdm2, displayLevel: c.displayLevel, notes: set.notes }}
+                    />
+                  </div>
+                </details>
+              ) : null}
+              {canDelete ? <DeleteCaptureSetForm id={set.id} label={set.label} /> : null}
+            </div>
+          </Panel>
+        ) : null}
       </div>
     </QueryProvider>
   );
