@@ -30,6 +30,35 @@ function crossing(profile: Float64Array, reach: number): number {
 }
 
 /**
+ * The mean of D = on − off over `rect`, one value per pixel across the edge: per row when `alongX`
+ * (a strip lying along x, read downwards), else per column. Null when the strip leaves the image
+ * or a line of it holds no pixel of both photos.
+ */
+function meanAcross(on: EdgeSource, off: EdgeSource, rect: Rect, alongX: boolean): Float64Array | null {
+  const { width: W, height: H } = on.raster;
+  if (rect.w < 1 || rect.h < 1 || rect.x < 0 || rect.y < 0 || rect.x + rect.w > W || rect.y + rect.h > H) return null;
+  const a = luminanceCrop(on.raster, rect, on.offset, on.scale).plane.data;
+  const b = luminanceCrop(off.raster, rect, off.offset, off.scale).plane.data;
+  const n = alongX ? rect.h : rect.w;
+  const sums = new Float64Array(n);
+  const counts = new Float64Array(n);
+  for (let j = 0; j < rect.h; j++) {
+    for (let i = 0; i < rect.w; i++) {
+      const v = (a[j * rect.w + i] as number) - (b[j * rect.w + i] as number);
+      if (v !== v) continue;
+      const k = alongX ? j : i;
+      sums[k] = (sums[k] as number) + v;
+      counts[k] = (counts[k] as number) + 1;
+    }
+  }
+  for (let k = 0; k < n; k++) {
+    if (!((counts[k] as number) > 0)) return null;
+    sums[k] = (sums[k] as number) / (counts[k] as number);
+  }
+  return sums;
+}
+
+/**
  * The detected screen's edges moved to full resolution. Detection works on blocks of `factor`
  * pixels, so each edge it finds can be off by up to a block; a block straddling the edge is then
  * left out or taken in. Here, for each edge, the mean of D = on − off over the middle half of the
@@ -38,38 +67,8 @@ function crossing(profile: Float64Array, reach: number): number {
  */
 export function refineScreenEdges(screen: Rect, on: EdgeSource, off: EdgeSource, factor: number): Rect {
   if (factor <= 1) return { ...screen };
-  const W = on.raster.width;
-  const H = on.raster.height;
   const reach = 2 * factor;
-  // D over a strip, averaged along the edge: one value per pixel across it
-  const profileAcross = (strip: Rect, alongX: boolean): Float64Array | null => {
-    const x0 = Math.max(0, strip.x);
-    const y0 = Math.max(0, strip.y);
-    const x1 = Math.min(W, strip.x + strip.w);
-    const y1 = Math.min(H, strip.y + strip.h);
-    if (x1 - x0 < 1 || y1 - y0 < 1) return null;
-    const rect = { x: x0, y: y0, w: x1 - x0, h: y1 - y0 };
-    if (alongX ? rect.h !== strip.h : rect.w !== strip.w) return null;
-    const a = luminanceCrop(on.raster, rect, on.offset, on.scale).plane.data;
-    const b = luminanceCrop(off.raster, rect, off.offset, off.scale).plane.data;
-    const n = alongX ? rect.h : rect.w;
-    const sums = new Float64Array(n);
-    const counts = new Float64Array(n);
-    for (let j = 0; j < rect.h; j++) {
-      for (let i = 0; i < rect.w; i++) {
-        const v = (a[j * rect.w + i] as number) - (b[j * rect.w + i] as number);
-        if (v !== v) continue;
-        const k = alongX ? j : i;
-        sums[k] = (sums[k] as number) + v;
-        counts[k] = (counts[k] as number) + 1;
-      }
-    }
-    for (let k = 0; k < n; k++) {
-      if (!((counts[k] as number) > 0)) return null;
-      sums[k] = (sums[k] as number) / (counts[k] as number);
-    }
-    return sums;
-  };
+  const profileAcross = (strip: Rect, alongX: boolean) => meanAcross(on, off, strip, alongX);
   const midX = { x: screen.x + Math.floor(screen.w / 4), w: Math.max(1, Math.floor(screen.w / 2)) };
   const midY = { y: screen.y + Math.floor(screen.h / 4), h: Math.max(1, Math.floor(screen.h / 2)) };
   let top = screen.y;
@@ -111,31 +110,8 @@ export function refineScreenEdges(screen: Rect, on: EdgeSource, off: EdgeSource,
  */
 export function refineGhostOffset(screen: Rect, offset: Offset, on: EdgeSource, off: EdgeSource, factor: number): Offset {
   if (factor <= 1) return { ...offset };
-  const W = on.raster.width;
-  const H = on.raster.height;
   const reach = 2 * factor;
-  const meanAcross = (rect: Rect, alongX: boolean): Float64Array | null => {
-    if (rect.x < 0 || rect.y < 0 || rect.x + rect.w > W || rect.y + rect.h > H || rect.w < 1 || rect.h < 1) return null;
-    const a = luminanceCrop(on.raster, rect, on.offset, on.scale).plane.data;
-    const b = luminanceCrop(off.raster, rect, off.offset, off.scale).plane.data;
-    const n = alongX ? rect.h : rect.w;
-    const sums = new Float64Array(n);
-    const counts = new Float64Array(n);
-    for (let j = 0; j < rect.h; j++) {
-      for (let i = 0; i < rect.w; i++) {
-        const v = (a[j * rect.w + i] as number) - (b[j * rect.w + i] as number);
-        if (v !== v) continue;
-        const k = alongX ? j : i;
-        sums[k] = (sums[k] as number) + v;
-        counts[k] = (counts[k] as number) + 1;
-      }
-    }
-    for (let k = 0; k < n; k++) {
-      if (!((counts[k] as number) > 0)) return null;
-      sums[k] = (sums[k] as number) / (counts[k] as number);
-    }
-    return sums;
-  };
+  const strip = (rect: Rect, alongX: boolean) => meanAcross(on, off, rect, alongX);
   // the middle half of the span [a, b) (where the ghost lies beside the screen), or null
   const middle = (a: number, b: number): [number, number] | null => {
     const len = b - a;
@@ -149,12 +125,12 @@ export function refineGhostOffset(screen: Rect, offset: Offset, on: EdgeSource, 
       const [y, h] = rows;
       if (offset.dx > 0) {
         const x0 = screen.x + screen.w + offset.dx - reach;
-        const p = meanAcross({ x: x0, y, w: 2 * reach, h }, false);
+        const p = strip({ x: x0, y, w: 2 * reach, h }, false);
         const i = p ? crossing(p.slice().reverse(), factor) : -1;
         if (i >= 0) dx = x0 + 2 * reach - i - (screen.x + screen.w);
       } else {
         const x0 = screen.x + offset.dx - reach;
-        const p = meanAcross({ x: x0, y, w: 2 * reach, h }, false);
+        const p = strip({ x: x0, y, w: 2 * reach, h }, false);
         const i = p ? crossing(p, factor) : -1;
         if (i >= 0) dx = x0 + i - screen.x;
       }
@@ -166,12 +142,12 @@ export function refineGhostOffset(screen: Rect, offset: Offset, on: EdgeSource, 
       const [x, w] = cols;
       if (offset.dy > 0) {
         const y0 = screen.y + screen.h + offset.dy - reach;
-        const p = meanAcross({ x, y: y0, w, h: 2 * reach }, true);
+        const p = strip({ x, y: y0, w, h: 2 * reach }, true);
         const i = p ? crossing(p.slice().reverse(), factor) : -1;
         if (i >= 0) dy = y0 + 2 * reach - i - (screen.y + screen.h);
       } else {
         const y0 = screen.y + offset.dy - reach;
-        const p = meanAcross({ x, y: y0, w, h: 2 * reach }, true);
+        const p = strip({ x, y: y0, w, h: 2 * reach }, true);
         const i = p ? crossing(p, factor) : -1;
         if (i >= 0) dy = y0 + i - screen.y;
       }
