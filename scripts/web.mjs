@@ -8,9 +8,10 @@ import { availableParallelism } from 'node:os';
 import compression from 'compression';
 import next from 'next';
 
-// the two header names of lib/cache/read-cache.ts (PRECOMPRESSED_OK, ENCODING_HEADER)
+// the header names of lib/cache/read-cache.ts (PRECOMPRESSED_OK, ENCODING_HEADER, LENGTH_HEADER)
 const PRECOMPRESSED_OK = 'x-veilmeter-precompressed';
 const ENCODING = 'x-veilmeter-encoding';
+const LENGTH = 'x-veilmeter-length';
 
 function option(flag, fallback) {
   const i = process.argv.indexOf(flag);
@@ -64,6 +65,12 @@ if (cluster.isPrimary && copies > 1) {
         if (encoding) {
           res.removeHeader(ENCODING);
           res.setHeader('content-encoding', encoding);
+        }
+        const length = res.getHeader(LENGTH);
+        if (length !== undefined) {
+          res.removeHeader(LENGTH);
+          // a length is only true of the bytes as sent: not when compressing here, and not for HEAD
+          if (!res.getHeader('transfer-encoding') && req.method !== 'HEAD') res.setHeader('content-length', length);
         }
         return writeHead.apply(this, args);
       };

@@ -72,6 +72,8 @@ export function acceptsGzip(req: Request): boolean {
  */
 export const PRECOMPRESSED_OK = 'x-veilmeter-precompressed';
 export const ENCODING_HEADER = 'x-veilmeter-encoding';
+/** Likewise for Content-Length, which Next.js also drops: a known length spares chunked framing. */
+export const LENGTH_HEADER = 'x-veilmeter-length';
 
 /**
  * A cached body as a response: gzip-compressed once per body (and then kept beside it) for clients
@@ -79,9 +81,11 @@ export const ENCODING_HEADER = 'x-veilmeter-encoding';
  */
 export function cachedAnswer(req: Request, cached: CachedBody, headers: Record<string, string>): Response {
   const vary = { ...headers, vary: 'accept-encoding' };
-  if (cached.body.byteLength >= 1024 && req.headers.get(PRECOMPRESSED_OK) === '1' && acceptsGzip(req)) {
+  const viaWebServer = req.headers.get(PRECOMPRESSED_OK) === '1';
+  const length = (bytes: Uint8Array): Record<string, string> => (viaWebServer ? { [LENGTH_HEADER]: String(bytes.byteLength) } : {});
+  if (cached.body.byteLength >= 1024 && viaWebServer && acceptsGzip(req)) {
     cached.gzip ??= new Uint8Array(gzipSync(cached.body, { level: 6 }));
-    return new Response(cached.gzip, { status: 200, headers: { ...vary, [ENCODING_HEADER]: 'gzip' } });
+    return new Response(cached.gzip, { status: 200, headers: { ...vary, ...length(cached.gzip), [ENCODING_HEADER]: 'gzip' } });
   }
-  return new Response(cached.body, { status: 200, headers: vary });
+  return new Response(cached.body, { status: 200, headers: { ...vary, ...length(cached.body) } });
 }

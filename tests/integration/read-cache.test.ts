@@ -269,6 +269,11 @@ describe('compressed answers', () => {
       expect(zipped.headers.get('x-veilmeter-encoding')).toBe('gzip');
       expect(zipped.bytes.length).toBeLessThan(plain.bytes.length);
       expect(gunzipSync(zipped.bytes).equals(plain.bytes)).toBe(true);
+      // the length the web server turns into Content-Length is that of the bytes sent
+      expect(zipped.headers.get('x-veilmeter-length')).toBe(String(zipped.bytes.length));
+      const plainVia = await get({ ...ok });
+      expect(plainVia.headers.get('x-veilmeter-length')).toBe(String(plain.bytes.length));
+      expect(plain.headers.get('x-veilmeter-length')).toBeNull();
       // the same compressed bytes the second time, and none for a client that refuses gzip
       expect((await get({ ...ok, 'accept-encoding': 'gzip' })).bytes.equals(zipped.bytes)).toBe(true);
       expect((await get({ ...ok, 'accept-encoding': 'gzip;q=0, deflate' })).headers.get('x-veilmeter-encoding')).toBeNull();
