@@ -3,7 +3,7 @@ import { deltaE2000 } from './ciede2000';
 import { chromaticity, linearRgbToXyz, xyzToLab, D65_WHITE } from './color';
 import { contrastRatio, michelson } from './contrast';
 import { luminanceCrop } from './crop';
-import { refineGhostOffset, refineScreenEdges } from './screen-edges';
+import { refineGhostOffset, refineScreenEdges, type EdgeSource } from './screen-edges';
 import { detectScreen, strided } from './detect-screen';
 import { downsampleLuminance } from './downsample';
 import { EngineInputError } from './errors';
@@ -269,6 +269,10 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     return sigma;
   };
 
+  // the on and the aligned off photo at full resolution, for putting coarse edges to the pixel
+  const edgeOn: EdgeSource = { raster: on, offset: { dx: 0, dy: 0 }, scale: scaleOf('on') };
+  const edgeOff: EdgeSource = { raster: (photos.off as CapturePhoto).raster, offset: registration.off as Offset, scale: scaleOf('off') };
+
   // screen: marked, or detected from D (PRODUCT.md §5.7)
   let screen: Rect;
   let screenSource: 'marked' | 'detected';
@@ -283,10 +287,7 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     const x1 = Math.min(W, (found.x + found.w) * factor);
     const y1 = Math.min(H, (found.y + found.h) * factor);
     const coarse = { x: x0, y: y0, w: x1 - x0, h: y1 - y0 };
-    const offPhoto = photos.off as CapturePhoto;
-    screen = cached(memo, `edges:${diffKey}:${rectKey(coarse)}`, () =>
-      refineScreenEdges(coarse, { raster: on, offset: { dx: 0, dy: 0 }, scale: scaleOf('on') }, { raster: offPhoto.raster, offset: registration.off as Offset, scale: scaleOf('off') }, factor),
-    );
+    screen = cached(memo, `edges:${diffKey}:${rectKey(coarse)}`, () => refineScreenEdges(coarse, edgeOn, edgeOff, factor));
     screenSource = 'detected';
   }
   if (pattern === 'checkerboard' && (screen.w < 8 || screen.h < 8)) {
@@ -317,9 +318,7 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     // on and off at hand: the ghost's own edges put the offset to the pixel
     const offset =
       d === diffSmall && factor > 1
-        ? cached(memo, `ghostfine:${diffKey}:${rectKey(screen)}:${coarse.dx},${coarse.dy}`, () =>
-            refineGhostOffset(screen, coarse, { raster: on, offset: { dx: 0, dy: 0 }, scale: scaleOf('on') }, { raster: (photos.off as CapturePhoto).raster, offset: registration.off as Offset, scale: scaleOf('off') }, factor),
-          )
+        ? cached(memo, `ghostfine:${diffKey}:${rectKey(screen)}:${coarse.dx},${coarse.dy}`, () => refineGhostOffset(screen, coarse, edgeOn, edgeOff, factor))
         : coarse;
     if (Math.hypot(offset.dx, offset.dy) < 2) return null;
     return { offset, source: 'detected', snr: c.snr };

@@ -59,6 +59,20 @@ function meanAcross(on: EdgeSource, off: EdgeSource, rect: Rect, alongX: boolean
 }
 
 /**
+ * Where the step in `rect` lies, read across it (rows when `alongX`, else columns): with `rising`,
+ * the strip goes from outside to inside and the answer is the first inside line; otherwise it goes
+ * from inside to outside and the answer is one past the last inside line. Both are offsets from
+ * the strip's start, or null without a clean strip or a clear step.
+ */
+function stepIn(on: EdgeSource, off: EdgeSource, rect: Rect, alongX: boolean, rising: boolean, factor: number): number | null {
+  const p = meanAcross(on, off, rect, alongX);
+  if (!p) return null;
+  const i = crossing(rising ? p : p.slice().reverse(), factor);
+  if (i < 0) return null;
+  return rising ? i : p.length - i;
+}
+
+/**
  * The detected screen's edges moved to full resolution. Detection works on blocks of `factor`
  * pixels, so each edge it finds can be off by up to a block; a block straddling the edge is then
  * left out or taken in. Here, for each edge, the mean of D = on − off over the middle half of the
@@ -68,35 +82,17 @@ function meanAcross(on: EdgeSource, off: EdgeSource, rect: Rect, alongX: boolean
 export function refineScreenEdges(screen: Rect, on: EdgeSource, off: EdgeSource, factor: number): Rect {
   if (factor <= 1) return { ...screen };
   const reach = 2 * factor;
-  const profileAcross = (strip: Rect, alongX: boolean) => meanAcross(on, off, strip, alongX);
   const midX = { x: screen.x + Math.floor(screen.w / 4), w: Math.max(1, Math.floor(screen.w / 2)) };
   const midY = { y: screen.y + Math.floor(screen.h / 4), h: Math.max(1, Math.floor(screen.h / 2)) };
-  let top = screen.y;
-  let bottom = screen.y + screen.h;
-  let left = screen.x;
-  let right = screen.x + screen.w;
-  // top: rows from above the edge downwards
-  const t = profileAcross({ ...midX, y: screen.y - reach, h: 2 * reach }, true);
-  if (t) {
-    const i = crossing(t, factor);
-    if (i >= 0) top = screen.y - reach + i;
-  }
-  // bottom: rows from below the edge upwards
-  const bRaw = profileAcross({ ...midX, y: screen.y + screen.h - reach, h: 2 * reach }, true);
-  if (bRaw) {
-    const i = crossing(bRaw.slice().reverse(), factor);
-    if (i >= 0) bottom = screen.y + screen.h + reach - i;
-  }
-  const l = profileAcross({ ...midY, x: screen.x - reach, w: 2 * reach }, false);
-  if (l) {
-    const i = crossing(l, factor);
-    if (i >= 0) left = screen.x - reach + i;
-  }
-  const rRaw = profileAcross({ ...midY, x: screen.x + screen.w - reach, w: 2 * reach }, false);
-  if (rRaw) {
-    const i = crossing(rRaw.slice().reverse(), factor);
-    if (i >= 0) right = screen.x + screen.w + reach - i;
-  }
+  // each strip starts `reach` before the detected edge; top and left rise into the screen, bottom and right fall out of it
+  const edge = (at: number, strip: Rect, alongX: boolean, rising: boolean): number => {
+    const k = stepIn(on, off, strip, alongX, rising, factor);
+    return k === null ? at : at - reach + k;
+  };
+  const top = edge(screen.y, { ...midX, y: screen.y - reach, h: 2 * reach }, true, true);
+  const bottom = edge(screen.y + screen.h, { ...midX, y: screen.y + screen.h - reach, h: 2 * reach }, true, false);
+  const left = edge(screen.x, { ...midY, x: screen.x - reach, w: 2 * reach }, false, true);
+  const right = edge(screen.x + screen.w, { ...midY, x: screen.x + screen.w - reach, w: 2 * reach }, false, false);
   if (!(right - left >= 1 && bottom - top >= 1)) return { ...screen };
   return { x: left, y: top, w: right - left, h: bottom - top };
 }
@@ -111,47 +107,23 @@ export function refineScreenEdges(screen: Rect, on: EdgeSource, off: EdgeSource,
 export function refineGhostOffset(screen: Rect, offset: Offset, on: EdgeSource, off: EdgeSource, factor: number): Offset {
   if (factor <= 1) return { ...offset };
   const reach = 2 * factor;
-  const strip = (rect: Rect, alongX: boolean) => meanAcross(on, off, rect, alongX);
   // the middle half of the span [a, b) (where the ghost lies beside the screen), or null
   const middle = (a: number, b: number): [number, number] | null => {
     const len = b - a;
     if (len < 4) return null;
     return [a + Math.floor(len / 4), Math.floor(len / 2)];
   };
-  let { dx, dy } = offset;
-  if (Math.abs(offset.dx) > reach + 2) {
-    const rows = middle(Math.max(screen.y, screen.y + offset.dy), Math.min(screen.y + screen.h, screen.y + screen.h + offset.dy));
-    if (rows) {
-      const [y, h] = rows;
-      if (offset.dx > 0) {
-        const x0 = screen.x + screen.w + offset.dx - reach;
-        const p = strip({ x: x0, y, w: 2 * reach, h }, false);
-        const i = p ? crossing(p.slice().reverse(), factor) : -1;
-        if (i >= 0) dx = x0 + 2 * reach - i - (screen.x + screen.w);
-      } else {
-        const x0 = screen.x + offset.dx - reach;
-        const p = strip({ x: x0, y, w: 2 * reach, h }, false);
-        const i = p ? crossing(p, factor) : -1;
-        if (i >= 0) dx = x0 + i - screen.x;
-      }
-    }
-  }
-  if (Math.abs(offset.dy) > reach + 2) {
-    const cols = middle(Math.max(screen.x, screen.x + offset.dx), Math.min(screen.x + screen.w, screen.x + screen.w + offset.dx));
-    if (cols) {
-      const [x, w] = cols;
-      if (offset.dy > 0) {
-        const y0 = screen.y + screen.h + offset.dy - reach;
-        const p = strip({ x, y: y0, w, h: 2 * reach }, true);
-        const i = p ? crossing(p.slice().reverse(), factor) : -1;
-        if (i >= 0) dy = y0 + 2 * reach - i - (screen.y + screen.h);
-      } else {
-        const y0 = screen.y + offset.dy - reach;
-        const p = strip({ x, y: y0, w, h: 2 * reach }, true);
-        const i = p ? crossing(p, factor) : -1;
-        if (i >= 0) dy = y0 + i - screen.y;
-      }
-    }
-  }
+  // beyond a positive offset the ghost's far edge falls out of it; before a negative one its near edge rises into it
+  const component = (d: number, screenStart: number, screenEnd: number, strip: (start: number) => Rect | null, alongX: boolean): number => {
+    if (Math.abs(d) <= reach + 2) return d;
+    const edgeAt = d > 0 ? screenEnd + d : screenStart + d;
+    const rect = strip(edgeAt - reach);
+    const k = rect ? stepIn(on, off, rect, alongX, d < 0, factor) : null;
+    return k === null ? d : edgeAt - reach + k - (d > 0 ? screenEnd : screenStart);
+  };
+  const rows = middle(Math.max(screen.y, screen.y + offset.dy), Math.min(screen.y + screen.h, screen.y + screen.h + offset.dy));
+  const cols = middle(Math.max(screen.x, screen.x + offset.dx), Math.min(screen.x + screen.w, screen.x + screen.w + offset.dx));
+  const dx = component(offset.dx, screen.x, screen.x + screen.w, (x) => (rows ? { x, y: rows[0], w: 2 * reach, h: rows[1] } : null), false);
+  const dy = component(offset.dy, screen.y, screen.y + screen.h, (y) => (cols ? { x: cols[0], y, w: cols[1], h: 2 * reach } : null), true);
   return { dx, dy };
 }

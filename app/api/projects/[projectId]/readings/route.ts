@@ -1,8 +1,8 @@
 import { z } from 'zod';
-import { getProjectDataVersion, listNewestReadingsPage } from '@/db/queries/trends';
+import { listNewestReadingsPage } from '@/db/queries/trends';
 import { withAuth } from '@/lib/auth/with-auth';
-import { cachedAnswer, cachedBody } from '@/lib/cache/read-cache';
-import { AppError, notFound, zodFieldErrors } from '@/lib/errors';
+import { projectAnswer } from '@/lib/cache/project-answer';
+import { AppError, zodFieldErrors } from '@/lib/errors';
 import { idOr404 } from '@/lib/reports/http';
 
 const HEADERS = { 'content-type': 'application/json', 'cache-control': 'private, no-store' };
@@ -21,14 +21,10 @@ export const GET = withAuth<{ projectId: string }>(
     const parsed = pageSchema.safeParse({ limit: q.get('limit') ?? undefined, offset: q.get('offset') ?? undefined });
     if (!parsed.success) throw new AppError(422, 'The page asked for is not valid', 'invalid', zodFieldErrors(parsed.error));
     const page = parsed.data;
-    // the fingerprint is read before the data, so a cached page is never older than its key
-    const version = await getProjectDataVersion(actor.labId, projectId);
-    if (!version) throw notFound('No such project');
-    const cached = await cachedBody(`readings:${page.limit}:${page.offset}`, actor.labId, projectId, version, async () => {
+    return projectAnswer(req, actor.labId, projectId, `readings:${page.limit}:${page.offset}`, () => HEADERS, async () => {
       const { readings, total } = await listNewestReadingsPage(actor.labId, projectId, page);
       return { body: Buffer.from(JSON.stringify({ readings, total, limit: page.limit, offset: page.offset })), meta: {} };
     });
-    return cachedAnswer(req, cached, HEADERS);
   },
   { permission: 'project.read' },
 );

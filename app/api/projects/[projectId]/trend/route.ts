@@ -1,7 +1,7 @@
 import { listTargets } from '@/db/queries/targets';
-import { getProjectDataVersion, getProjectTrend } from '@/db/queries/trends';
+import { getProjectTrend } from '@/db/queries/trends';
 import { withAuth } from '@/lib/auth/with-auth';
-import { cachedAnswer, cachedBody } from '@/lib/cache/read-cache';
+import { projectAnswer } from '@/lib/cache/project-answer';
 import { AppError, notFound } from '@/lib/errors';
 import { METRIC_KEYS, type MetricKey } from '@/lib/targets/metrics';
 import { idOr404 } from '@/lib/reports/http';
@@ -17,10 +17,7 @@ export const GET = withAuth<{ projectId: string }>(
       throw new AppError(422, `Unknown metric "${asked.slice(0, 60)}"`, 'invalid', { metric: [`Use one of: ${METRIC_KEYS.join(', ')}`] });
     }
     const metric = asked as MetricKey | null;
-    // the fingerprint is read before the data, so a cached body is never older than its key
-    const version = await getProjectDataVersion(actor.labId, projectId);
-    if (!version) throw notFound('No such project');
-    const cached = await cachedBody(metric ? `trend:${metric}` : 'trend', actor.labId, projectId, version, async () => {
+    return projectAnswer(req, actor.labId, projectId, metric ? `trend:${metric}` : 'trend', () => HEADERS, async () => {
       const trend = await getProjectTrend(actor.labId, projectId);
       if (!trend) throw notFound('No such project');
       const all = await listTargets(actor.labId, projectId);
@@ -28,7 +25,6 @@ export const GET = withAuth<{ projectId: string }>(
       const targets = metric ? all.filter((t) => t.metric === metric) : all;
       return { body: Buffer.from(JSON.stringify({ revisions: trend.revisions, trends, targets })), meta: {} };
     });
-    return cachedAnswer(req, cached, HEADERS);
   },
   { permission: 'project.read' },
 );
