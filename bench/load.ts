@@ -253,27 +253,28 @@ async function main(): Promise<void> {
   // first, so the figures are of a running server rather than of its first requests
   // the readings list is read a page of 50 at a time, spread over all 40 pages as people paging do
   const pages = Array.from({ length: SETS / 50 }, (_, k) => `/api/projects/${projectId}/readings?limit=50&offset=${k * 50}`);
-  const routes: [string, string[]][] = [
-    ['readings list (/api/projects/:id/readings, 50 a page)', pages],
-    ['trend of one metric (/trend?metric=…, one chart)', [`/api/projects/${projectId}/trend?metric=ambientContrastRatio`]],
-    ['trend of all 7 metrics (/api/projects/:id/trend)', [`/api/projects/${projectId}/trend`]],
-    ['status polling (/api/analyses/:id)', analysisIds.map((id) => `/api/analyses/${id}`)],
-    ['whole CSV export (readings.csv, 2,000 rows)', [`/api/projects/${projectId}/readings.csv`]],
+  // the reads the target is for; the whole CSV export is measured beside them, as a download
+  const routes: [string, string[], boolean][] = [
+    ['readings list (/api/projects/:id/readings, 50 a page)', pages, true],
+    ['trend of one metric (/api/projects/:id/trend?metric=…)', [`/api/projects/${projectId}/trend?metric=ambientContrastRatio`], true],
+    ['trend of all 7 metrics (/api/projects/:id/trend)', [`/api/projects/${projectId}/trend`], true],
+    ['status polling (/api/analyses/:id)', analysisIds.map((id) => `/api/analyses/${id}`), true],
+    ['whole CSV export (readings.csv, 2,000 rows)', [`/api/projects/${projectId}/readings.csv`], false],
   ];
   for (const [name, paths] of routes) await hammer(name, base, cookie, paths, WARM_UP_S);
 
   console.log(`[load] ${CONNECTIONS} connections × ${DURATION} s per route on ${base}, ${WEB_PROCESSES} web process(es)`);
-  const figures: Figures[] = [];
-  for (const [name, paths] of routes) figures.push(await hammer(name, base, cookie, paths));
+  const figures: (Figures & { targeted: boolean })[] = [];
+  for (const [name, paths, targeted] of routes) figures.push({ ...(await hammer(name, base, cookie, paths)), targeted });
   console.log('');
   console.log('| route | requests | req/s | KB per answer | p50 ms | p95 ms | p99 ms | errors | p95 < 150 ms |');
   console.log('| --- | --- | --- | --- | --- | --- | --- | --- | --- |');
-  for (const f of figures) console.log(`| ${f.route} | ${f.requests} | ${f.rps} | ${f.kb} | ${f.p50} | ${f.p95} | ${f.p99} | ${f.errors} | ${f.p95 < TARGET_P95_MS && f.errors === 0 ? 'yes' : 'NO'} |`);
+  for (const f of figures) console.log(`| ${f.route} | ${f.requests} | ${f.rps} | ${f.kb} | ${f.p50} | ${f.p95} | ${f.p99} | ${f.errors} | ${!f.targeted ? '(a download: not a target)' : f.p95 < TARGET_P95_MS && f.errors === 0 ? 'yes' : 'NO'} |`);
 
   console.log(`\n[load] uploading ${TRIPLETS} triplets at once`);
   const burst = await uploadBurst(base, cookie, projectId);
   console.log(`[load] ${burst.accepted}/${TRIPLETS * 3} photos accepted, ${burst.analysed}/${TRIPLETS} analysed, ${burst.lost} lost, ${burst.seconds} s from first upload to last reading`);
-  const ok = figures.every((f) => f.p95 < TARGET_P95_MS && f.errors === 0) && burst.accepted === TRIPLETS * 3 && burst.lost === 0;
+  const ok = figures.every((f) => (!f.targeted || f.p95 < TARGET_P95_MS) && f.errors === 0) && burst.accepted === TRIPLETS * 3 && burst.lost === 0;
   console.log(ok ? '[load] all targets met' : '[load] some targets NOT met');
   process.exitCode = ok ? 0 : 1;
 }

@@ -7,14 +7,7 @@ set -euo pipefail
 cd "$ROOT"
 find_pg_bin
 [ -n "$PG_BIN" ] && [ -x "$PG_BIN/pg_dump" ] || fail "PostgreSQL client binaries not found under /usr/lib/postgresql/*/bin"
-DATA_DIR="${DATA_DIR:-.data}"; mkdir -p "$DATA_DIR"; export DATA_DIR="$(cd "$DATA_DIR" && pwd)"
-if [ -z "${DATABASE_URL:-}" ]; then
-  [ -f "$DATA_DIR/secrets.env" ] || fail "no DATABASE_URL and no $DATA_DIR/secrets.env: set DATABASE_URL or DATA_DIR"
-  set -a; . "$DATA_DIR/secrets.env"; [ -f "$DATA_DIR/run/ports.env" ] && . "$DATA_DIR/run/ports.env"; set +a
-  export PGPORT="${PGPORT:-54329}" REDIS_PORT="${REDIS_PORT:-63799}" PGDATABASE="${PGDATABASE:-veilmeter}" PORT="${PORT:-3000}"
-  . "$ROOT/scripts/env.sh"
-fi
-export STORAGE_DIR="${STORAGE_DIR:-$DATA_DIR/storage}"
+use_local_stack
 
 out="${1:-$DATA_DIR/backups/$(date -u +%Y%m%dT%H%M%SZ)}"
 [ -e "$out/database.dump" ] && fail "$out already holds a backup: pick another folder"

@@ -173,6 +173,19 @@ load_secrets() {
   set -a; . "$f"; set +a
 }
 
+# The settings of the stack npm start made in DATA_DIR (default .data), unless DATABASE_URL is set
+# already (another machine). For the tools run beside it: backup, restore, load.
+use_local_stack() {
+  DATA_DIR="${DATA_DIR:-.data}"; mkdir -p "$DATA_DIR"; export DATA_DIR="$(cd "$DATA_DIR" && pwd)"
+  if [ -z "${DATABASE_URL:-}" ]; then
+    [ -f "$DATA_DIR/secrets.env" ] || fail "no DATABASE_URL and no $DATA_DIR/secrets.env: run npm start first, or set DATABASE_URL or DATA_DIR"
+    set -a; . "$DATA_DIR/secrets.env"; [ -f "$DATA_DIR/run/ports.env" ] && . "$DATA_DIR/run/ports.env"; set +a
+    export PGPORT="${PGPORT:-54329}" REDIS_PORT="${REDIS_PORT:-63799}" PGDATABASE="${PGDATABASE:-veilmeter}" PORT="${PORT:-3000}"
+    . "$ROOT/scripts/env.sh"
+  fi
+  export STORAGE_DIR="${STORAGE_DIR:-$DATA_DIR/storage}"
+}
+
 stop_pidfile() {
   local f="$1" pid
   [ -f "$f" ] || return 0

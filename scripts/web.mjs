@@ -51,9 +51,11 @@ if (cluster.isPrimary && copies > 1) {
   const app = next({ dev: false, hostname, port, dir: process.cwd() });
   const handle = app.getRequestHandler();
   await app.prepare();
-  // gzip for clients that take it, unless the answer is compressed already; below 8 KB a fresh
-  // zlib stream per answer costs the server more than the bytes it saves on a lab network
-  const compress = compression({ threshold: 8192 });
+  // gzip pages and their assets for clients that take it, unless the answer is compressed already;
+  // below 8 KB a fresh zlib stream per answer costs the server more than the bytes it saves on a
+  // lab network. API answers are left alone: Next.js streams them without a length, so the
+  // threshold cannot tell a small one, and the large reads come gzipped from the read cache.
+  const compress = compression({ threshold: 8192, filter: (req, res) => !(req.url ?? '').startsWith('/api/') && compression.filter(req, res) });
   const server = createServer((req, res) => {
     // answers the read cache keeps gzipped come back marked with ENCODING (Next.js drops a
     // handler's own Content-Encoding); only requests forwarded from here may be answered so

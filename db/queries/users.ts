@@ -34,20 +34,33 @@ export async function listMemberships(userId: string): Promise<Membership[]> {
  * A person and their memberships (oldest first, then by lab name, as listMemberships) in one
  * query: what every signed-in request needs. Null when the user is gone.
  */
-export async function getUserWithMemberships(userId: string): Promise<{ user: User; memberships: Membership[] } | null> {
-  const { rows } = await getDb().raw<{ rows: { id: string; email: string; name: string; created_at: Date; lab_id: string | null; lab_name: string | null; role: Role | null }[] }>(
-    `SELECT u.id, u.email, u.name, u.created_at, m.lab_id, l.name AS lab_name, m.role
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+/**
+ * A person and their memberships in one round trip. Given a project id, each membership row also
+ * carries that project's data version when the project is in that lab (what `getProjectDataVersion`
+ * reads), so a cached project read needs no second query.
+ */
+export async function getUserWithMemberships(
+  userId: string,
+  projectId?: string,
+): Promise<{ user: User; memberships: Membership[]; projectVersions: Map<string, string> } | null> {
+  const withProject = projectId !== undefined && UUID.test(projectId);
+  const { rows } = await getDb().raw<{ rows: { id: string; email: string; name: string; created_at: Date; lab_id: string | null; lab_name: string | null; role: Role | null; project_version: string | null }[] }>(
+    `SELECT u.id, u.email, u.name, u.created_at, m.lab_id, l.name AS lab_name, m.role,
+            ${withProject ? `(SELECT p.updated_at::text || '|' || p.data_version::text FROM projects p WHERE p.id = ? AND p.lab_id = m.lab_id)` : 'NULL'} AS project_version
        FROM users u
        LEFT JOIN (memberships m JOIN labs l ON l.id = m.lab_id) ON m.user_id = u.id
       WHERE u.id = ?
       ORDER BY m.created_at, l.name`,
-    [userId],
+    withProject ? [projectId, userId] : [userId],
   );
   const first = rows[0];
   if (!first) return null;
   const user: User = { id: first.id, email: first.email, name: first.name, createdAt: first.created_at };
   const memberships = rows.flatMap((r) => (r.lab_id && r.lab_name !== null && r.role ? [{ labId: r.lab_id, labName: r.lab_name, role: r.role }] : []));
-  return { user, memberships };
+  const projectVersions = new Map(rows.flatMap((r) => (r.lab_id && r.project_version ? [[r.lab_id, r.project_version] as const] : [])));
+  return { user, memberships, projectVersions };
 }
 
 export async function getMembership(userId: string, labId: string): Promise<Membership | null> {

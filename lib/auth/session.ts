@@ -12,8 +12,12 @@ import { sessionUserId } from './session-token';
 
 export { LAB_COOKIE };
 
-/** Who is acting, in which lab, with which role: the role always comes from the database. */
-export type Actor = { user: User; labId: string; labName: string; role: Role; memberships: Membership[] };
+/**
+ * Who is acting, in which lab, with which role: the role always comes from the database. A handler
+ * that names its project up front also gets that project's data version in this lab, read in the
+ * same round trip (null: no such project in this lab; absent: not asked).
+ */
+export type Actor = { user: User; labId: string; labName: string; role: Role; memberships: Membership[]; project?: { id: string; version: string | null } };
 
 type CookieJar = Awaited<ReturnType<typeof cookies>>;
 
@@ -30,18 +34,20 @@ export async function getSessionUserId(): Promise<string | null> {
 }
 
 /** The signed-in person's actor in the lab chosen by the lab cookie (or their first lab). */
-export async function getActor(): Promise<Actor | null> {
+export async function getActor(projectId?: string): Promise<Actor | null> {
   const jar = await cookies();
   const userId = await userIdFrom(jar);
   if (!userId) return null;
   // one round trip: the user and their memberships, so the role is read fresh on every request
-  const found = await getUserWithMemberships(userId);
+  const found = await getUserWithMemberships(userId, projectId);
   if (!found) return null;
-  const { user, memberships } = found;
+  const { user, memberships, projectVersions } = found;
   const wanted = jar.get(LAB_COOKIE)?.value;
   const current = memberships.find((m) => m.labId === wanted) ?? memberships[0];
   if (!current) return null;
-  return { user, labId: current.labId, labName: current.labName, role: current.role, memberships };
+  const actor: Actor = { user, labId: current.labId, labName: current.labName, role: current.role, memberships };
+  if (projectId !== undefined) actor.project = { id: projectId, version: projectVersions.get(current.labId) ?? null };
+  return actor;
 }
 
 /** For pages: sends visitors without a session (or lab) to sign-in. */
@@ -52,8 +58,8 @@ export async function requireActor(): Promise<Actor> {
 }
 
 /** For actions and handlers: throws 401 without a session and 403 without the permission. */
-export async function actorWith(permission: Permission): Promise<Actor> {
-  const actor = await getActor();
+export async function actorWith(permission: Permission, projectId?: string): Promise<Actor> {
+  const actor = await getActor(projectId);
   if (!actor) throw unauthorized();
   if (!can(actor.role, permission)) throw forbidden();
   return actor;

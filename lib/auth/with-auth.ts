@@ -45,16 +45,21 @@ function onRigApi(req: Request): boolean {
 
 /**
  * Wraps a route handler: who is acting (session cookie, or a bearer token under /api/v1) → role
- * from the database → permission → handler; every error becomes safe JSON.
+ * from the database → permission → handler; every error becomes safe JSON. `projectParam` names
+ * the route parameter holding a project id whose data version the handler will want
+ * (lib/cache/project-answer.ts), so it comes with the role in one query.
  */
-export function withAuth<P = Record<string, never>>(handler: Handler<P>, opts: { permission: Permission }) {
+export function withAuth<P = Record<string, never>>(handler: Handler<P>, opts: { permission: Permission; projectParam?: keyof P & string }) {
   return async (req: Request, ctx: Ctx<P>): Promise<Response> => {
     try {
+      const params = await ctx.params;
       // tokens are for the rig API under /api/v1 only; elsewhere a bearer header counts for
       // nothing and the session decides (so a token is no way around it on the app's own routes)
       const bearer = onRigApi(req) ? req.headers.get('authorization') : null;
-      const actor = bearer ? await tokenActor(bearer, opts.permission) : await actorWith(opts.permission);
-      return await handler(req, { actor, params: await ctx.params });
+      // a project read has its project's data version looked up with the session's role
+      const projectId = opts.projectParam ? (params as Record<string, unknown>)[opts.projectParam] : undefined;
+      const actor = bearer ? await tokenActor(bearer, opts.permission) : await actorWith(opts.permission, typeof projectId === 'string' ? projectId : undefined);
+      return await handler(req, { actor, params });
     } catch (err) {
       return errorResponse(err);
     }

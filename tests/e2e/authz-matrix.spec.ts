@@ -61,6 +61,7 @@ const ROUTES: { method: string; path: string; access: Access; query?: string }[]
   { method: 'DELETE', path: '/api/cameras/[profileId]', access: 'camera.write' },
   { method: 'GET', path: '/api/v1/projects', access: 'project.read' },
   { method: 'GET', path: '/api/v1/projects/[projectId]/readings', access: 'project.read' },
+  { method: 'GET', path: '/api/v1/projects/[projectId]/trend', access: 'project.read' },
   { method: 'POST', path: '/api/v1/captures', access: 'capture.write' },
   { method: 'POST', path: '/api/v1/captures/[captureId]/photos', access: 'capture.write' },
   { method: 'GET', path: '/api/v1/captures/[captureId]/templates', access: 'capture.read' },

@@ -21,10 +21,10 @@ export const GET = withAuth<{ projectId: string }>(
     const parsed = pageSchema.safeParse({ limit: q.get('limit') ?? undefined, offset: q.get('offset') ?? undefined });
     if (!parsed.success) throw new AppError(422, 'The page asked for is not valid', 'invalid', zodFieldErrors(parsed.error));
     const page = parsed.data;
-    return projectAnswer(req, actor.labId, projectId, `readings:${page.limit}:${page.offset}`, () => HEADERS, async () => {
+    return projectAnswer(req, actor, projectId, `readings:${page.limit}:${page.offset}`, () => HEADERS, async () => {
       const { readings, total } = await listNewestReadingsPage(actor.labId, projectId, page);
       return { body: Buffer.from(JSON.stringify({ readings, total, limit: page.limit, offset: page.offset })), meta: {} };
     });
   },
-  { permission: 'project.read' },
+  { permission: 'project.read', projectParam: 'projectId' },
 );

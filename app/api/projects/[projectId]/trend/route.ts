@@ -5,10 +5,14 @@ import { projectAnswer } from '@/lib/cache/project-answer';
 import { AppError, notFound } from '@/lib/errors';
 import { METRIC_KEYS, type MetricKey } from '@/lib/targets/metrics';
 import { idOr404 } from '@/lib/reports/http';
+import { toTrendAnswer } from '@/lib/targets/trend-answer';
 
 const HEADERS = { 'content-type': 'application/json', 'cache-control': 'private, no-store' };
 
-/** The trend of every metric, or of one with ?metric=<key> (what one chart needs). */
+/**
+ * The trend of every metric, or of one with ?metric=<key> (what one chart needs), in the compact
+ * shape of lib/targets/trend-answer.ts: each capture set named once, points as [set, value].
+ */
 export const GET = withAuth<{ projectId: string }>(
   async (req, { actor, params }) => {
     const projectId = idOr404(params.projectId, 'project');
@@ -17,14 +21,14 @@ export const GET = withAuth<{ projectId: string }>(
       throw new AppError(422, `Unknown metric "${asked.slice(0, 60)}"`, 'invalid', { metric: [`Use one of: ${METRIC_KEYS.join(', ')}`] });
     }
     const metric = asked as MetricKey | null;
-    return projectAnswer(req, actor.labId, projectId, metric ? `trend:${metric}` : 'trend', () => HEADERS, async () => {
+    return projectAnswer(req, actor, projectId, metric ? `trend:${metric}` : 'trend', () => HEADERS, async () => {
       const trend = await getProjectTrend(actor.labId, projectId);
       if (!trend) throw notFound('No such project');
       const all = await listTargets(actor.labId, projectId);
       const trends = metric ? { [metric]: trend.trends[metric] } : trend.trends;
       const targets = metric ? all.filter((t) => t.metric === metric) : all;
-      return { body: Buffer.from(JSON.stringify({ revisions: trend.revisions, trends, targets })), meta: {} };
+      return { body: Buffer.from(JSON.stringify(toTrendAnswer(trend.revisions, trends, targets))), meta: {} };
     });
   },
-  { permission: 'project.read' },
+  { permission: 'project.read', projectParam: 'projectId' },
 );
