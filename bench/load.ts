@@ -5,7 +5,7 @@
 // (WEB_PROCESSES, else one per core up to 4), --no-build.
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
-import { existsSync, rmSync } from 'node:fs';
+import { existsSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
@@ -231,7 +231,10 @@ async function cleanup(): Promise<void> {
 async function main(): Promise<void> {
   if (!process.argv.includes('--no-build') || !existsSync(join(distDir, 'BUILD_ID'))) {
     console.log(`[load] building into ${distDir}`);
+    // next build writes its folder's name into these two; the checkout keeps them as they were
+    const kept = ['tsconfig.json', 'next-env.d.ts'].map((f) => [f, readFileSync(f, 'utf8')] as const);
     const b = spawnSync('npx', ['next', 'build'], { env: { ...process.env, NEXT_DIST_DIR: distDir }, encoding: 'utf8', timeout: 600_000 });
+    for (const [f, text] of kept) writeFileSync(f, text);
     if (b.status !== 0) throw new Error(`build failed:\n${(b.stdout + b.stderr).slice(-3000)}`);
   }
   const port = await freePort();
