@@ -4,6 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { renderCapture, type ExposureSetting } from '../fixtures/capture-generator';
+import { createTestLab } from '../fixtures/test-lab';
 
 const tmp = mkdtempSync(join(tmpdir(), 'vm-cameras-'));
 process.env.STORAGE_DIR = join(tmp, 'storage');
@@ -24,11 +25,10 @@ beforeAll(async () => {
   m = { db: await import('../../db/index'), ingest: await import('../../lib/storage/ingest-photo'), photos: await import('../../db/queries/photos'), cameras: await import('../../db/queries/camera-profiles'), image: await import('../../lib/image') };
   const db = m.db.getDb();
   const tag = Math.random().toString(36).slice(2, 8);
-  for (const n of ['A', 'B']) labs.push(((await db('labs').insert({ name: `Camera test ${n} ${tag}` }).returning<{ id: string }[]>('id'))[0] as { id: string }).id);
-  userId = ((await db('users').insert({ email: `cameras-${tag}@example.test`, name: 'Camera Test', password_hash: 'x' }).returning<{ id: string }[]>('id'))[0] as { id: string }).id;
-  const project = ((await db('projects').insert({ lab_id: labs[0], name: 'Cameras' }).returning<{ id: string }[]>('id'))[0] as { id: string }).id;
-  const rev = ((await db('revisions').insert({ lab_id: labs[0], project_id: project, label: 'C1', position: 1 }).returning<{ id: string }[]>('id'))[0] as { id: string }).id;
-  setId = ((await db('capture_sets').insert({ lab_id: labs[0], revision_id: rev, label: 'bracket' }).returning<{ id: string }[]>('id'))[0] as { id: string }).id;
+  const a = await createTestLab(db, { tag: `cameras-${tag}`, name: 'Camera Test', project: 'Cameras', revision: 'C1' });
+  userId = a.userId;
+  labs.push(a.labId, ((await db('labs').insert({ name: `Camera test B ${tag}` }).returning<{ id: string }[]>('id'))[0] as { id: string }).id);
+  setId = ((await db('capture_sets').insert({ lab_id: labs[0], revision_id: a.revisionId, label: 'bracket' }).returning<{ id: string }[]>('id'))[0] as { id: string }).id;
 });
 
 afterAll(async () => {

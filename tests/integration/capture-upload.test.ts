@@ -6,6 +6,7 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { renderCapture, type RenderedCapture } from '../fixtures/capture-generator';
 import { declaredPng } from '../fixtures/hostile/corpus';
+import { createTestLab } from '../fixtures/test-lab';
 
 const tmp = mkdtempSync(join(tmpdir(), 'vm-upload-'));
 process.env.STORAGE_DIR = join(tmp, 'storage');
@@ -44,11 +45,9 @@ beforeAll(async () => {
   m = { db: await import('../../db/index'), ingest: await import('../../lib/storage/ingest-photo'), photos: await import('../../db/queries/photos'), errors: await import('../../lib/errors') };
   const db = m.db.getDb();
   const tag = Math.random().toString(36).slice(2, 8);
-  labId = ((await db('labs').insert({ name: `Upload test ${tag}` }).returning<{ id: string }[]>('id'))[0] as { id: string }).id;
-  userId = ((await db('users').insert({ email: `upload-${tag}@example.test`, name: 'Upload Test', password_hash: 'x' }).returning<{ id: string }[]>('id'))[0] as { id: string }).id;
-  const project = ((await db('projects').insert({ lab_id: labId, name: 'Uploads' }).returning<{ id: string }[]>('id'))[0] as { id: string }).id;
-  const rev = ((await db('revisions').insert({ lab_id: labId, project_id: project, label: 'U1', position: 1 }).returning<{ id: string }[]>('id'))[0] as { id: string }).id;
-  setId = ((await db('capture_sets').insert({ lab_id: labId, revision_id: rev, label: 'intake' }).returning<{ id: string }[]>('id'))[0] as { id: string }).id;
+  let revisionId: string;
+  ({ labId, userId, revisionId } = await createTestLab(db, { tag: `upload-${tag}`, name: 'Upload Test', project: 'Uploads', revision: 'U1' }));
+  setId = ((await db('capture_sets').insert({ lab_id: labId, revision_id: revisionId, label: 'intake' }).returning<{ id: string }[]>('id'))[0] as { id: string }).id;
   capture = await renderCapture({ width: 400, height: 300, seed: 31 });
 });
 

@@ -7,6 +7,7 @@ import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { renderCapture, type RenderedCapture } from '../fixtures/capture-generator';
 import { hostileCorpus, type HostileFile } from '../fixtures/hostile/corpus';
+import { createTestLab } from '../fixtures/test-lab';
 
 const tmp = mkdtempSync(join(tmpdir(), 'vm-hostile-'));
 process.env.STORAGE_DIR = join(tmp, 'storage');
@@ -49,14 +50,9 @@ beforeAll(async () => {
   capture = await renderCapture({ width: 480, height: 360, seed: 31, ghost: null });
   const db = m.db.getDb();
   const tag = Math.random().toString(36).slice(2, 8);
-  const [lab] = await db('labs').insert({ name: `Hostile ${tag}` }).returning<{ id: string }[]>('id');
-  labId = (lab as { id: string }).id;
-  const [user] = await db('users').insert({ email: `hostile-${tag}@example.test`, name: 'Hostile Test', password_hash: 'x' }).returning<{ id: string }[]>('id');
-  userId = (user as { id: string }).id;
-  await db('memberships').insert({ lab_id: labId, user_id: userId, role: 'tester' });
-  const [project] = await db('projects').insert({ lab_id: labId, name: 'Hostile rig' }).returning<{ id: string }[]>('id');
-  const [rev] = await db('revisions').insert({ lab_id: labId, project_id: (project as { id: string }).id, label: 'H1', position: 1 }).returning<{ id: string }[]>('id');
-  const [set] = await db('capture_sets').insert({ lab_id: labId, revision_id: (rev as { id: string }).id, label: 'hostile', pattern: capture.truth.pattern, created_by: userId }).returning<{ id: string }[]>('id');
+  let revisionId: string;
+  ({ labId, userId, revisionId } = await createTestLab(db, { tag: `hostile-${tag}`, name: 'Hostile Test', project: 'Hostile rig', revision: 'H1' }));
+  const [set] = await db('capture_sets').insert({ lab_id: labId, revision_id: revisionId, label: 'hostile', pattern: capture.truth.pattern, created_by: userId }).returning<{ id: string }[]>('id');
   setId = (set as { id: string }).id;
   corpus = await hostileCorpus();
   global.gc?.();
