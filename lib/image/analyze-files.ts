@@ -138,7 +138,7 @@ async function analyzeSingles(options: AnalyzeFilesOptions & { on: PhotoSource; 
     rest.catch((): void => undefined);
     await Promise.race([startedAll, rest.then(() => undefined, () => undefined)]);
     try {
-      const partial = analyzeCaptureDetailed({ on: (pair[0] as readonly [PhotoRole, CapturePhoto])[1], off: (pair[1] as readonly [PhotoRole, CapturePhoto])[1], ...common, memo });
+      const partial = analyzeCaptureDetailed({ on: (pair[0] as readonly [PhotoRole, CapturePhoto])[1], off: (pair[1] as readonly [PhotoRole, CapturePhoto])[1], ...common, memo, ambientFollows: options.ambient !== null });
       if (wantArtifacts) {
         early = renderMapImages(partial.maps).catch(() => null);
       }

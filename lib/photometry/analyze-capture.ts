@@ -9,7 +9,7 @@ import { downsampleLuminance } from './downsample';
 import { EngineInputError } from './errors';
 import { exposureFactor, exposureScales } from './exposure';
 import { GHOST_MIN_SNR, searchGhost } from './ghost-search';
-import { measureGhostAt } from './ghost-measure';
+import { measureGhostStrips, type BandStrip } from './ghost-measure';
 import { bandRects } from './band';
 import { mergeBracket, type BracketSummary } from './bracket-merge';
 import { measureRects, totalsMean, totalsRgbMean, type RectRequest, type RectTotals } from './region-pass';
@@ -83,6 +83,12 @@ export interface CaptureInput {
    * each is keyed by everything it depends on, so a hit returns what the step would compute.
    */
   memo?: AnalysisMemo | null;
+  /**
+   * The caller will run again with an ambient photo and the same memo (see `AnalysisMemo`): the off
+   * photo's pass then also sums the colour the see-through measurement needs, sparing a second
+   * pass over it.
+   */
+  ambientFollows?: boolean;
 }
 
 /**
@@ -357,7 +363,7 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
       screen: ask(role, screen),
       background: background ? ask(role, background) : -1,
       overlap: overlap ? ask(role, overlap) : -1,
-      seeThrough: photos.ambient && (role === 'off' || role === 'ambient') ? ask(role, seeThrough, true) : -1,
+      seeThrough: (photos.ambient || input.ambientFollows) && (role === 'off' || role === 'ambient') ? ask(role, seeThrough, true) : -1,
       cells: wantCells ? (uniformityCellsRects as Rect[]).map((c) => ask(role, c)) : [],
       checker: checkerCells && role === 'on' ? checkerCells.map((c) => ask(role, c)) : [],
     };
@@ -387,31 +393,18 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     at[role] as { screen: number; background: number; overlap: number; seeThrough: number; cells: number[]; checker: number[] };
 
   // the ghost's band and its two shifted copies, at full resolution (a few strips, not the whole area)
-  const bandReader = (found: NonNullable<Found>, roles: readonly PhotoRole[]): ((x: number, y: number) => number) => {
+  const bandStrips = (found: NonNullable<Found>, roles: readonly PhotoRole[]): ((j: number, k: number) => BandStrip | null) => {
     const o = found.offset;
-    const strips: Rect[] = [];
-    for (const k of [0, 1, 2]) {
-      for (const r of bandRects(screen, o)) {
+    const strips = bandRects(screen, o).map((r) =>
+      [0, 1, 2].map((k): BandStrip | null => {
         const s = intersectRects(translateRect(r, -k * o.dx, -k * o.dy), imageRect);
-        if (s) strips.push(s);
-      }
-    }
-    const planes = strips.map((r) => roles.map((role) => luminanceCrop((photos[role] as CapturePhoto).raster, r, registration[role] as Offset, scaleOf(role)).plane.data));
-    const n = strips.length;
-    const two = roles.length === 2;
-    return (x: number, y: number): number => {
-      for (let i = 0; i < n; i++) {
-        const r = strips[i] as Rect;
-        const u = x - r.x;
-        const v = y - r.y;
-        if (u < 0 || v < 0 || u >= r.w || v >= r.h) continue;
-        const j = v * r.w + u;
-        const ps = planes[i] as Float32Array[];
+        if (!s) return null;
+        const [first, minus] = roles.map((role) => luminanceCrop((photos[role] as CapturePhoto).raster, s, registration[role] as Offset, scaleOf(role)).plane.data);
         // with two photos, D = on − off is formed only where the band needs it
-        return two ? ((ps[0] as Float32Array)[j] as number) - ((ps[1] as Float32Array)[j] as number) : ((ps[0] as Float32Array)[j] as number);
-      }
-      return Number.NaN;
-    };
+        return { rect: s, data: first as Float32Array, minus };
+      }),
+    );
+    return (j, k) => strips[j]?.[k] ?? null;
   };
   progress('crops', 0.65);
 
@@ -445,7 +438,7 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     let ghost: GhostResult | null = null;
     if (found) {
       const regKey = roles.map((r) => `${idOf((photos[r] as CapturePhoto).raster)}@${(registration[r] as Offset).dx},${(registration[r] as Offset).dy}*${scaleOf(r)}`).join('-');
-      const m = cached(memo, `band:${regKey}:${rectKey(screen)}:${found.offset.dx},${found.offset.dy}`, () => measureGhostAt(bandReader(found, roles), screen, found.offset));
+      const m = cached(memo, `band:${regKey}:${rectKey(screen)}:${found.offset.dx},${found.offset.dy}`, () => measureGhostStrips(screen, found.offset, bandStrips(found, roles)));
       if (m && Number.isFinite(m.ratio)) {
         ghost = { ratio: m.ratio, dx: found.offset.dx, dy: found.offset.dy, source: found.source, firstOrder: m.firstOrder, snr: found.snr };
       }

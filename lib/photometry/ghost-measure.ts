@@ -1,4 +1,4 @@
-import { forEachBandPixel } from './band';
+import { bandRects, forEachBandPixel } from './band';
 import { solveGhostRatio } from './ghost-ratio';
 import type { Offset, Plane, Rect } from './types';
 
@@ -32,43 +32,99 @@ export function measureGhost(d: Plane, origin: { x: number; y: number }, screen:
   return measureGhostAt(at, screen, offset);
 }
 
+/** The sums of the band and its two shifted copies, gathered pixel by pixel in the band's order. */
+class BandSums {
+  b = 0;
+  s1 = 0;
+  s2 = 0;
+  n = 0;
+  b1 = 0;
+  s11 = 0;
+  n1 = 0;
+
+  /** One band pixel: its value, and the values one and two offsets back (NaN where there is no data). */
+  add(vb: number, v1: number, v2: number): void {
+    if (vb !== vb || v1 !== v1) return;
+    this.b1 += vb;
+    this.s11 += v1;
+    this.n1++;
+    if (v2 !== v2) return;
+    this.b += vb;
+    this.s1 += v1;
+    this.s2 += v2;
+    this.n++;
+  }
+
+  result(): GhostMeasurement | null {
+    const { b, s1, s2, n, b1, s11, n1 } = this;
+    // where two offsets back leaves the image, keep the first-order estimate on the larger set
+    if (n < 0.5 * n1) {
+      if (n1 === 0 || s11 <= 0) return null;
+      const r = b1 / s11;
+      return { ratio: r, firstOrder: r, b: b1 / n1, s1: s11 / n1, s2: Number.NaN, n: n1 };
+    }
+    if (n === 0 || s1 <= 0) return null;
+    const mb = b / n;
+    const m1 = s1 / n;
+    const m2 = s2 / n;
+    return { ratio: solveGhostRatio(mb, m1, m2), firstOrder: mb / m1, b: mb, s1: m1, s2: m2, n };
+  }
+}
+
+function checkOffset(offset: Offset): void {
+  if (!Number.isInteger(offset.dx) || !Number.isInteger(offset.dy)) throw new RangeError('ghost offset must be integer');
+  if (offset.dx === 0 && offset.dy === 0) throw new RangeError('ghost offset must not be zero');
+}
+
 /**
  * The same measurement on a difference read through `at(x, y)` (screen coordinates; NaN where there
  * is no data), so callers can hold only the band and its two shifted copies instead of a whole crop.
  */
 export function measureGhostAt(at: (x: number, y: number) => number, screen: Rect, offset: Offset): GhostMeasurement | null {
-  if (!Number.isInteger(offset.dx) || !Number.isInteger(offset.dy)) throw new RangeError('ghost offset must be integer');
-  if (offset.dx === 0 && offset.dy === 0) throw new RangeError('ghost offset must not be zero');
-  let b = 0;
-  let s1 = 0;
-  let s2 = 0;
-  let n = 0;
-  let b1 = 0;
-  let s11 = 0;
-  let n1 = 0;
-  forEachBandPixel(screen, offset, (x, y) => {
-    const vb = at(x, y);
-    const v1 = at(x - offset.dx, y - offset.dy);
-    if (vb !== vb || v1 !== v1) return;
-    b1 += vb;
-    s11 += v1;
-    n1++;
-    const v2 = at(x - 2 * offset.dx, y - 2 * offset.dy);
-    if (v2 !== v2) return;
-    b += vb;
-    s1 += v1;
-    s2 += v2;
-    n++;
-  });
-  // where two offsets back leaves the image, keep the first-order estimate on the larger set
-  if (n < 0.5 * n1) {
-    if (n1 === 0 || s11 <= 0) return null;
-    const r = b1 / s11;
-    return { ratio: r, firstOrder: r, b: b1 / n1, s1: s11 / n1, s2: Number.NaN, n: n1 };
+  checkOffset(offset);
+  const sums = new BandSums();
+  const { dx, dy } = offset;
+  forEachBandPixel(screen, offset, (x, y) => sums.add(at(x, y), at(x - dx, y - dy), at(x - 2 * dx, y - 2 * dy)));
+  return sums.result();
+}
+
+/** A band rectangle moved back by k offsets and cut to the image: where it lies, and its values. */
+export interface BandStrip {
+  rect: Rect;
+  data: Float32Array;
+  /** Subtracted from `data` pixel by pixel when given (D = on − off formed only where needed). */
+  minus?: Float32Array;
+}
+
+/**
+ * The same measurement with the band held as strips: `strip(j, k)` is band rectangle j of
+ * `bandRects(screen, offset)` moved back by k = 0, 1, 2 offsets and cut to the image (null when
+ * nothing of it is left). Each pixel's three values are read by index, not looked up, and the sums
+ * run in measureGhostAt's order (its rows are those of the rectangles taken from the top), so the
+ * result is the one measureGhostAt gives on a reader of the same strips.
+ */
+export function measureGhostStrips(screen: Rect, offset: Offset, strip: (j: number, k: number) => BandStrip | null): GhostMeasurement | null {
+  checkOffset(offset);
+  const { dx, dy } = offset;
+  const rects = bandRects(screen, offset)
+    .map((rect, j) => ({ rect, j }))
+    .sort((a, b) => a.rect.y - b.rect.y);
+  const sums = new BandSums();
+  for (const { rect: r, j } of rects) {
+    const copies = [strip(j, 0), strip(j, 1), strip(j, 2)];
+    // the value of copy k at band pixel (x, y), which sits at (x − k·dx, y − k·dy) in the image
+    const read = (k: number, x: number, y: number): number => {
+      const c = copies[k];
+      if (!c) return Number.NaN;
+      const u = x - k * dx - c.rect.x;
+      const v = y - k * dy - c.rect.y;
+      if (u < 0 || v < 0 || u >= c.rect.w || v >= c.rect.h) return Number.NaN;
+      const i = v * c.rect.w + u;
+      return c.minus ? (c.data[i] as number) - (c.minus[i] as number) : (c.data[i] as number);
+    };
+    for (let y = r.y; y < r.y + r.h; y++) {
+      for (let x = r.x; x < r.x + r.w; x++) sums.add(read(0, x, y), read(1, x, y), read(2, x, y));
+    }
   }
-  if (n === 0 || s1 <= 0) return null;
-  const mb = b / n;
-  const m1 = s1 / n;
-  const m2 = s2 / n;
-  return { ratio: solveGhostRatio(mb, m1, m2), firstOrder: mb / m1, b: mb, s1: m1, s2: m2, n };
+  return sums.result();
 }
