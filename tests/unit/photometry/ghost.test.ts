@@ -1,5 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { measureGhost, searchGhost, solveGhostRatio, forEachBandPixel, bandArea } from '../../../lib/photometry';
+import { bandRects } from '../../../lib/photometry/band';
+import { measureGhostStrips, type BandStrip } from '../../../lib/photometry/ghost-measure';
+import { intersectRects, translateRect } from '../../../lib/photometry/rect';
 
 function scene(w: number, h: number, screen: { x: number; y: number; w: number; h: number }, g: number, o: { dx: number; dy: number }, textured: boolean) {
   const d0 = new Float64Array(w * h);
@@ -51,6 +54,35 @@ describe('ghost ratio: B = g·S1 − g²·S2 (PRODUCT.md §5.8)', () => {
         expect(x >= r.x && x < r.x + r.w && y >= r.y && y < r.y + r.h).toBe(false);
       });
       expect(n).toBe(bandArea(r, o));
+    }
+  });
+});
+
+describe('ghost ratio read from strips', () => {
+  it('gives measureGhost’s result to the last bit, with the strips cut by the image edge', () => {
+    // a plane and its difference with a second one; the screen near the edges, so copies two offsets back leave the image
+    const w = 260;
+    const h = 190;
+    const image = { x: 0, y: 0, w, h };
+    const screen = { x: 25, y: 20, w: 150, h: 110 };
+    for (const o of [{ dx: 9, dy: 6 }, { dx: -13, dy: 4 }, { dx: 7, dy: -11 }, { dx: 0, dy: 14 }, { dx: -16, dy: 0 }, { dx: -30, dy: -25 }]) {
+      const a = scene(w, h, screen, 0.04, o, true);
+      const b = { data: a.data.map((v, i) => 0.01 * Math.sin(i)), width: w, height: h };
+      const crop = (p: { data: Float32Array }, r: { x: number; y: number; w: number; h: number }) => {
+        const out = new Float32Array(r.w * r.h);
+        for (let y = 0; y < r.h; y++) for (let x = 0; x < r.w; x++) out[y * r.w + x] = p.data[(r.y + y) * w + r.x + x] as number;
+        return out;
+      };
+      const strips = bandRects(screen, o).map((r) =>
+        [0, 1, 2].map((k): BandStrip | null => {
+          const c = intersectRects(translateRect(r, -k * o.dx, -k * o.dy), image);
+          return c ? { rect: c, data: crop(a, c), minus: crop(b, c) } : null;
+        }),
+      );
+      const viaStrips = measureGhostStrips(screen, o, (j, k) => strips[j]?.[k] ?? null);
+      const whole = measureGhost(a, { x: 0, y: 0 }, screen, o, b);
+      expect(viaStrips).not.toBeNull();
+      expect(viaStrips).toEqual(whole);
     }
   });
 });
