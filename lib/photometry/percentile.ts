@@ -34,10 +34,8 @@ function select(a: Float64Array, k: number): number {
   return a[k] as number;
 }
 
-/** The p-th percentile (0..100) of the finite values, interpolating linearly between order statistics. */
-export function percentile(values: ArrayLike<number>, p: number): number {
-  if (!(p >= 0 && p <= 100)) throw new RangeError(`percentile must be in 0..100, got ${p}`);
-  const a = finiteCopy(values);
+/** The p-th percentile of finite values held in `a`, which it reorders. */
+function percentileInPlace(a: Float64Array, p: number): number {
   if (a.length === 0) return Number.NaN;
   const pos = (p / 100) * (a.length - 1);
   const lo = Math.floor(pos);
@@ -49,12 +47,19 @@ export function percentile(values: ArrayLike<number>, p: number): number {
   return vLo + (vHi - vLo) * (pos - lo);
 }
 
+/** The p-th percentile (0..100) of the finite values, interpolating linearly between order statistics. */
+export function percentile(values: ArrayLike<number>, p: number): number {
+  if (!(p >= 0 && p <= 100)) throw new RangeError(`percentile must be in 0..100, got ${p}`);
+  return percentileInPlace(finiteCopy(values), p);
+}
+
 /** Median absolute deviation scaled to a normal SD (×1.4826), ignoring non-finite values. */
 export function robustSigma(values: ArrayLike<number>): number {
-  const med = percentile(values, 50);
-  if (Number.isNaN(med)) return Number.NaN;
+  // one copy serves both medians: the order statistics do not depend on the order they are kept in
   const a = finiteCopy(values);
+  const med = percentileInPlace(a, 50);
+  if (Number.isNaN(med)) return Number.NaN;
   for (let i = 0; i < a.length; i++) a[i] = Math.abs((a[i] as number) - med);
   // 1.4826 = 1/Φ⁻¹(3/4): the MAD of a normal distribution is 0.6745 σ
-  return 1.4826 * percentile(a, 50);
+  return 1.4826 * percentileInPlace(a, 50);
 }
