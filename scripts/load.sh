@@ -17,7 +17,7 @@ if [ -z "$given" ]; then
   if ! redis-cli -p "$REDIS_PORT" -a "$REDIS_PASSWORD" --no-auth-warning ping >/dev/null 2>&1; then
     redis_start "$DATA_DIR" "$REDIS_PORT" durable; started+=(redis)
   fi
-  NODE_OPTIONS='--import tsx' npx knex migrate:latest --knexfile knexfile.ts >/dev/null
+  npx tsx db/migrate.ts latest >/dev/null
 fi
 cleanup() {
   for s in "${started[@]}"; do

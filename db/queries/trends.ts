@@ -69,6 +69,9 @@ export async function getProjectTrend(labId: string, projectId: string): Promise
   return { revisions, readings, trends: buildTrends(revisions, readings) };
 }
 
+/** The data version of a projects row under `alias`, as SQL (getProjectDataVersion reads it; so does the actor's query). */
+export const projectVersionSql = (alias: string): string => `${alias}.updated_at::text || '|' || ${alias}.data_version::text`;
+
 /**
  * A fingerprint of everything a project's trend and readings list are built from: the project row
  * and its data version, which triggers move on inside every transaction that writes its readings,
@@ -78,6 +81,6 @@ export async function getProjectTrend(labId: string, projectId: string): Promise
 export async function getProjectDataVersion(labId: string, projectId: string): Promise<string | null> {
   const row = (await getDb()('projects')
     .where({ lab_id: labId, id: projectId })
-    .first(getDb().raw(`updated_at::text || '|' || data_version::text AS v`))) as { v: string } | undefined;
+    .first(getDb().raw(`${projectVersionSql('projects')} AS v`))) as { v: string } | undefined;
   return row?.v ?? null;
 }

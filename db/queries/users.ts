@@ -1,5 +1,7 @@
 import { getDb } from '../index';
 import type { Role } from '../../lib/auth/permissions';
+import { uuidSchema } from '../../lib/schemas/common';
+import { projectVersionSql } from './trends';
 
 export type User = { id: string; email: string; name: string; createdAt: Date };
 export type UserWithHash = User & { passwordHash: string };
@@ -32,23 +34,18 @@ export async function listMemberships(userId: string): Promise<Membership[]> {
 
 /**
  * A person and their memberships (oldest first, then by lab name, as listMemberships) in one
- * query: what every signed-in request needs. Null when the user is gone.
- */
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-
-/**
- * A person and their memberships in one round trip. Given a project id, each membership row also
- * carries that project's data version when the project is in that lab (what `getProjectDataVersion`
- * reads), so a cached project read needs no second query.
+ * query: what every signed-in request needs. Null when the user is gone. Given a project id, each
+ * membership row also carries that project's data version when the project is in that lab (what
+ * `getProjectDataVersion` reads), so a cached project read needs no second query.
  */
 export async function getUserWithMemberships(
   userId: string,
   projectId?: string,
 ): Promise<{ user: User; memberships: Membership[]; projectVersions: Map<string, string> } | null> {
-  const withProject = projectId !== undefined && UUID.test(projectId);
+  const withProject = projectId !== undefined && uuidSchema.safeParse(projectId).success;
   const { rows } = await getDb().raw<{ rows: { id: string; email: string; name: string; created_at: Date; lab_id: string | null; lab_name: string | null; role: Role | null; project_version: string | null }[] }>(
     `SELECT u.id, u.email, u.name, u.created_at, m.lab_id, l.name AS lab_name, m.role,
-            ${withProject ? `(SELECT p.updated_at::text || '|' || p.data_version::text FROM projects p WHERE p.id = ? AND p.lab_id = m.lab_id)` : 'NULL'} AS project_version
+            ${withProject ? `(SELECT ${projectVersionSql('p')} FROM projects p WHERE p.id = ? AND p.lab_id = m.lab_id)` : 'NULL'} AS project_version
        FROM users u
        LEFT JOIN (memberships m JOIN labs l ON l.id = m.lab_id) ON m.user_id = u.id
       WHERE u.id = ?
