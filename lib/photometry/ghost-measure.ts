@@ -55,6 +55,26 @@ class BandSums {
     this.n++;
   }
 
+  /** A row of band pixels at once, as `add` on each in turn. */
+  addRow(rb: Float64Array, r1: Float64Array, r2: Float64Array): void {
+    let { b, s1, s2, n, b1, s11, n1 } = this;
+    for (let i = 0; i < rb.length; i++) {
+      const vb = rb[i] as number;
+      const v1 = r1[i] as number;
+      if (vb !== vb || v1 !== v1) continue;
+      b1 += vb;
+      s11 += v1;
+      n1++;
+      const v2 = r2[i] as number;
+      if (v2 !== v2) continue;
+      b += vb;
+      s1 += v1;
+      s2 += v2;
+      n++;
+    }
+    Object.assign(this, { b, s1, s2, n, b1, s11, n1 });
+  }
+
   result(): GhostMeasurement | null {
     const { b, s1, s2, n, b1, s11, n1 } = this;
     // where two offsets back leaves the image, keep the first-order estimate on the larger set
@@ -112,19 +132,30 @@ export function measureGhostStrips(screen: Rect, offset: Offset, strip: (j: numb
   const sums = new BandSums();
   for (const { rect: r, j } of rects) {
     const copies = [strip(j, 0), strip(j, 1), strip(j, 2)];
-    // the value of copy k at band pixel (x, y), which sits at (x − k·dx, y − k·dy) in the image
-    const read = (k: number, x: number, y: number): number => {
-      const c = copies[k];
-      if (!c) return Number.NaN;
-      const u = x - k * dx - c.rect.x;
-      const v = y - k * dy - c.rect.y;
-      if (u < 0 || v < 0 || u >= c.rect.w || v >= c.rect.h) return Number.NaN;
-      const i = v * c.rect.w + u;
-      return c.minus ? (c.data[i] as number) - (c.minus[i] as number) : (c.data[i] as number);
-    };
+    const rows = [new Float64Array(r.w), new Float64Array(r.w), new Float64Array(r.w)] as const;
     for (let y = r.y; y < r.y + r.h; y++) {
-      for (let x = r.x; x < r.x + r.w; x++) sums.add(read(0, x, y), read(1, x, y), read(2, x, y));
+      // copy k of band pixel (x, y) sits at (x − k·dx, y − k·dy) in the image
+      for (let k = 0; k < 3; k++) copyRow(rows[k] as Float64Array, copies[k] ?? null, r.x - k * dx, y - k * dy);
+      sums.addRow(rows[0], rows[1], rows[2]);
     }
   }
   return sums.result();
+}
+
+/** Values of a strip along image row y from column x0 on (NaN where the strip has none). */
+function copyRow(out: Float64Array, c: BandStrip | null, x0: number, y: number): void {
+  out.fill(Number.NaN);
+  if (!c) return;
+  const v = y - c.rect.y;
+  if (v < 0 || v >= c.rect.h) return;
+  const ua = x0 - c.rect.x;
+  const t0 = Math.max(0, -ua);
+  const t1 = Math.min(out.length, c.rect.w - ua);
+  const base = v * c.rect.w + ua;
+  const { data, minus } = c;
+  if (minus) {
+    for (let t = t0; t < t1; t++) out[t] = (data[base + t] as number) - (minus[base + t] as number);
+  } else {
+    for (let t = t0; t < t1; t++) out[t] = data[base + t] as number;
+  }
 }

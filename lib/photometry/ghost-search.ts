@@ -1,4 +1,4 @@
-import { crossCorrelate, nextPow2, toComplex } from './fft2d';
+import { crossCorrelateTwo, nextPow2 } from './fft2d';
 import { strided } from './detect-screen';
 import { robustSigma } from './percentile';
 import type { Offset, Plane, Rect } from './types';
@@ -129,8 +129,7 @@ export function searchGhost(d: Plane, screen: Rect, minOffset: number): GhostCan
   const cry = Math.max(1, Math.ceil(ry / q));
   const pw = nextPow2(cw + crx);
   const ph = nextPow2(ch + cry);
-  const c = crossCorrelate(toComplex(tVals, cw, ch, pw, ph), toComplex(mVals, cw, ch, pw, ph), pw, ph);
-  const e = crossCorrelate(toComplex(wVals, cw, ch, pw, ph), toComplex(m2Vals, cw, ch, pw, ph), pw, ph);
+  const [c, e] = crossCorrelateTwo([tVals, mVals], [wVals, m2Vals], cw, ch, pw, ph, cry);
   let best = 0;
   let bo: Offset | null = null;
   const minCoarse = minOffset / q;

@@ -23,7 +23,7 @@ export { assertRectInside, intersectRects, unionRects, rectIoU, translateRect, g
 export { percentile, robustSigma } from './percentile';
 export { connectedComponents, type Component } from './components';
 export { detectScreen } from './detect-screen';
-export { fft2d, nextPow2, crossCorrelate, toComplex, multiplyConj } from './fft2d';
+export { fft2d, nextPow2, crossCorrelateTwo, packPair, pairCrossPower } from './fft2d';
 export { phaseCorrelate } from './phase-correlation';
 export { logGradient } from './gradient';
 export { registerPhotos, registerPlanes, type RegistrationInput } from './register';

@@ -1,18 +1,38 @@
-import { fft2d, multiplyConj, nextPow2 } from './fft2d';
+import { fft2d, inverseFft2dRows, nextPow2, pairCrossPower, shiftRows } from './fft2d';
 import type { Offset, Plane } from './types';
 
-function windowed(p: Plane, pw: number, ph: number): Float64Array {
-  const { width: w, height: h, data } = p;
+/** Hann window weights for n samples: the borders would otherwise correlate as a strong edge at zero shift. */
+function hann(n: number): Float64Array {
+  const out = new Float64Array(n);
+  for (let i = 0; i < n; i++) out[i] = n > 1 ? 0.5 - 0.5 * Math.cos((2 * Math.PI * (i + 0.5)) / n) : 1;
+  return out;
+}
+
+function mean(data: ArrayLike<number>): number {
   let sum = 0;
   for (let i = 0; i < data.length; i++) sum += data[i] as number;
-  const mean = sum / data.length;
+  return sum / data.length;
+}
+
+/**
+ * Both planes, mean removed and windowed, packed into one zero-padded complex array: the reference
+ * as the real part, the moving plane as the imaginary part, so one transform serves both.
+ */
+function windowedPair(a: Plane, b: Plane, pw: number, ph: number): Float64Array {
+  const { width: w, height: h } = a;
+  const ma = mean(a.data);
+  const mb = mean(b.data);
+  const wx = hann(w);
+  const wy = hann(h);
   const out = new Float64Array(2 * pw * ph);
   for (let y = 0; y < h; y++) {
-    // Hann window: the image borders would otherwise correlate as a strong edge at zero shift
-    const wy = h > 1 ? 0.5 - 0.5 * Math.cos((2 * Math.PI * (y + 0.5)) / h) : 1;
+    const ky = wy[y] as number;
     for (let x = 0; x < w; x++) {
-      const wx = w > 1 ? 0.5 - 0.5 * Math.cos((2 * Math.PI * (x + 0.5)) / w) : 1;
-      out[2 * (y * pw + x)] = ((data[y * w + x] as number) - mean) * wx * wy;
+      const k = (wx[x] as number) * ky;
+      const i = y * w + x;
+      const o = 2 * (y * pw + x);
+      out[o] = ((a.data[i] as number) - ma) * k;
+      out[o + 1] = ((b.data[i] as number) - mb) * k;
     }
   }
   return out;
@@ -30,31 +50,38 @@ export function phaseCorrelate(reference: Plane, moving: Plane, maxShift: number
   // zero padding to at least w + maxShift keeps wrapped-around shifts apart from real ones
   const pw = nextPow2(w + Math.min(maxShift, w));
   const ph = nextPow2(h + Math.min(maxShift, h));
-  const a = windowed(reference, pw, ph);
-  const b = windowed(moving, pw, ph);
-  fft2d(a, pw, ph);
-  fft2d(b, pw, ph);
-  multiplyConj(b, a);
+  const z = windowedPair(reference, moving, pw, ph);
+  fft2d(z, pw, ph, false, h);
+  // the cross-power spectrum M·conj(R) of reference R and moving M
+  const cross = pairCrossPower(z, pw, ph);
   let maxMag = 0;
-  for (let i = 0; i < b.length; i += 2) maxMag = Math.max(maxMag, Math.hypot(b[i] as number, b[i + 1] as number));
-  const eps = maxMag * 1e-9 + 1e-300;
-  for (let i = 0; i < b.length; i += 2) {
-    // Kuglin & Hines phase correlation: normalise the cross-power spectrum to unit magnitude
-    const m = Math.hypot(b[i] as number, b[i + 1] as number) + eps;
-    b[i] = (b[i] as number) / m;
-    b[i + 1] = (b[i + 1] as number) / m;
+  for (let i = 0; i < cross.length; i += 2) {
+    const re = cross[i] as number;
+    const im = cross[i + 1] as number;
+    const mag = Math.sqrt(re * re + im * im);
+    if (mag > maxMag) maxMag = mag;
   }
-  fft2d(b, pw, ph, true);
+  const eps = maxMag * 1e-9 + 1e-300;
+  for (let i = 0; i < cross.length; i += 2) {
+    // Kuglin & Hines phase correlation: normalise the cross-power spectrum to unit magnitude
+    const re = cross[i] as number;
+    const im = cross[i + 1] as number;
+    const m = Math.sqrt(re * re + im * im) + eps;
+    cross[i] = re / m;
+    cross[i + 1] = im / m;
+  }
+  const rx = Math.min(maxShift, pw / 2 - 1);
+  const ry = Math.min(maxShift, ph / 2 - 1);
+  // only the rows of the shifts searched are transformed back
+  inverseFft2dRows(cross, pw, ph, shiftRows(ph, ry));
   let best = -Infinity;
   let bx = 0;
   let by = 0;
-  const rx = Math.min(maxShift, pw / 2 - 1);
-  const ry = Math.min(maxShift, ph / 2 - 1);
   for (let dy = -ry; dy <= ry; dy++) {
     const iy = (dy + ph) % ph;
     for (let dx = -rx; dx <= rx; dx++) {
       const ix = (dx + pw) % pw;
-      const v = b[2 * (iy * pw + ix)] as number;
+      const v = cross[2 * (iy * pw + ix)] as number;
       if (v > best) {
         best = v;
         bx = dx;

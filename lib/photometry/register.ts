@@ -29,11 +29,19 @@ function trustFine(d0: Offset, fine: Offset & { peak: number }, coarsePeak: numb
 }
 
 function fillNaN(p: Plane): Plane {
+  const src = p.data;
   let sum = 0;
   let n = 0;
-  for (const v of p.data) if (v === v) { sum += v; n++; }
+  for (let i = 0; i < src.length; i++) {
+    const v = src[i] as number;
+    if (v === v) { sum += v; n++; }
+  }
   const mean = n > 0 ? sum / n : 0;
-  const data = p.data.map((v) => (v === v ? v : mean));
+  const data = new Float32Array(src.length);
+  for (let i = 0; i < src.length; i++) {
+    const v = src[i] as number;
+    data[i] = v === v ? v : mean;
+  }
   return { data, width: p.width, height: p.height };
 }
 
@@ -41,19 +49,38 @@ function logPlane(p: Plane): Float32Array {
   const p99 = percentile(strided(p.data, 50_000), 99);
   // a higher floor than the correlation's own, so noise in dark areas never looks like corners
   const floor = p99 > 0 ? 0.05 * p99 : 1e-6;
-  return p.data.map((v) => Math.log((v === v ? Math.max(0, v) : 0) + floor));
+  const src = p.data;
+  const out = new Float32Array(src.length);
+  for (let i = 0; i < src.length; i++) {
+    const v = src[i] as number;
+    out[i] = Math.log((v === v ? Math.max(0, v) : 0) + floor);
+  }
+  return out;
 }
 
-function summedArea(w: number, h: number, value: (i: number) => number): Float64Array {
-  const sat = new Float64Array((w + 1) * (h + 1));
+/** Summed-area tables of gx², gy² and gx·gy, (w + 1) × (h + 1) each. */
+function tensorTables(gx: Float32Array, gy: Float32Array, w: number, h: number): [Float64Array, Float64Array, Float64Array] {
+  const xx = new Float64Array((w + 1) * (h + 1));
+  const yy = new Float64Array((w + 1) * (h + 1));
+  const xy = new Float64Array((w + 1) * (h + 1));
   for (let y = 0; y < h; y++) {
-    let row = 0;
+    let rxx = 0;
+    let ryy = 0;
+    let rxy = 0;
     for (let x = 0; x < w; x++) {
-      row += value(y * w + x);
-      sat[(y + 1) * (w + 1) + x + 1] = (sat[y * (w + 1) + x + 1] as number) + row;
+      const a = gx[y * w + x] as number;
+      const b = gy[y * w + x] as number;
+      rxx += a * a;
+      ryy += b * b;
+      rxy += a * b;
+      const o = (y + 1) * (w + 1) + x + 1;
+      const u = y * (w + 1) + x + 1;
+      xx[o] = (xx[u] as number) + rxx;
+      yy[o] = (yy[u] as number) + ryy;
+      xy[o] = (xy[u] as number) + rxy;
     }
   }
-  return sat;
+  return [xx, yy, xy];
 }
 
 // Window for the full-resolution step, in coarse pixels: the one whose weaker photo has the
@@ -77,11 +104,7 @@ function texturedWindow(a: Plane, b: Plane, shift: Offset, size: number): { x: n
         gy[y * w + x] = ((l[(v + 1) * w + u] as number) - (l[(v - 1) * w + u] as number)) / 2;
       }
     }
-    return [
-      summedArea(w, h, (i) => (gx[i] as number) ** 2),
-      summedArea(w, h, (i) => (gy[i] as number) ** 2),
-      summedArea(w, h, (i) => (gx[i] as number) * (gy[i] as number)),
-    ];
+    return tensorTables(gx, gy, w, h);
   });
   const box = (sat: Float64Array, x: number, y: number): number =>
     (sat[(y + s) * (w + 1) + x + s] as number) - (sat[y * (w + 1) + x + s] as number) - (sat[(y + s) * (w + 1) + x] as number) + (sat[y * (w + 1) + x] as number);
