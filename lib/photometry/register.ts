@@ -89,43 +89,49 @@ function tensorTables(gx: Float32Array, gy: Float32Array, w: number, h: number):
 function texturedWindow(a: Plane, b: Plane, shift: Offset, size: number): { x: number; y: number } {
   const { width: w, height: h } = a;
   const s = Math.min(size, w, h);
-  const tensors = [a, b].map((p, k) => {
-    const l = logPlane(p);
-    const gx = new Float32Array(w * h);
-    const gy = new Float32Array(w * h);
-    const sx = k === 0 ? 0 : shift.dx;
-    const sy = k === 0 ? 0 : shift.dy;
-    for (let y = 0; y < h; y++) {
-      for (let x = 0; x < w; x++) {
-        // the moving photo is read where the reference pixel's feature lies
-        const u = Math.min(w - 2, Math.max(1, x + sx));
-        const v = Math.min(h - 2, Math.max(1, y + sy));
-        gx[y * w + x] = ((l[v * w + u + 1] as number) - (l[v * w + u - 1] as number)) / 2;
-        gy[y * w + x] = ((l[(v + 1) * w + u] as number) - (l[(v - 1) * w + u] as number)) / 2;
-      }
-    }
-    return tensorTables(gx, gy, w, h);
-  });
-  const box = (sat: Float64Array, x: number, y: number): number =>
-    (sat[(y + s) * (w + 1) + x + s] as number) - (sat[y * (w + 1) + x + s] as number) - (sat[(y + s) * (w + 1) + x] as number) + (sat[y * (w + 1) + x] as number);
+  const ta = structureTables(a, 0, 0);
+  // the moving photo is read where the reference pixel's feature lies
+  const tb = structureTables(b, shift.dx, shift.dy);
   let best = -1;
   let bx = 0;
   let by = 0;
   const step = Math.max(1, Math.floor(s / 8));
   for (let y = 0; y + s <= h; y += step) {
     for (let x = 0; x + s <= w; x += step) {
-      let score = Infinity;
-      for (const [xx, yy, xy] of tensors as [Float64Array, Float64Array, Float64Array][]) {
-        const p = box(xx, x, y);
-        const q = box(yy, x, y);
-        const r = box(xy, x, y);
-        const minEig = (p + q) / 2 - Math.sqrt(((p - q) / 2) ** 2 + r * r);
-        score = Math.min(score, minEig);
-      }
+      const score = Math.min(minEigen(ta, w, x, y, s), minEigen(tb, w, x, y, s));
       if (score > best) { best = score; bx = x; by = y; }
     }
   }
   return { x: bx, y: by };
+}
+
+/** Summed-area tables of the gradient structure tensor of log luminance, the plane read `sx, sy` pixels away. */
+function structureTables(p: Plane, sx: number, sy: number): [Float64Array, Float64Array, Float64Array] {
+  const { width: w, height: h } = p;
+  const l = logPlane(p);
+  const gx = new Float32Array(w * h);
+  const gy = new Float32Array(w * h);
+  for (let y = 0; y < h; y++) {
+    const v = Math.min(h - 2, Math.max(1, y + sy));
+    for (let x = 0; x < w; x++) {
+      const u = Math.min(w - 2, Math.max(1, x + sx));
+      gx[y * w + x] = ((l[v * w + u + 1] as number) - (l[v * w + u - 1] as number)) / 2;
+      gy[y * w + x] = ((l[(v + 1) * w + u] as number) - (l[(v - 1) * w + u] as number)) / 2;
+    }
+  }
+  return tensorTables(gx, gy, w, h);
+}
+
+function boxSum(sat: Float64Array, w: number, x: number, y: number, s: number): number {
+  return (sat[(y + s) * (w + 1) + x + s] as number) - (sat[y * (w + 1) + x + s] as number) - (sat[(y + s) * (w + 1) + x] as number) + (sat[y * (w + 1) + x] as number);
+}
+
+/** Smaller eigenvalue of the structure tensor summed over the s × s window at (x, y). */
+function minEigen(t: [Float64Array, Float64Array, Float64Array], w: number, x: number, y: number, s: number): number {
+  const p = boxSum(t[0], w, x, y, s);
+  const q = boxSum(t[1], w, x, y, s);
+  const r = boxSum(t[2], w, x, y, s);
+  return (p + q) / 2 - Math.sqrt(((p - q) / 2) ** 2 + r * r);
 }
 
 /**
