@@ -57,22 +57,7 @@ class BandSums {
 
   /** A row of band pixels at once, as `add` on each in turn. */
   addRow(rb: Float64Array, r1: Float64Array, r2: Float64Array): void {
-    let { b, s1, s2, n, b1, s11, n1 } = this;
-    for (let i = 0; i < rb.length; i++) {
-      const vb = rb[i] as number;
-      const v1 = r1[i] as number;
-      if (vb !== vb || v1 !== v1) continue;
-      b1 += vb;
-      s11 += v1;
-      n1++;
-      const v2 = r2[i] as number;
-      if (v2 !== v2) continue;
-      b += vb;
-      s1 += v1;
-      s2 += v2;
-      n++;
-    }
-    Object.assign(this, { b, s1, s2, n, b1, s11, n1 });
+    for (let i = 0; i < rb.length; i++) this.add(rb[i] as number, r1[i] as number, r2[i] as number);
   }
 
   result(): GhostMeasurement | null {

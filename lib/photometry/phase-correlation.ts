@@ -1,4 +1,4 @@
-import { fft2d, inverseFft2dRows, nextPow2, pairCrossPower, shiftRows } from './fft2d';
+import { fft2d, inverseFft2dRows, nextPow2, packPair, pairCrossPower, shiftRows } from './fft2d';
 import type { Offset, Plane } from './types';
 
 /** Hann window weights for n samples: the borders would otherwise correlate as a strong edge at zero shift. */
@@ -14,26 +14,15 @@ function mean(data: ArrayLike<number>): number {
   return sum / data.length;
 }
 
-/**
- * Both planes, mean removed and windowed, packed into one zero-padded complex array: the reference
- * as the real part, the moving plane as the imaginary part, so one transform serves both.
- */
-function windowedPair(a: Plane, b: Plane, pw: number, ph: number): Float64Array {
-  const { width: w, height: h } = a;
-  const ma = mean(a.data);
-  const mb = mean(b.data);
+/** A plane with its mean removed, under a Hann window. */
+function windowed(p: Plane): Float64Array {
+  const { width: w, height: h, data } = p;
+  const m = mean(data);
   const wx = hann(w);
   const wy = hann(h);
-  const out = new Float64Array(2 * pw * ph);
+  const out = new Float64Array(w * h);
   for (let y = 0; y < h; y++) {
-    const ky = wy[y] as number;
-    for (let x = 0; x < w; x++) {
-      const k = (wx[x] as number) * ky;
-      const i = y * w + x;
-      const o = 2 * (y * pw + x);
-      out[o] = ((a.data[i] as number) - ma) * k;
-      out[o + 1] = ((b.data[i] as number) - mb) * k;
-    }
+    for (let x = 0; x < w; x++) out[y * w + x] = ((data[y * w + x] as number) - m) * ((wx[x] as number) * (wy[y] as number));
   }
   return out;
 }
@@ -50,7 +39,8 @@ export function phaseCorrelate(reference: Plane, moving: Plane, maxShift: number
   // zero padding to at least w + maxShift keeps wrapped-around shifts apart from real ones
   const pw = nextPow2(w + Math.min(maxShift, w));
   const ph = nextPow2(h + Math.min(maxShift, h));
-  const z = windowedPair(reference, moving, pw, ph);
+  // reference as the real part, moving as the imaginary part: one transform serves both
+  const z = packPair(windowed(reference), windowed(moving), w, h, pw, ph);
   fft2d(z, pw, ph, false, h);
   // the cross-power spectrum M·conj(R) of reference R and moving M
   const cross = pairCrossPower(z, pw, ph);
