@@ -38,6 +38,57 @@ function sortedUnique(values: number[]): number[] {
   return [...new Set(values)].sort((a, b) => a - b);
 }
 
+// The two common loops live in small functions of their own, called once per row: V8 then
+// optimises them as whole functions after a few rows and keeps that code, instead of replacing a
+// long loop in the middle of a large function on the fly at every call (and throwing that code away
+// when the code after the loop first runs).
+const rowOut = new Float64Array(5);
+
+type Samples = Uint8Array | Uint16Array;
+
+/** Σ luminance × scale (each rounded to float32) from s0 and from s1 over RGB pixels [p, end); writes both sums to out[0..1], returns the clipped count. */
+function rowLuminance(data: Samples, p: number, end: number, tr: Float32Array, tg: Float32Array, tb: Float32Array, scale: number, clipCode: number, s0: number, s1: number, out: Float64Array): number {
+  let c = 0;
+  for (; p < end; p += 3) {
+    const r = data[p] as number;
+    const g = data[p + 1] as number;
+    const b = data[p + 2] as number;
+    const v = Math.fround(((tr[r] as number) + (tg[g] as number) + (tb[b] as number)) * scale);
+    s0 += v;
+    s1 += v;
+    if (r >= clipCode || g >= clipCode || b >= clipCode) c++;
+  }
+  out[0] = s0;
+  out[1] = s1;
+  return c;
+}
+
+/** As rowLuminance, also adding linear R, G, B to out[2..4]. */
+function rowLuminanceRgb(data: Samples, p: number, end: number, tr: Float32Array, tg: Float32Array, tb: Float32Array, lin: Float64Array, scale: number, clipCode: number, s0: number, s1: number, out: Float64Array): number {
+  let c = 0;
+  let sr = out[2] as number;
+  let sg = out[3] as number;
+  let sb = out[4] as number;
+  for (; p < end; p += 3) {
+    const r = data[p] as number;
+    const g = data[p + 1] as number;
+    const b = data[p + 2] as number;
+    const v = Math.fround(((tr[r] as number) + (tg[g] as number) + (tb[b] as number)) * scale);
+    s0 += v;
+    s1 += v;
+    sr += lin[r] as number;
+    sg += lin[g] as number;
+    sb += lin[b] as number;
+    if (r >= clipCode || g >= clipCode || b >= clipCode) c++;
+  }
+  out[0] = s0;
+  out[1] = s1;
+  out[2] = sr;
+  out[3] = sg;
+  out[4] = sb;
+  return c;
+}
+
 /**
  * One pass over the raw pixels of a photo whose features sit `offset` pixels away, gathering for
  * every requested rectangle the float64 sum of luminance × scale, the pixel count, the clipped count
@@ -115,43 +166,22 @@ export function measureRects(raster: PhotoRaster, requests: readonly RectRequest
         for (let q = 0; q < mc; q++) counts[m[q] as number] = (counts[m[q] as number] as number) + (e - a);
         let c = 0;
         if (channels === 3 && seg.rgb === -1 && mc <= 2) {
-          let s0 = sums[i0] as number;
-          let s1 = i1 >= 0 ? (sums[i1] as number) : 0;
-          for (let p = (sy * width + a + dx) * 3, end = (sy * width + e + dx) * 3; p < end; p += 3) {
-            const r = data[p] as number;
-            const g = data[p + 1] as number;
-            const b = data[p + 2] as number;
-            const v = Math.fround(((tr[r] as number) + (tg[g] as number) + (tb[b] as number)) * scale);
-            s0 += v;
-            s1 += v;
-            if (r >= clipCode || g >= clipCode || b >= clipCode) c++;
-          }
-          sums[i0] = s0;
-          if (i1 >= 0) sums[i1] = s1;
+          const p0 = (sy * width + a + dx) * 3;
+          c = rowLuminance(data, p0, (sy * width + e + dx) * 3, tr, tg, tb, scale, clipCode, sums[i0] as number, i1 >= 0 ? (sums[i1] as number) : 0, rowOut);
+          sums[i0] = rowOut[0] as number;
+          if (i1 >= 0) sums[i1] = rowOut[1] as number;
         } else if (channels === 3 && seg.rgb >= 0 && mc <= 2) {
-          let s0 = sums[i0] as number;
-          let s1 = i1 >= 0 ? (sums[i1] as number) : 0;
           const ri = seg.rgb;
-          let sr = rgbSums[3 * ri] as number;
-          let sg = rgbSums[3 * ri + 1] as number;
-          let sb = rgbSums[3 * ri + 2] as number;
-          for (let p = (sy * width + a + dx) * 3, end = (sy * width + e + dx) * 3; p < end; p += 3) {
-            const r = data[p] as number;
-            const g = data[p + 1] as number;
-            const b = data[p + 2] as number;
-            const v = Math.fround(((tr[r] as number) + (tg[g] as number) + (tb[b] as number)) * scale);
-            s0 += v;
-            s1 += v;
-            sr += lin[r] as number;
-            sg += lin[g] as number;
-            sb += lin[b] as number;
-            if (r >= clipCode || g >= clipCode || b >= clipCode) c++;
-          }
-          sums[i0] = s0;
-          if (i1 >= 0) sums[i1] = s1;
-          rgbSums[3 * ri] = sr;
-          rgbSums[3 * ri + 1] = sg;
-          rgbSums[3 * ri + 2] = sb;
+          rowOut[2] = rgbSums[3 * ri] as number;
+          rowOut[3] = rgbSums[3 * ri + 1] as number;
+          rowOut[4] = rgbSums[3 * ri + 2] as number;
+          const p0 = (sy * width + a + dx) * 3;
+          c = rowLuminanceRgb(data, p0, (sy * width + e + dx) * 3, tr, tg, tb, lin, scale, clipCode, sums[i0] as number, i1 >= 0 ? (sums[i1] as number) : 0, rowOut);
+          sums[i0] = rowOut[0] as number;
+          if (i1 >= 0) sums[i1] = rowOut[1] as number;
+          rgbSums[3 * ri] = rowOut[2] as number;
+          rgbSums[3 * ri + 1] = rowOut[3] as number;
+          rgbSums[3 * ri + 2] = rowOut[4] as number;
         } else {
           // any number of members, grey or colour: the general (slower) loop
           const stride = channels;
