@@ -6,8 +6,11 @@ export interface Component {
 }
 
 /** 4-connected components of a binary mask with their areas and bounding boxes. */
-export function connectedComponents(mask: Uint8Array, width: number, height: number): Component[] {
-  if (mask.length !== width * height) throw new RangeError('mask does not match its size');
+export function connectedComponents(mask: Uint8Array, planeWidth: number, planeHeight: number): Component[] {
+  if (mask.length !== planeWidth * planeHeight) throw new RangeError('mask does not match its size');
+  // small integers from here on, whatever number representation the caller's sizes had
+  const width = planeWidth | 0;
+  const height = planeHeight | 0;
   const label = new Int32Array(width * height).fill(-1);
   const stack = new Int32Array(width * height);
   const out: Component[] = [];
@@ -24,8 +27,8 @@ export function connectedComponents(mask: Uint8Array, width: number, height: num
     let y1 = -1;
     while (top > 0) {
       const p = stack[--top] as number;
-      const x = p % width;
-      const y = (p - x) / width;
+      const y = (p / width) | 0;
+      const x = p - y * width;
       area++;
       if (x < x0) x0 = x;
       if (x > x1) x1 = x;
