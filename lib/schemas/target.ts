@@ -20,3 +20,6 @@ export const targetSchema = z.object({
 export const targetCreateSchema = targetSchema;
 export const targetUpdateSchema = targetSchema.partial();
 export type TargetInput = z.infer<typeof targetSchema>;
+
+/** ?metric= of the trend answer: absent for every metric, or one metric's key. */
+export const trendMetricSchema = z.enum(METRIC_KEYS, { message: `Use one of: ${METRIC_KEYS.join(', ')}` }).nullable();

@@ -1,3 +1,4 @@
+import { uuidSchema } from '../schemas/common';
 import { compareVerdict, type TwoSampleResult, type VerdictLevel } from '../stats';
 import { METRIC_LIST, type MetricKey } from './metrics';
 import { groupStats, values, type GroupStats, type SetReading } from './series';
@@ -10,14 +11,12 @@ export function encodeGroup(g: GroupKey): string {
   return g.variant === null ? g.revisionId : `${g.revisionId}:${g.variant}`;
 }
 
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-
 /** Null for anything that is not a revision id with an optional variant. */
 export function decodeGroup(s: string | null | undefined): GroupKey | null {
   if (!s) return null;
   const i = s.indexOf(':');
   const revisionId = i < 0 ? s : s.slice(0, i);
-  if (!UUID.test(revisionId)) return null;
+  if (!uuidSchema.safeParse(revisionId).success) return null;
   const variant = i < 0 ? null : s.slice(i + 1);
   if (variant !== null && variant.length > 80) return null;
   return { revisionId: revisionId.toLowerCase(), variant };

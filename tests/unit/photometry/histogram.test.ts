@@ -21,7 +21,7 @@ function definition(values: ArrayLike<number>, bins: number, lo: number, hi: num
     }
     const k = Math.floor((Math.log2(v) - lo) * (bins / (hi - lo)));
     if (k >= bins) above++;
-    else counts[Math.max(0, k)]++;
+    else counts[Math.max(0, k)] = (counts[Math.max(0, k)] as number) + 1;
   }
   return { counts, nonPositive, above, total };
 }

@@ -3,8 +3,8 @@ import { getProjectTrend } from '@/db/queries/trends';
 import { withAuth } from '@/lib/auth/with-auth';
 import { projectAnswer } from '@/lib/cache/project-answer';
 import { AppError, notFound } from '@/lib/errors';
-import { METRIC_KEYS, type MetricKey } from '@/lib/targets/metrics';
 import { idOr404 } from '@/lib/reports/http';
+import { trendMetricSchema } from '@/lib/schemas/target';
 import { toTrendAnswer } from '@/lib/targets/trend-answer';
 
 const HEADERS = { 'content-type': 'application/json', 'cache-control': 'private, no-store' };
@@ -17,10 +17,11 @@ export const GET = withAuth<{ projectId: string }>(
   async (req, { actor, params }) => {
     const projectId = idOr404(params.projectId, 'project');
     const asked = new URL(req.url).searchParams.get('metric');
-    if (asked !== null && !(METRIC_KEYS as readonly string[]).includes(asked)) {
-      throw new AppError(422, `Unknown metric "${asked.slice(0, 60)}"`, 'invalid', { metric: [`Use one of: ${METRIC_KEYS.join(', ')}`] });
+    const parsed = trendMetricSchema.safeParse(asked);
+    if (!parsed.success) {
+      throw new AppError(422, `Unknown metric "${(asked ?? '').slice(0, 60)}"`, 'invalid', { metric: parsed.error.issues.map((i) => i.message) });
     }
-    const metric = asked as MetricKey | null;
+    const metric = parsed.data;
     return projectAnswer(req, actor, projectId, metric ? `trend:${metric}` : 'trend', () => HEADERS, async () => {
       const trend = await getProjectTrend(actor.labId, projectId);
       if (!trend) throw notFound('No such project');
