@@ -2,12 +2,12 @@
 
 import { useRouter } from 'next/navigation';
 import { useMemo, useState } from 'react';
-import { Area, CartesianGrid, ComposedChart, Line, ReferenceLine, ResponsiveContainer, Scatter, Tooltip, XAxis, YAxis } from 'recharts';
+import { Area, CartesianGrid, ComposedChart, ErrorBar, Line, ReferenceLine, ResponsiveContainer, Scatter, Tooltip, XAxis, YAxis } from 'recharts';
 import { comparatorWords, type Target } from '@/lib/targets/evaluate';
 import { formatMetric, METRIC_LIST, METRICS, type MetricKey } from '@/lib/targets/metrics';
 import type { Trend } from '@/lib/targets/series';
 
-type MeanRow = { x: number; id: string; label: string; n: number; mean: number | null; band: [number, number] | null; low: number | null; high: number | null };
+type MeanRow = { x: number; id: string; label: string; n: number; mean: number | null; band: [number, number] | null; low: number | null; high: number | null; ci: [number, number] | null };
 type PointRow = { x: number; y: number; capture: string; variant: string; revision: string };
 
 // Spreads a revision's captures a little sideways so equal values do not hide each other.
@@ -103,6 +103,8 @@ export function TrendChart({ projectId, trends, targets, initialMetric }: { proj
       low: r.stats.low,
       high: r.stats.high,
       band: r.stats.low !== null && r.stats.high !== null ? [r.stats.low, r.stats.high] : null,
+      // the same interval as whiskers on the mean: it still shows where a revision stands alone
+      ci: r.stats.mean !== null && r.stats.low !== null && r.stats.high !== null ? [r.stats.mean - r.stats.low, r.stats.high - r.stats.mean] : null,
     }));
     const points: PointRow[] = trend.revisions.flatMap((r, i) => r.points.map((p, j) => ({ x: i + jitter(j, r.points.length), y: p.value, capture: p.label, variant: p.variant, revision: r.label })));
     const ys = [...points.map((p) => p.y), ...means.flatMap((m) => (m.band ? m.band : [])), ...metricTargets.map((t) => t.value)];
@@ -187,7 +189,9 @@ export function TrendChart({ projectId, trends, targets, initialMetric }: { proj
               <Line dataKey="mean" className="vm-trend-line" type="linear" stroke="rgb(var(--beam))" strokeWidth={2} connectNulls isAnimationActive={false} dot={(p: unknown) => {
                   const d = p as { cx?: number; cy?: number; payload?: MeanRow; index?: number };
                   return <MeanDot key={d.index} cx={d.cx} cy={d.cy} payload={d.payload} onOpen={open} />;
-                }} activeDot={false} />
+                }} activeDot={false}>
+                <ErrorBar dataKey="ci" className="vm-ci-whisker" width={10} stroke="rgb(var(--beam))" strokeWidth={1.5} isAnimationActive={false} />
+              </Line>
               <Scatter data={points} dataKey="y" className="vm-trend-points" shape={PointDot} isAnimationActive={false} />
               {metricTargets.map((t) => (
                 <ReferenceLine
@@ -206,7 +210,7 @@ export function TrendChart({ projectId, trends, targets, initialMetric }: { proj
         </div>
       )}
       <p className="mt-2 text-xs text-muted">
-        Dots: each capture set’s newest reading. Line: the revision mean; band: its 95% confidence interval (Student’s t, from 2 captures on). Dashed: targets
+        Dots: each capture set’s newest reading. Line: the revision mean; band and whiskers: its 95% confidence interval (Student’s t, from 2 captures on). Dashed: targets
         {metricTargets.length ? ` (${metricTargets.map((t) => `${comparatorWords(t.comparator)} ${formatMetric(metric, t.value)}`).join(', ')})` : ' — none set for this metric'}. Click a mean to open its
         revision.
       </p>

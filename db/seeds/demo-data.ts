@@ -18,6 +18,12 @@ export const DEMO_PROJECTS = [
       { label: 'VX-B', builtOn: '2026-09-15', status: 'measured', notes: '40/60 splitter, AR back face, optional polarizer.' },
       { label: 'VX-C', builtOn: '2026-11-02', status: 'built', notes: '30/70 splitter, brighter panel.' },
     ],
+    // the team's own targets (invented for the demo, like every value here)
+    targets: [
+      { metric: 'ambientContrastRatio', comparator: '>=', value: 2.5, conditionNote: 'office desk, about 500 lx on the background' },
+      { metric: 'ghostRatio', comparator: '<=', value: 0.01, conditionNote: 'full-white pattern' },
+      { metric: 'transmission', comparator: '>=', value: 0.3, conditionNote: 'see-through, window light' },
+    ],
   },
   {
     name: 'Ridgeline M2 helmet HUD',
@@ -26,5 +32,6 @@ export const DEMO_PROJECTS = [
       { label: 'M2-P1', builtOn: '2026-07-20', status: 'measured', notes: 'Uncoated polycarbonate combiner.' },
       { label: 'M2-P2', builtOn: '2026-10-10', status: 'planned', notes: 'Dielectric 25% coating planned.' },
     ],
+    targets: [],
   },
 ] as const;

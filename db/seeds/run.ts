@@ -23,6 +23,9 @@ export async function seedDemo(): Promise<{ labId: string }> {
       for (const r of proj.revisions) {
         await trx('revisions').insert({ lab_id: lab.id, project_id: row.id, label: r.label, position: position++, built_on: r.builtOn, status: r.status, notes: r.notes });
       }
+      for (const t of proj.targets) {
+        await trx('targets').insert({ lab_id: lab.id, project_id: row.id, metric: t.metric, comparator: t.comparator, value: t.value, condition_note: t.conditionNote, is_default: false });
+      }
     }
     return { labId: lab.id };
   });

@@ -3,12 +3,14 @@ import { closeDb, getDb } from '../../db/index';
 import { DEMO_LAB } from '../../db/seeds/demo-data';
 import { signIn } from './helpers';
 
-// The seeded demo project: VX-A, VX-B, VX-C in order, each with analysed captures. Two targets are
-// added for the test and removed after it (invented values).
+// The seeded demo project: VX-A, VX-B, VX-C in order, each with analysed captures. Its seeded
+// targets are set aside; two targets are added for the test and removed after it, and the seeded
+// ones put back (invented values).
 let projectId: string;
 let labId: string;
 let readings: number;
 const targetIds: string[] = [];
+let seededTargets: Record<string, unknown>[] = [];
 
 test.beforeAll(async () => {
   const db = getDb();
@@ -17,6 +19,8 @@ test.beforeAll(async () => {
   labId = project.lab_id;
   const n = await db.raw('SELECT count(DISTINCT capture_set_id)::int AS n FROM readings WHERE project_id = ? AND ambient_contrast_ratio IS NOT NULL', [projectId]);
   readings = n.rows[0].n as number;
+  seededTargets = await db('targets').where({ project_id: projectId }).select('*');
+  await db('targets').where({ project_id: projectId }).delete();
   const rows = await db('targets')
     .insert([
       { lab_id: labId, project_id: projectId, metric: 'ambientContrastRatio', comparator: '>=', value: 1.2, condition_note: 'e2e trend test', is_default: true },
@@ -28,6 +32,7 @@ test.beforeAll(async () => {
 
 test.afterAll(async () => {
   await getDb()('targets').whereIn('id', targetIds).delete();
+  if (seededTargets.length) await getDb()('targets').insert(seededTargets);
   await closeDb();
 });
 
@@ -48,6 +53,8 @@ test('the trend chart draws means, a CI band, every capture and the target lines
   await expect(band).toHaveCount(1);
   expect((await band.getAttribute('d'))?.length ?? 0).toBeGreaterThan(20);
   await expect(svg.locator('.vm-trend-line path.recharts-line-curve')).toHaveCount(1);
+  // the interval also as whiskers on every mean (each revision here has at least 4 captures)
+  await expect(svg.locator('.vm-ci-whisker')).toHaveCount(revisionsWithData);
   await expect(chart.getByText('target ≥ 1.500:1')).toBeVisible();
   await expect(chart.getByText('target ≥ 1.200:1 (default)')).toBeVisible();
   await chart.screenshot({ path: testInfo.outputPath('trend-acr.png') });
