@@ -3,6 +3,7 @@
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { Button } from '@/components/ui/button';
+import { DataTable } from '@/components/ui/data-table';
 import { Field } from '@/components/ui/field';
 import { Notice } from '@/components/ui/panel';
 import { RectMarker, type MarkedRect } from './rect-marker';
@@ -141,24 +142,23 @@ export function LinearityForm() {
             {out.savedTo ? ` Saved on ${out.savedTo.name}.` : out.camera ? ' No profile for this camera yet: calibrate it to keep the check.' : ''}
           </p>
           {l.warning ? <Notice tone="fail">{l.warning.charAt(0).toUpperCase() + l.warning.slice(1)}.</Notice> : null}
-          <table className="w-full text-sm">
-            <thead>
-              <tr className="text-left text-muted">
-                <th>Step</th>
-                <th className="text-right">Expected</th>
-                <th className="text-right">Measured</th>
-              </tr>
-            </thead>
-            <tbody className="font-mono">
-              {l.expected.map((e, i) => (
-                <tr key={i}>
-                  <td>{i}</td>
-                  <td className="text-right">{e.toFixed(3)}</td>
-                  <td className="text-right">{out.clipped[i] ? 'clipped' : l.levels[i] === null ? '—' : (l.levels[i] as number).toFixed(3)}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
+          <DataTable
+            columns={[
+              { key: 'step', label: 'Step', numeric: true },
+              { key: 'expected', label: 'Expected', numeric: true },
+              { key: 'measured', label: 'Measured', numeric: true },
+            ]}
+            rows={l.expected.map((e, i) => ({
+              id: String(i),
+              cells: {
+                step: { text: String(i), sort: i },
+                expected: { text: e.toFixed(3), sort: e },
+                measured: { text: out.clipped[i] ? 'clipped' : l.levels[i] === null ? '—' : (l.levels[i] as number).toFixed(3), sort: out.clipped[i] ? null : l.levels[i] ?? null },
+              },
+            }))}
+            csvName="linearity-check"
+            testId="linearity-steps"
+          />
         </div>
       ) : null}
     </form>

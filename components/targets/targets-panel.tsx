@@ -2,6 +2,7 @@ import clsx from 'clsx';
 import { DEFAULT_TARGETS, DEFAULTS_CAVEAT } from '@/lib/targets/defaults';
 import { comparatorWords, STATUS_WORDS, type TargetCheck, type TargetStatus } from '@/lib/targets/evaluate';
 import { formatMetric, METRICS } from '@/lib/targets/metrics';
+import { DataTable, type Column, type Row } from '@/components/ui/data-table';
 import { AdoptDefaultButton, CreateTargetForm, EditTargetForm } from './target-forms';
 
 const TONE: Record<TargetStatus, string> = { pass: 'border-pass/50 bg-pass/10 text-pass', fail: 'border-fail/50 bg-fail/10 text-fail', 'no-data': 'border-line text-muted' };
@@ -14,39 +15,37 @@ export function StatusBadge({ status }: { status: TargetStatus }) {
   );
 }
 
-/** The targets judged on one revision: what each asks, the revision's mean, pass or fail. */
+/** The targets judged on one revision: what each asks, the revision's mean, pass or fail; sorts and exports CSV. */
 export function TargetChecks({ checks, scope }: { checks: TargetCheck[]; scope: string }) {
-  return (
-    <div className="overflow-x-auto rounded-md border border-line">
-      <table className="w-full text-sm" data-testid="target-checks">
-        <thead className="bg-raised text-left text-xs uppercase tracking-wider text-muted">
-          <tr>
-            <th scope="col" className="px-3 py-2">Target</th>
-            <th scope="col" className="px-3 py-2">Condition</th>
-            <th scope="col" className="px-3 py-2 text-right">{scope} mean</th>
-            <th scope="col" className="px-3 py-2 text-right">n</th>
-            <th scope="col" className="px-3 py-2">Status</th>
-          </tr>
-        </thead>
-        <tbody>
-          {checks.map((c) => (
-            <tr key={c.target.id} className="border-t border-line">
-              <td className="px-3 py-2">
-                {METRICS[c.target.metric].label} {comparatorWords(c.target.comparator)} {formatMetric(c.target.metric, c.target.value)}
-                {c.target.isDefault ? <span className="ml-2 rounded bg-raised px-1 text-xs text-muted">default</span> : null}
-              </td>
-              <td className="px-3 py-2 text-muted">{c.target.conditionNote || '—'}</td>
-              <td className="px-3 py-2 text-right font-mono tabular-nums">{formatMetric(c.target.metric, c.mean)}</td>
-              <td className="px-3 py-2 text-right font-mono tabular-nums">{c.n}</td>
-              <td className="px-3 py-2">
-                <StatusBadge status={c.status} />
-              </td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
-    </div>
-  );
+  const columns: Column[] = [
+    { key: 'target', label: 'Target' },
+    { key: 'condition', label: 'Condition' },
+    { key: 'mean', label: `${scope} mean`, numeric: true },
+    { key: 'n', label: 'n', numeric: true },
+    { key: 'status', label: 'Status' },
+  ];
+  const rows: Row[] = checks.map((c) => {
+    const asks = `${METRICS[c.target.metric].label} ${comparatorWords(c.target.comparator)} ${formatMetric(c.target.metric, c.target.value)}`;
+    return {
+      id: c.target.id,
+      cells: {
+        target: {
+          text: c.target.isDefault ? `${asks} (default)` : asks,
+          node: (
+            <>
+              {asks}
+              {c.target.isDefault ? <span className="ml-2 rounded bg-raised px-1 text-xs text-muted">default</span> : null}
+            </>
+          ),
+        },
+        condition: { text: c.target.conditionNote, node: <span className="text-muted">{c.target.conditionNote || '—'}</span> },
+        mean: { text: formatMetric(c.target.metric, c.mean), sort: c.mean },
+        n: { text: String(c.n), sort: c.n },
+        status: { text: STATUS_WORDS[c.status], node: <StatusBadge status={c.status} /> },
+      },
+    };
+  });
+  return <DataTable columns={columns} rows={rows} csvName={`targets-${scope}`} testId="target-checks" />;
 }
 
 /** Targets of a project: status on its latest measured revision, and editing for leads. */

@@ -5,8 +5,11 @@ import Link from 'next/link';
 import { useMemo, useState } from 'react';
 
 export type Column = { key: string; label: string; numeric?: boolean };
-/** A cell carries what to show and what to sort by; both are plain data (server → client). */
-export type Cell = { text: string; sort?: number | string | null };
+/**
+ * A cell carries what to show and what to sort by, as plain data (server → client). `node`, when
+ * given, is shown in place of the text (a badge, a note); the text still goes into the CSV.
+ */
+export type Cell = { text: string; sort?: number | string | null; node?: React.ReactNode };
 export type Row = { id: string; href?: string; cells: Record<string, Cell> };
 
 function csvEscape(s: string): string {
@@ -14,7 +17,7 @@ function csvEscape(s: string): string {
 }
 
 /** A table that sorts on any column and exports what it shows as CSV. */
-export function DataTable({ columns, rows, csvName, empty }: { columns: Column[]; rows: Row[]; csvName: string; empty?: React.ReactNode }) {
+export function DataTable({ columns, rows, csvName, empty, testId }: { columns: Column[]; rows: Row[]; csvName: string; empty?: React.ReactNode; testId?: string }) {
   const [sortKey, setSortKey] = useState<string | null>(null);
   const [desc, setDesc] = useState(false);
 
@@ -54,7 +57,7 @@ export function DataTable({ columns, rows, csvName, empty }: { columns: Column[]
         </button>
       </div>
       <div className="overflow-x-auto rounded-md border border-line">
-        <table className="w-full text-sm">
+        <table className="w-full text-sm" data-testid={testId}>
           <thead className="bg-raised text-left text-xs uppercase tracking-wider text-muted">
             <tr>
               {columns.map((c) => {
@@ -86,7 +89,8 @@ export function DataTable({ columns, rows, csvName, empty }: { columns: Column[]
             {sorted.map((r) => (
               <tr key={r.id} className="border-t border-line hover:bg-raised/60">
                 {columns.map((c, i) => {
-                  const text = r.cells[c.key]?.text ?? '';
+                  const cell = r.cells[c.key];
+                  const text = cell?.node ?? cell?.text ?? '';
                   return (
                     <td key={c.key} className={clsx('px-3 py-2', c.numeric ? 'whitespace-nowrap text-right font-mono tabular-nums' : i > 0 && 'whitespace-nowrap')}>
                       {i === 0 && r.href ? (
