@@ -78,3 +78,15 @@ test('a group that is not in the project says so and shows no statistics', async
   await expect(page.getByText('Group B is not a revision of this project')).toBeVisible();
   await expect(page.getByTestId('comparison-table')).toHaveCount(0);
 });
+
+test('a project with one group of readings says what to capture to compare, instead of an empty page', async ({ page }) => {
+  // the seeded helmet project: one measured revision, no variant labels
+  const project = await getDb()('projects as p').join('labs as l', 'l.id', 'p.lab_id').where({ 'l.name': DEMO_LAB, 'p.name': 'Ridgeline M2 helmet HUD' }).first<{ id: string }>('p.id');
+  await signIn(page, 'viewer@example.test');
+  await page.goto(`/projects/${project.id}/compare`);
+  const note = page.getByTestId('compare-one-group');
+  await expect(note).toContainText('Only one group has readings so far');
+  await expect(note).toContainText('M2-P1');
+  await expect(note).toContainText('variant labels');
+  await expect(page.getByTestId('comparison-table')).toHaveCount(0);
+});

@@ -80,6 +80,14 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
           ) : (
             <EmptyState title="Nothing measured yet">Analyse capture sets in two revisions (or two variants of one) to compare them.</EmptyState>
           )}
+          {options.length === 1 && !rawA && !rawB ? (
+            <div className="mt-3" data-testid="compare-one-group">
+              <EmptyState title="Only one group has readings so far">
+                {options[0]?.label}, {options[0]?.captures} capture {options[0]?.captures === 1 ? 'set' : 'sets'}. To compare two groups, analyse capture sets in a second revision, or
+                give the capture sets of one revision variant labels (say, with and without polarizer) on their capture set pages.
+              </EmptyState>
+            </div>
+          ) : null}
           {(rawA && !ga) || (rawB && !gb) ? (
             <div className="mt-3">
               <Notice tone="fail">{rawA && !ga ? 'Group A' : 'Group B'} is not a revision of this project. Pick it again from the list.</Notice>
