@@ -22,13 +22,17 @@ export type CaptureSetSummary = CaptureSet & {
   roles: string[];
   latestStatus: string | null;
   latestAcr: number | null;
+  /** Ghost ratio, see-through transmission and uniformity of the newest reading (null where it has none). */
+  latestGhost: number | null;
+  latestTransmission: number | null;
+  latestUniformity: number | null;
   latestReadingAt: Date | null;
 };
 
 type Row = {
   id: string; revision_id: string; revision_label: string; project_id: string; project_name: string; label: string; variant: string; pattern: 'full' | 'checkerboard';
   conditions: Conditions | null; notes: string; created_at: Date; updated_at: Date;
-  photo_count?: string | number; roles?: string[] | null; latest_status?: string | null; latest_acr?: number | null; latest_reading_at?: Date | null;
+  photo_count?: string | number; roles?: string[] | null; latest_status?: string | null; latest_acr?: number | null; latest_ghost?: number | null; latest_transmission?: number | null; latest_uniformity?: number | null; latest_reading_at?: Date | null;
 };
 
 const toSet = (r: Row): CaptureSet => ({
@@ -67,9 +71,14 @@ export async function listCaptureSets(labId: string, revisionId: string): Promis
       db.raw('(SELECT count(*) FROM photos ph WHERE ph.capture_set_id = c.id) AS photo_count'),
       db.raw('(SELECT array_agg(DISTINCT ph.role::text) FROM photos ph WHERE ph.capture_set_id = c.id) AS roles'),
       db.raw('(SELECT a.status FROM analyses a WHERE a.capture_set_id = c.id ORDER BY a.created_at DESC LIMIT 1) AS latest_status'),
-      db.raw('(SELECT g.ambient_contrast_ratio FROM readings g WHERE g.capture_set_id = c.id ORDER BY g.created_at DESC LIMIT 1) AS latest_acr'),
-      db.raw('(SELECT max(g.created_at) FROM readings g WHERE g.capture_set_id = c.id) AS latest_reading_at'),
+      'lr.ambient_contrast_ratio as latest_acr',
+      'lr.ghost_ratio as latest_ghost',
+      'lr.transmission as latest_transmission',
+      'lr.uniformity as latest_uniformity',
+      'lr.created_at as latest_reading_at',
     )
+    // the newest reading, one row per capture set
+    .joinRaw('LEFT JOIN LATERAL (SELECT g.ambient_contrast_ratio, g.ghost_ratio, g.transmission, g.uniformity, g.created_at FROM readings g WHERE g.capture_set_id = c.id ORDER BY g.created_at DESC LIMIT 1) lr ON true')
     .orderBy('c.created_at');
   return rows.map((r) => ({
     ...toSet(r),
@@ -77,6 +86,9 @@ export async function listCaptureSets(labId: string, revisionId: string): Promis
     roles: r.roles ?? [],
     latestStatus: r.latest_status ?? null,
     latestAcr: r.latest_acr ?? null,
+    latestGhost: r.latest_ghost ?? null,
+    latestTransmission: r.latest_transmission ?? null,
+    latestUniformity: r.latest_uniformity ?? null,
     latestReadingAt: r.latest_reading_at ?? null,
   }));
 }

@@ -80,4 +80,8 @@ test('the trend chart draws means, a CI band, every capture and the target lines
   await page.waitForURL(/\/revisions\//);
   await expect(page.getByTestId('revision-label')).toHaveText('VX-A');
   await expect(page.getByTestId('revision-target-summary')).toContainText('targets');
+  // its capture sets with the newest reading's ghost, transmission and uniformity beside the contrast
+  for (const name of ['Contrast ratio', 'Ghost', 'Transmission', 'Uniformity']) await expect(page.getByRole('columnheader', { name })).toBeVisible();
+  const firstSet = page.getByRole('row').filter({ hasText: 'Measured' }).first();
+  await expect(firstSet).toContainText(/0\.\d{4}/);
 });

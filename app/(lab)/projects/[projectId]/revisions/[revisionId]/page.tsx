@@ -12,6 +12,7 @@ import { can } from '@/lib/auth/permissions';
 import { requireActor } from '@/lib/auth/session';
 import { uuidSchema } from '@/lib/schemas/common';
 import { tally, tallyText } from '@/lib/targets/evaluate';
+import { formatMetric } from '@/lib/targets/metrics';
 
 const STATUS_TEXT: Record<string, string> = { queued: 'Queued', running: 'Running', done: 'Measured', failed: 'Failed' };
 
@@ -77,6 +78,9 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
               { key: 'lux', label: 'Ambient (lx)', numeric: true },
               { key: 'status', label: 'Analysis' },
               { key: 'acr', label: 'Contrast ratio', numeric: true },
+              { key: 'ghost', label: 'Ghost', numeric: true },
+              { key: 'transmission', label: 'Transmission', numeric: true },
+              { key: 'uniformity', label: 'Uniformity', numeric: true },
             ]}
             rows={sets.map((s) => ({
               id: s.id,
@@ -89,6 +93,9 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
                 lux: { text: s.conditions.ambientLux !== undefined ? String(s.conditions.ambientLux) : '—', sort: s.conditions.ambientLux ?? null },
                 status: { text: s.latestStatus ? (STATUS_TEXT[s.latestStatus] ?? s.latestStatus) : 'not analysed', sort: s.latestStatus },
                 acr: { text: s.latestAcr !== null ? s.latestAcr.toFixed(3) : '—', sort: s.latestAcr },
+                ghost: { text: formatMetric('ghostRatio', s.latestGhost, false), sort: s.latestGhost },
+                transmission: { text: formatMetric('transmission', s.latestTransmission, false), sort: s.latestTransmission },
+                uniformity: { text: formatMetric('uniformity', s.latestUniformity, false), sort: s.latestUniformity },
               },
             }))}
             empty={<EmptyState title="No capture sets yet">A capture set is one shot of the eyepiece view: on, off and ambient photos under stated conditions.</EmptyState>}
