@@ -42,6 +42,29 @@ export async function listProjects(labId: string): Promise<Project[]> {
   return rows.map(toProject);
 }
 
+/** A project's newest revision with readings, and the means over its capture sets' newest readings. */
+export type ProjectLatest = { projectId: string; revisionLabel: string; captures: number; acr: number | null; ghost: number | null; transmission: number | null };
+
+/** For each project of the lab that has readings: its highest-placed revision with readings and its means. */
+export async function listProjectLatest(labId: string): Promise<Map<string, ProjectLatest>> {
+  const res = await getDb().raw(
+    `SELECT lr.project_id, lr.label, count(n.ambient_contrast_ratio)::int AS captures,
+            avg(n.ambient_contrast_ratio) AS acr, avg(n.ghost_ratio) AS ghost, avg(n.transmission) AS transmission
+       FROM (SELECT DISTINCT ON (r.project_id) r.project_id, r.id, r.label
+               FROM revisions r
+              WHERE r.lab_id = ? AND EXISTS (SELECT 1 FROM readings g WHERE g.revision_id = r.id)
+              ORDER BY r.project_id, r.position DESC) lr
+       JOIN LATERAL (SELECT DISTINCT ON (g.capture_set_id) g.ambient_contrast_ratio, g.ghost_ratio, g.transmission
+                       FROM readings g
+                      WHERE g.revision_id = lr.id
+                      ORDER BY g.capture_set_id, g.created_at DESC) n ON true
+      GROUP BY lr.project_id, lr.label`,
+    [labId],
+  );
+  const rows = res.rows as { project_id: string; label: string; captures: number; acr: number | null; ghost: number | null; transmission: number | null }[];
+  return new Map(rows.map((r) => [r.project_id, { projectId: r.project_id, revisionLabel: r.label, captures: r.captures, acr: r.acr, ghost: r.ghost, transmission: r.transmission }]));
+}
+
 export async function getProject(labId: string, id: string): Promise<Project | null> {
   const row: Row | undefined = await withCounts(labId).andWhere('p.id', id).first();
   return row ? toProject(row) : null;

@@ -1,7 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { closeDb, getDb } from '../../db/index';
-import { createProject, deleteProject, getProject, listProjects, updateProject } from '../../db/queries/projects';
+import { createProject, deleteProject, getProject, listProjectLatest, listProjects, updateProject } from '../../db/queries/projects';
 import { createUserWithLab, getMembership, listMemberships } from '../../db/queries/users';
+import { insertFixtureProject, insertReading } from '../fixtures/readings-fixture';
 
 // Real PostgreSQL: every project query is scoped by the acting lab.
 let a: { userId: string; labId: string };
@@ -20,6 +21,27 @@ afterAll(async () => {
 });
 
 describe('project queries', () => {
+  it('give each project its highest-placed revision with readings, and means over the newest reading of each capture set', async () => {
+    // invented readings: R2 is the newest revision with readings; R3 has none
+    const fx = await insertFixtureProject(a.labId, `Latest ${tag}`, [
+      { label: 'R1', variants: [{ variant: '', readings: [{ acr: 1.5, ghost: 0.05 }, { acr: 1.7, ghost: 0.03 }] }] },
+      { label: 'R2', variants: [{ variant: 'bare', readings: [{ acr: 2, ghost: 0.02, transmission: 0.4 }] }, { variant: 'coated', readings: [{ acr: 3, ghost: 0.01 }] }] },
+    ]);
+    await getDb()('revisions').insert({ lab_id: a.labId, project_id: fx.projectId, label: 'R3', position: 3, status: 'planned' });
+    const r2 = fx.revisions.R2 as { id: string; captureSetIds: string[] };
+    // a newer re-run of the first R2 set replaces its figures in the means
+    await insertReading(a.labId, fx.projectId, r2.id, r2.captureSetIds[0] as string, { acr: 2.5, ghost: 0.03, transmission: 0.5 }, new Date(Date.now() + 60_000));
+    const latest = (await listProjectLatest(a.labId)).get(fx.projectId);
+    expect(latest).toMatchObject({ revisionLabel: 'R2', captures: 2 });
+    expect(latest?.acr).toBeCloseTo((2.5 + 3) / 2, 12);
+    expect(latest?.ghost).toBeCloseTo((0.03 + 0.01) / 2, 12);
+    // transmission of the coated set is missing: the mean is over the one set that has it
+    expect(latest?.transmission).toBeCloseTo(0.5, 12);
+    expect((await listProjectLatest(b.labId)).has(fx.projectId)).toBe(false);
+    const empty = await createProject(a.labId, a.userId, { name: `No readings ${tag}` });
+    expect((await listProjectLatest(a.labId)).has(empty.id)).toBe(false);
+  });
+
   it('make the creator of a lab its admin', async () => {
     expect(await getMembership(a.userId, a.labId)).toMatchObject({ role: 'admin' });
     expect(await getMembership(a.userId, b.labId)).toBeNull();

@@ -1,18 +1,19 @@
 import { CreateProjectForm } from '@/components/projects/project-forms';
 import { DataTable } from '@/components/ui/data-table';
 import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
-import { listProjects } from '@/db/queries/projects';
+import { listProjectLatest, listProjects } from '@/db/queries/projects';
 import { listProjectTargetStatus } from '@/db/queries/targets';
 import { can } from '@/lib/auth/permissions';
 import { requireActor } from '@/lib/auth/session';
 import { formatDate } from '@/lib/format';
 import { tally, tallyText } from '@/lib/targets/evaluate';
+import { formatMetric } from '@/lib/targets/metrics';
 
 export const metadata = { title: 'Projects' };
 
 export default async function ProjectsPage() {
   const actor = await requireActor();
-  const [projects, status] = await Promise.all([listProjects(actor.labId), listProjectTargetStatus(actor.labId)]);
+  const [projects, status, latest] = await Promise.all([listProjects(actor.labId), listProjectTargetStatus(actor.labId), listProjectLatest(actor.labId)]);
   const targetCell = (id: string) => {
     const s = status.get(id);
     if (!s) return { text: 'no targets', sort: null };
@@ -28,6 +29,9 @@ export default async function ProjectsPage() {
       revisions: { text: String(p.revisionCount), sort: p.revisionCount },
       captures: { text: String(p.captureCount), sort: p.captureCount },
       last: { text: p.lastReadingAt ? formatDate(p.lastReadingAt) : '—', sort: p.lastReadingAt?.getTime() ?? null },
+      newest: { text: latest.get(p.id)?.revisionLabel ?? '—', sort: latest.get(p.id)?.revisionLabel ?? null },
+      acr: { text: formatMetric('ambientContrastRatio', latest.get(p.id)?.acr), sort: latest.get(p.id)?.acr ?? null },
+      ghost: { text: formatMetric('ghostRatio', latest.get(p.id)?.ghost, false), sort: latest.get(p.id)?.ghost ?? null },
       targets: targetCell(p.id),
       updated: { text: formatDate(p.updatedAt), sort: p.updatedAt.getTime() },
     },
@@ -44,6 +48,9 @@ export default async function ProjectsPage() {
               { key: 'revisions', label: 'Revisions', numeric: true },
               { key: 'captures', label: 'Capture sets', numeric: true },
               { key: 'last', label: 'Last reading' },
+              { key: 'newest', label: 'Newest revision' },
+              { key: 'acr', label: 'Its contrast (mean)', numeric: true },
+              { key: 'ghost', label: 'Its ghost (mean)', numeric: true },
               { key: 'targets', label: 'Targets' },
               { key: 'updated', label: 'Updated' },
             ]}
