@@ -89,7 +89,7 @@ test('the trend chart draws means, a CI band, every capture and the target lines
 test('the projects list gives each project its newest measured revision with the mean contrast and ghost', async ({ page }) => {
   await signIn(page, 'viewer@example.test');
   await page.goto('/projects');
-  for (const name of ['Newest revision', 'Its contrast (mean)', 'Its ghost (mean)']) await expect(page.getByRole('columnheader', { name })).toBeVisible();
+  for (const name of ['Newest revision', 'Contrast (mean)', 'Ghost (mean)']) await expect(page.getByRole('columnheader', { name })).toBeVisible();
   // the visor project's highest-placed revision with readings (VX-C as seeded; other specs may add later ones)
   const newest = await getDb()('revisions as r').where({ 'r.project_id': projectId }).whereExists(getDb()('readings as g').whereRaw('g.revision_id = r.id')).orderBy('r.position', 'desc').first<{ label: string }>('r.label');
   const row = page.getByRole('row', { name: /Visor VX birdbath/ });

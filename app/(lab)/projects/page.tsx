@@ -39,7 +39,7 @@ export default async function ProjectsPage() {
   return (
     <>
       <PageTitle kicker={actor.labName} title="Projects" />
-      <div className="grid gap-6 xl:grid-cols-[1fr_22rem]">
+      <div className="grid gap-6 2xl:grid-cols-[minmax(0,1fr)_22rem]">
         <Panel title="All projects">
           <DataTable
             csvName="veilmeter-projects"
@@ -49,8 +49,8 @@ export default async function ProjectsPage() {
               { key: 'captures', label: 'Capture sets', numeric: true },
               { key: 'last', label: 'Last reading' },
               { key: 'newest', label: 'Newest revision' },
-              { key: 'acr', label: 'Its contrast (mean)', numeric: true },
-              { key: 'ghost', label: 'Its ghost (mean)', numeric: true },
+              { key: 'acr', label: 'Contrast (mean)', numeric: true },
+              { key: 'ghost', label: 'Ghost (mean)', numeric: true },
               { key: 'targets', label: 'Targets' },
               { key: 'updated', label: 'Updated' },
             ]}

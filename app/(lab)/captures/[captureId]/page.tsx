@@ -55,7 +55,7 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
         {set.notes ? ` · ${set.notes}` : ''}
       </p>
       <div className="space-y-6">
-        <div className="grid gap-6 xl:grid-cols-[1fr_22rem]">
+        <div className="grid gap-6 xl:grid-cols-[minmax(0,1fr)_22rem]">
           <Panel title="Photos">
             <UploadPanel
               captureSetId={set.id}
