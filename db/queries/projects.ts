@@ -45,18 +45,18 @@ export async function listProjects(labId: string): Promise<Project[]> {
 /** A project's newest revision with readings, and the means over its capture sets' newest readings. */
 export type ProjectLatest = { projectId: string; revisionLabel: string; captures: number; acr: number | null; ghost: number | null; transmission: number | null };
 
-/** For each project of the lab that has readings: its highest-placed revision with readings and its means. */
+/** For each project of the lab that has readings: its highest-placed revision with readings and its means (project_id in each filter lets the readings index serve). */
 export async function listProjectLatest(labId: string): Promise<Map<string, ProjectLatest>> {
   const res = await getDb().raw(
     `SELECT lr.project_id, lr.label, count(n.ambient_contrast_ratio)::int AS captures,
             avg(n.ambient_contrast_ratio) AS acr, avg(n.ghost_ratio) AS ghost, avg(n.transmission) AS transmission
        FROM (SELECT DISTINCT ON (r.project_id) r.project_id, r.id, r.label
                FROM revisions r
-              WHERE r.lab_id = ? AND EXISTS (SELECT 1 FROM readings g WHERE g.revision_id = r.id)
+              WHERE r.lab_id = ? AND EXISTS (SELECT 1 FROM readings g WHERE g.project_id = r.project_id AND g.revision_id = r.id)
               ORDER BY r.project_id, r.position DESC) lr
        JOIN LATERAL (SELECT DISTINCT ON (g.capture_set_id) g.ambient_contrast_ratio, g.ghost_ratio, g.transmission
                        FROM readings g
-                      WHERE g.revision_id = lr.id
+                      WHERE g.project_id = lr.project_id AND g.revision_id = lr.id
                       ORDER BY g.capture_set_id, g.created_at DESC) n ON true
       GROUP BY lr.project_id, lr.label`,
     [labId],
