@@ -42,26 +42,36 @@ export async function listProjects(labId: string): Promise<Project[]> {
   return rows.map(toProject);
 }
 
+/**
+ * Each project's highest-placed revision that has readings, one row per project (project_id, id,
+ * label): the revision the projects list and the target status speak of. project_id in the filter
+ * lets the readings index serve it.
+ */
+export function newestMeasuredRevisions(labId: string) {
+  const db = getDb();
+  return db('revisions as r')
+    .where('r.lab_id', labId)
+    .whereExists(db('readings as g').whereRaw('g.project_id = r.project_id AND g.revision_id = r.id'))
+    .select(db.raw('DISTINCT ON (r.project_id) r.project_id, r.id, r.label'))
+    .orderBy([{ column: 'r.project_id' }, { column: 'r.position', order: 'desc' }]);
+}
+
 /** A project's newest revision with readings, and the means over its capture sets' newest readings. */
 export type ProjectLatest = { projectId: string; revisionLabel: string; captures: number; acr: number | null; ghost: number | null; transmission: number | null };
 
-/** For each project of the lab that has readings: its highest-placed revision with readings and its means (project_id in each filter lets the readings index serve). */
+/** For each project of the lab that has readings: its newest measured revision and its means. */
 export async function listProjectLatest(labId: string): Promise<Map<string, ProjectLatest>> {
-  const res = await getDb().raw(
-    `SELECT lr.project_id, lr.label, count(n.ambient_contrast_ratio)::int AS captures,
-            avg(n.ambient_contrast_ratio) AS acr, avg(n.ghost_ratio) AS ghost, avg(n.transmission) AS transmission
-       FROM (SELECT DISTINCT ON (r.project_id) r.project_id, r.id, r.label
-               FROM revisions r
-              WHERE r.lab_id = ? AND EXISTS (SELECT 1 FROM readings g WHERE g.project_id = r.project_id AND g.revision_id = r.id)
-              ORDER BY r.project_id, r.position DESC) lr
-       JOIN LATERAL (SELECT DISTINCT ON (g.capture_set_id) g.ambient_contrast_ratio, g.ghost_ratio, g.transmission
+  const db = getDb();
+  const rows: { project_id: string; label: string; captures: number; acr: number | null; ghost: number | null; transmission: number | null }[] = await db
+    .from(newestMeasuredRevisions(labId).as('lr'))
+    .joinRaw(
+      `JOIN LATERAL (SELECT DISTINCT ON (g.capture_set_id) g.ambient_contrast_ratio, g.ghost_ratio, g.transmission
                        FROM readings g
                       WHERE g.project_id = lr.project_id AND g.revision_id = lr.id
-                      ORDER BY g.capture_set_id, g.created_at DESC) n ON true
-      GROUP BY lr.project_id, lr.label`,
-    [labId],
-  );
-  const rows = res.rows as { project_id: string; label: string; captures: number; acr: number | null; ghost: number | null; transmission: number | null }[];
+                      ORDER BY g.capture_set_id, g.created_at DESC) n ON true`,
+    )
+    .groupBy('lr.project_id', 'lr.label')
+    .select('lr.project_id', 'lr.label', db.raw('count(n.ambient_contrast_ratio)::int AS captures'), db.raw('avg(n.ambient_contrast_ratio) AS acr'), db.raw('avg(n.ghost_ratio) AS ghost'), db.raw('avg(n.transmission) AS transmission'));
   return new Map(rows.map((r) => [r.project_id, { projectId: r.project_id, revisionLabel: r.label, captures: r.captures, acr: r.acr, ghost: r.ghost, transmission: r.transmission }]));
 }
 

@@ -4,6 +4,7 @@ import { recordAudit } from './audit';
 import { checkTarget, type Target, type TargetCheck } from '../../lib/targets/evaluate';
 import { isMetricKey, type MetricKey } from '../../lib/targets/metrics';
 import { values } from '../../lib/targets/series';
+import { newestMeasuredRevisions } from './projects';
 import { listNewestReadings } from './trends';
 
 type Row = { id: string; project_id: string; metric: string; comparator: '>=' | '<='; value: number; condition_note: string; is_default: boolean };
@@ -78,11 +79,7 @@ export async function listProjectTargetStatus(labId: string): Promise<Map<string
   const db = getDb();
   const [targetRows, latest] = await Promise.all([
     db('targets').where({ lab_id: labId }).select<Row[]>('*'),
-    db('revisions as r')
-      .where('r.lab_id', labId)
-      .whereExists(db('readings as g').whereRaw('g.revision_id = r.id'))
-      .select(db.raw('DISTINCT ON (r.project_id) r.project_id, r.id, r.label'))
-      .orderBy([{ column: 'r.project_id' }, { column: 'r.position', order: 'desc' }]) as Promise<{ project_id: string; id: string; label: string }[]>,
+    newestMeasuredRevisions(labId) as Promise<{ project_id: string; id: string; label: string }[]>,
   ]);
   const out = new Map<string, ProjectTargetStatus>();
   const targetsByProject = new Map<string, Target[]>();

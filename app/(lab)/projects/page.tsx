@@ -21,21 +21,24 @@ export default async function ProjectsPage() {
     // failing first when sorted: the projects that need a look
     return { text: s.revisionLabel ? `${s.revisionLabel} ${tallyText(t)}` : tallyText(t), sort: t.fail > 0 ? 0 : t.pass > 0 ? 1 : 2 };
   };
-  const rows = projects.map((p) => ({
-    id: p.id,
-    href: `/projects/${p.id}`,
-    cells: {
-      name: { text: p.name },
-      revisions: { text: String(p.revisionCount), sort: p.revisionCount },
-      captures: { text: String(p.captureCount), sort: p.captureCount },
-      last: { text: p.lastReadingAt ? formatDate(p.lastReadingAt) : '—', sort: p.lastReadingAt?.getTime() ?? null },
-      newest: { text: latest.get(p.id)?.revisionLabel ?? '—', sort: latest.get(p.id)?.revisionLabel ?? null },
-      acr: { text: formatMetric('ambientContrastRatio', latest.get(p.id)?.acr), sort: latest.get(p.id)?.acr ?? null },
-      ghost: { text: formatMetric('ghostRatio', latest.get(p.id)?.ghost, false), sort: latest.get(p.id)?.ghost ?? null },
-      targets: targetCell(p.id),
-      updated: { text: formatDate(p.updatedAt), sort: p.updatedAt.getTime() },
-    },
-  }));
+  const rows = projects.map((p) => {
+    const l = latest.get(p.id);
+    return {
+      id: p.id,
+      href: `/projects/${p.id}`,
+      cells: {
+        name: { text: p.name },
+        revisions: { text: String(p.revisionCount), sort: p.revisionCount },
+        captures: { text: String(p.captureCount), sort: p.captureCount },
+        last: { text: p.lastReadingAt ? formatDate(p.lastReadingAt) : '—', sort: p.lastReadingAt?.getTime() ?? null },
+        newest: { text: l?.revisionLabel ?? '—', sort: l?.revisionLabel ?? null },
+        acr: { text: formatMetric('ambientContrastRatio', l?.acr), sort: l?.acr ?? null },
+        ghost: { text: formatMetric('ghostRatio', l?.ghost, false), sort: l?.ghost ?? null },
+        targets: targetCell(p.id),
+        updated: { text: formatDate(p.updatedAt), sort: p.updatedAt.getTime() },
+      },
+    };
+  });
   return (
     <>
       <PageTitle kicker={actor.labName} title="Projects" />
