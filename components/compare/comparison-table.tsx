@@ -1,6 +1,10 @@
+'use client';
+
 import clsx from 'clsx';
+import { useMemo, useState } from 'react';
+import { SortButton } from '@/components/ui/sort-header';
 import { formatPValue } from '@/lib/stats';
-import type { MetricComparison } from '@/lib/targets/compare';
+import { orderComparisons, relativeChange, type ComparisonOrder, type MetricComparison } from '@/lib/targets/compare';
 import { formatMetric, METRICS } from '@/lib/targets/metrics';
 import type { GroupStats } from '@/lib/targets/series';
 
@@ -8,6 +12,13 @@ function meanCi(key: MetricComparison['metric'], s: GroupStats) {
   if (s.mean === null) return '—';
   if (s.halfWidth === null) return formatMetric(key, s.mean, false);
   return `${formatMetric(key, s.mean, false)} ± ${formatMetric(key, s.halfWidth, false)}`;
+}
+
+function changeText(r: MetricComparison): string {
+  const c = relativeChange(r);
+  if (c === null) return '—';
+  const pct = Math.abs(c * 100);
+  return `${c >= 0 ? '+' : '−'}${pct >= 100 ? pct.toFixed(0) : pct.toFixed(1)} %`;
 }
 
 const LEVEL_TONE: Record<MetricComparison['level'], string> = {
@@ -18,26 +29,50 @@ const LEVEL_TONE: Record<MetricComparison['level'], string> = {
   'no-data': 'text-muted',
 };
 
-/** Per metric: each group's n and mean ± 95% CI, B − A with its CI, Welch t, df, p and the verdict. */
+const NUM = 'px-2 pt-2 whitespace-nowrap text-right font-mono tabular-nums';
+
+/**
+ * Per metric: each group's n and mean ± 95% CI, B − A with its CI, the change as a share of A,
+ * Welch t, df, p and the verdict. Sorts by metric (the catalogue's order), by the size of the
+ * change or by p; each verdict stays under its metric.
+ */
 export function ComparisonTable({ rows, aLabel, bLabel }: { rows: MetricComparison[]; aLabel: string; bLabel: string }) {
+  const [order, setOrder] = useState<ComparisonOrder>('metric');
+  const [reverse, setReverse] = useState(false);
+  const sorted = useMemo(() => orderComparisons(rows, order, reverse), [rows, order, reverse]);
+  const sortBy = (o: ComparisonOrder) => () => {
+    if (o === order) setReverse(!reverse);
+    else {
+      setOrder(o);
+      setReverse(false);
+    }
+  };
+  const ariaSort = (o: ComparisonOrder) => (o === order ? (reverse ? 'descending' : 'ascending') : 'none');
   return (
     <div className="overflow-x-auto rounded-md border border-line">
-      <table className="w-full text-sm" data-testid="comparison-table">
+      <table className="w-full text-sm" data-testid="comparison-table" data-order={order} data-reverse={reverse ? 'yes' : 'no'}>
         <thead className="bg-raised text-left text-xs uppercase tracking-wider text-muted">
           <tr>
-            <th scope="col" className="px-3 py-2">Metric</th>
-            <th scope="col" className="px-3 py-2 text-right">n A</th>
-            <th scope="col" className="px-3 py-2 text-right" title={aLabel}>A mean ± CI</th>
-            <th scope="col" className="px-3 py-2 text-right">n B</th>
-            <th scope="col" className="px-3 py-2 text-right" title={bLabel}>B mean ± CI</th>
-            <th scope="col" className="px-3 py-2 text-right">B − A ± CI</th>
-            <th scope="col" className="px-3 py-2 text-right">Welch t</th>
-            <th scope="col" className="px-3 py-2 text-right">df</th>
-            <th scope="col" className="px-3 py-2 text-right">p</th>
+            <th scope="col" className="px-3 py-2" aria-sort={ariaSort('metric')}>
+              <SortButton label="Metric" active={order === 'metric'} desc={reverse} onClick={sortBy('metric')} />
+            </th>
+            <th scope="col" className="px-2 py-2 text-right">n A</th>
+            <th scope="col" className="px-2 py-2 text-right" title={aLabel}>A mean ± CI</th>
+            <th scope="col" className="px-2 py-2 text-right">n B</th>
+            <th scope="col" className="px-2 py-2 text-right" title={bLabel}>B mean ± CI</th>
+            <th scope="col" className="px-2 py-2 text-right">B − A ± CI</th>
+            <th scope="col" className="px-2 py-2 text-right" aria-sort={ariaSort('change')}>
+              <SortButton label="Change" active={order === 'change'} desc={reverse} onClick={sortBy('change')} title="(B − A) as a share of A’s mean; sorts the largest change first" />
+            </th>
+            <th scope="col" className="px-2 py-2 text-right">Welch t</th>
+            <th scope="col" className="px-2 py-2 text-right">df</th>
+            <th scope="col" className="px-2 py-2 text-right" aria-sort={ariaSort('p')}>
+              <SortButton label="p" active={order === 'p'} desc={reverse} onClick={sortBy('p')} title="Sorts the smallest p first" />
+            </th>
           </tr>
         </thead>
         <tbody>
-          {rows.map((r) => {
+          {sorted.map((r) => {
             const m = METRICS[r.metric];
             const t = r.test;
             return [
@@ -46,19 +81,22 @@ export function ComparisonTable({ rows, aLabel, bLabel }: { rows: MetricComparis
                   {m.label}
                   {m.unit && m.unit !== ':1' ? <span className="ml-1 text-xs text-muted">({m.unit})</span> : null}
                 </th>
-                <td className="px-3 pt-2 whitespace-nowrap text-right font-mono tabular-nums">{r.a.n}</td>
-                <td className="px-3 pt-2 whitespace-nowrap text-right font-mono tabular-nums">{meanCi(r.metric, r.a)}</td>
-                <td className="px-3 pt-2 whitespace-nowrap text-right font-mono tabular-nums">{r.b.n}</td>
-                <td className="px-3 pt-2 whitespace-nowrap text-right font-mono tabular-nums">{meanCi(r.metric, r.b)}</td>
-                <td className="px-3 pt-2 whitespace-nowrap text-right font-mono tabular-nums" data-testid={`difference-${r.metric}`}>
+                <td className={NUM}>{r.a.n}</td>
+                <td className={NUM}>{meanCi(r.metric, r.a)}</td>
+                <td className={NUM}>{r.b.n}</td>
+                <td className={NUM}>{meanCi(r.metric, r.b)}</td>
+                <td className={NUM} data-testid={`difference-${r.metric}`}>
                   {t ? `${t.difference >= 0 ? '+' : '−'}${formatMetric(r.metric, Math.abs(t.difference), false)} ± ${formatMetric(r.metric, t.ci.halfWidth, false)}` : '—'}
                 </td>
-                <td className="px-3 pt-2 whitespace-nowrap text-right font-mono tabular-nums">{t && Number.isFinite(t.t) ? t.t.toFixed(2) : '—'}</td>
-                <td className="px-3 pt-2 whitespace-nowrap text-right font-mono tabular-nums">{t ? t.df.toFixed(1) : '—'}</td>
-                <td className="px-3 pt-2 whitespace-nowrap text-right font-mono tabular-nums">{t ? formatPValue(t.p).replace(/^p = /, '').replace(/^p < /, '< ') : '—'}</td>
+                <td className={NUM} data-testid={`change-${r.metric}`}>
+                  {changeText(r)}
+                </td>
+                <td className={NUM}>{t && Number.isFinite(t.t) ? t.t.toFixed(2) : '—'}</td>
+                <td className={NUM}>{t ? t.df.toFixed(1) : '—'}</td>
+                <td className={NUM}>{t ? formatPValue(t.p).replace(/^p = /, '').replace(/^p < /, '< ') : '—'}</td>
               </tr>,
               <tr key={`${r.metric}-v`}>
-                <td colSpan={9} className={clsx('px-3 pb-2 text-xs', LEVEL_TONE[r.level])} data-testid={`verdict-${r.metric}`}>
+                <td colSpan={10} className={clsx('px-3 pb-2 text-xs', LEVEL_TONE[r.level])} data-testid={`verdict-${r.metric}`}>
                   {r.verdict}
                 </td>
               </tr>,

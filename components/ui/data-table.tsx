@@ -3,6 +3,7 @@
 import clsx from 'clsx';
 import Link from 'next/link';
 import { useMemo, useState } from 'react';
+import { SortButton } from './sort-header';
 
 export type Column = { key: string; label: string; numeric?: boolean };
 /**
@@ -64,9 +65,10 @@ export function DataTable({ columns, rows, csvName, empty, testId }: { columns: 
                 const active = sortKey === c.key;
                 return (
                   <th key={c.key} scope="col" className={clsx('px-3 py-2 font-medium', c.numeric && 'text-right')} aria-sort={active ? (desc ? 'descending' : 'ascending') : 'none'}>
-                    <button
-                      type="button"
-                      className="inline-flex items-center gap-1 hover:text-ink"
+                    <SortButton
+                      label={c.label}
+                      active={active}
+                      desc={desc}
                       onClick={() => {
                         if (active) setDesc(!desc);
                         else {
@@ -74,12 +76,7 @@ export function DataTable({ columns, rows, csvName, empty, testId }: { columns: 
                           setDesc(false);
                         }
                       }}
-                    >
-                      {c.label}
-                      <span aria-hidden className={clsx('text-[10px]', active ? 'text-beam' : 'opacity-30')}>
-                        {active && desc ? '▼' : '▲'}
-                      </span>
-                    </button>
+                    />
                   </th>
                 );
               })}

@@ -51,3 +51,40 @@ export function compareGroups(a: { label: string; readings: readonly SetReading[
     return { metric: m.key, a: sa, b: sb, test: v.comparison, level: v.level, verdict: v.text };
   });
 }
+
+/** B's mean against A's as a share of A's ((B − A) / |A|); null without both means or when A's is 0. */
+export function relativeChange(r: Pick<MetricComparison, 'a' | 'b'>): number | null {
+  const a = r.a.mean;
+  const b = r.b.mean;
+  if (a === null || b === null || a === 0 || !Number.isFinite(a) || !Number.isFinite(b)) return null;
+  return (b - a) / Math.abs(a);
+}
+
+/** How the comparison table can be ordered: the catalogue's order, the size of the change, or the p value. */
+export type ComparisonOrder = 'metric' | 'change' | 'p';
+
+/**
+ * Rows ordered for the table. `change` puts the largest |relative change| first and `p` the
+ * smallest p first (reversed when `reverse`); rows without the figure always go last, and ties
+ * keep the catalogue's order.
+ */
+export function orderComparisons(rows: readonly MetricComparison[], order: ComparisonOrder, reverse = false): MetricComparison[] {
+  const key = (r: MetricComparison): number | null => {
+    if (order === 'change') {
+      const c = relativeChange(r);
+      return c === null ? null : -Math.abs(c);
+    }
+    if (order === 'p') return r.test && Number.isFinite(r.test.p) ? r.test.p : null;
+    return null;
+  };
+  const position = new Map(METRIC_LIST.map((m, i) => [m.key, i]));
+  const catalogue = (x: MetricComparison, y: MetricComparison): number => (position.get(x.metric) ?? 0) - (position.get(y.metric) ?? 0);
+  return [...rows].sort((x, y) => {
+    if (order === 'metric') return reverse ? catalogue(y, x) : catalogue(x, y);
+    const kx = key(x);
+    const ky = key(y);
+    if (kx === null || ky === null) return kx === ky ? catalogue(x, y) : kx === null ? 1 : -1;
+    const d = reverse ? ky - kx : kx - ky;
+    return d !== 0 ? d : catalogue(x, y);
+  });
+}

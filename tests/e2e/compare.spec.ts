@@ -37,8 +37,9 @@ test('the VX-B variants compare with a difference, its CI, Welch figures and a p
   const row = page.locator('tr[data-metric="ambientContrastRatio"] td');
   await expect(row.nth(0)).toHaveText('5');
   await expect(row.nth(2)).toHaveText('5');
-  await expect(row.nth(5)).toHaveText(/^-?\d+\.\d\d$/); // Welch t
-  await expect(row.nth(6)).toHaveText(/^\d+\.\d$/); // df
+  await expect(row.nth(5)).toHaveText(/^[+−]\d+(\.\d)? %$/); // change as a share of A
+  await expect(row.nth(6)).toHaveText(/^-?\d+\.\d\d$/); // Welch t
+  await expect(row.nth(7)).toHaveText(/^\d+\.\d$/); // df
 
   // previews of both sides with the measured regions drawn over them
   await expect(page.getByTestId('compare-preview')).toHaveCount(8);
@@ -50,6 +51,53 @@ test('the VX-B variants compare with a difference, its CI, Welch figures and a p
   // the same URL opened afresh shows the same comparison
   await page.goto(url.toString());
   await expect(page.getByTestId('difference-ambientContrastRatio')).toHaveText(await diff.innerText());
+});
+
+test('the comparison sorts by the size of the change and by p, each verdict staying under its metric', async ({ page }) => {
+  await signIn(page, 'viewer@example.test');
+  await page.goto(`/projects/${projectId}/compare?a=${encodeURIComponent(`${revisions['VX-B']}:no polarizer`)}&b=${encodeURIComponent(`${revisions['VX-B']}:with polarizer`)}`);
+  const table = page.getByTestId('comparison-table');
+  const metricRows = table.locator('tbody tr[data-metric]');
+  const catalogue = await metricRows.evaluateAll((els) => els.map((e) => e.getAttribute('data-metric')));
+  // a figure per row in the order shown; '—' (no figure) as null
+  const column = (n: number) =>
+    metricRows.evaluateAll(
+      (els, i) =>
+        els.map((e) => {
+          const t = (e.querySelectorAll('td')[i]?.textContent ?? '').trim();
+          if (t === '—') return null;
+          const below = t.startsWith('<');
+          const v = Number(t.replace(/^< /, '').replace('−', '-').replace(' %', ''));
+          return below ? v / 2 : v;
+        }),
+      n,
+    );
+  const verdictFollows = () => table.locator('tbody tr').evaluateAll((els) => els.every((e, i) => (i % 2 === 0 ? e.hasAttribute('data-metric') : els[i - 1]?.getAttribute('data-metric') === e.querySelector('td')?.getAttribute('data-testid')?.replace('verdict-', ''))));
+
+  await page.getByRole('button', { name: 'Change' }).click();
+  await expect(table).toHaveAttribute('data-order', 'change');
+  const changes = await column(5);
+  const sizes = changes.filter((v): v is number => v !== null).map(Math.abs);
+  expect(sizes.length).toBeGreaterThan(2);
+  expect(sizes).toEqual([...sizes].sort((x, y) => y - x));
+  expect(changes.slice(sizes.length).every((v) => v === null)).toBe(true);
+  expect(await verdictFollows()).toBe(true);
+
+  await page.getByRole('button', { name: 'p', exact: true }).click();
+  await expect(table).toHaveAttribute('data-order', 'p');
+  const ps = (await column(8)).filter((v): v is number => v !== null);
+  expect(ps.length).toBeGreaterThan(2);
+  expect(ps).toEqual([...ps].sort((x, y) => x - y));
+  expect(await verdictFollows()).toBe(true);
+  await expect(table.locator('th[aria-sort="ascending"]')).toContainText('p');
+
+  // the metric heading twice: back to the catalogue's order, then reversed
+  await page.getByRole('button', { name: 'Metric' }).click();
+  await expect(table).toHaveAttribute('data-order', 'metric');
+  expect(await metricRows.evaluateAll((els) => els.map((e) => e.getAttribute('data-metric')))).toEqual(catalogue);
+  await page.getByRole('button', { name: 'Metric' }).click();
+  await expect(table).toHaveAttribute('data-reverse', 'yes');
+  expect(await metricRows.evaluateAll((els) => els.map((e) => e.getAttribute('data-metric')))).toEqual([...catalogue].reverse());
 });
 
 test('the project page links to a comparison already chosen in the URL', async ({ page }) => {

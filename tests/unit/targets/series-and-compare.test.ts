@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { compareVerdict, summarise, welchTest } from '../../../lib/stats';
-import { compareGroups, decodeGroup, encodeGroup } from '../../../lib/targets/compare';
+import { compareGroups, decodeGroup, encodeGroup, orderComparisons, relativeChange } from '../../../lib/targets/compare';
 import { METRIC_KEYS, type MetricKey } from '../../../lib/targets/metrics';
 import { buildTrends, type SetReading } from '../../../lib/targets/series';
 
@@ -67,5 +67,34 @@ describe('comparisons', () => {
     expect(acr?.test).toBeNull();
     expect(acr?.verdict).toMatch(/^Too few captures to tell/);
     expect(rows.find((r) => r.metric === 'ghostRatio')?.level).toBe('no-data');
+  });
+
+  it('order by the size of the change or by p, with the rows lacking the figure last', () => {
+    // invented: three metrics measured in both groups, the others in neither
+    const set = (revisionId: string, acr: number, mich: number, ghost: number): SetReading => {
+      const r = reading(revisionId, acr);
+      r.values.michelson = mich;
+      r.values.ghostRatio = ghost;
+      return r;
+    };
+    const a = [set('a', 1.2, 0.5, 0.02), set('a', 1.22, 0.52, 0.021), set('a', 1.21, 0.49, 0.019)];
+    const b = [set('b', 1.5, 0.51, 0.01), set('b', 1.48, 0.5, 0.011), set('b', 1.52, 0.53, 0.009)];
+    const rows = compareGroups({ label: 'A', readings: a }, { label: 'B', readings: b });
+    const acr = rows.find((r) => r.metric === 'ambientContrastRatio');
+    // (B − A) / |A| from the means: 1.5 against 1.21
+    expect(relativeChange(acr as NonNullable<typeof acr>)).toBeCloseTo((1.5 - 1.21) / 1.21, 12);
+    expect(relativeChange(rows.find((r) => r.metric === 'uniformity') as (typeof rows)[number])).toBeNull();
+    // ghost −50 %, contrast ratio +24 %, Michelson +2 %; the unmeasured metrics keep the catalogue's order after them
+    const byChange = orderComparisons(rows, 'change').map((r) => r.metric);
+    expect(byChange).toEqual(['ghostRatio', 'ambientContrastRatio', 'michelson', 'ansiContrast', 'uniformity', 'transmission', 'tintDeltaE00']);
+    expect(orderComparisons(rows, 'change', true).map((r) => r.metric).slice(0, 3)).toEqual(['michelson', 'ambientContrastRatio', 'ghostRatio']);
+    const byP = orderComparisons(rows, 'p');
+    const ps = byP.flatMap((r) => (r.test ? [r.test.p] : []));
+    expect(ps).toHaveLength(3);
+    expect(ps).toEqual([...ps].sort((x, y) => x - y));
+    expect(byP[0]?.metric).not.toBe('michelson');
+    expect(byP.slice(3).every((r) => r.test === null)).toBe(true);
+    expect(orderComparisons(byChange.map((k) => rows.find((r) => r.metric === k) as (typeof rows)[number]), 'metric').map((r) => r.metric)).toEqual(rows.map((r) => r.metric));
+    expect(orderComparisons(rows, 'metric', true).map((r) => r.metric)).toEqual(rows.map((r) => r.metric).reverse());
   });
 });
