@@ -4,7 +4,7 @@ import clsx from 'clsx';
 import { useMemo, useState } from 'react';
 import { SortButton } from '@/components/ui/sort-header';
 import { formatPValue } from '@/lib/stats';
-import { orderComparisons, relativeChange, type ComparisonOrder, type MetricComparison } from '@/lib/targets/compare';
+import { formatChange, orderComparisons, type ComparisonOrder, type MetricComparison } from '@/lib/targets/compare';
 import { formatMetric, METRICS } from '@/lib/targets/metrics';
 import type { GroupStats } from '@/lib/targets/series';
 
@@ -12,13 +12,6 @@ function meanCi(key: MetricComparison['metric'], s: GroupStats) {
   if (s.mean === null) return '—';
   if (s.halfWidth === null) return formatMetric(key, s.mean, false);
   return `${formatMetric(key, s.mean, false)} ± ${formatMetric(key, s.halfWidth, false)}`;
-}
-
-function changeText(r: MetricComparison): string {
-  const c = relativeChange(r);
-  if (c === null) return '—';
-  const pct = Math.abs(c * 100);
-  return `${c >= 0 ? '+' : '−'}${pct >= 100 ? pct.toFixed(0) : pct.toFixed(1)} %`;
 }
 
 const LEVEL_TONE: Record<MetricComparison['level'], string> = {
@@ -89,7 +82,7 @@ export function ComparisonTable({ rows, aLabel, bLabel }: { rows: MetricComparis
                   {t ? `${t.difference >= 0 ? '+' : '−'}${formatMetric(r.metric, Math.abs(t.difference), false)} ± ${formatMetric(r.metric, t.ci.halfWidth, false)}` : '—'}
                 </td>
                 <td className={NUM} data-testid={`change-${r.metric}`}>
-                  {changeText(r)}
+                  {formatChange(r)}
                 </td>
                 <td className={NUM}>{t && Number.isFinite(t.t) ? t.t.toFixed(2) : '—'}</td>
                 <td className={NUM}>{t ? t.df.toFixed(1) : '—'}</td>

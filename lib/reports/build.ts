@@ -6,7 +6,7 @@ import { getProjectTrend } from '../../db/queries/trends';
 import { getDb } from '../../db/index';
 import { notFound } from '../errors';
 import { formatPValue } from '../stats';
-import { compareGroups, type GroupKey } from '../targets/compare';
+import { compareGroups, formatChange, type GroupKey } from '../targets/compare';
 import { DEFAULTS_CAVEAT } from '../targets/defaults';
 import { comparatorWords, STATUS_WORDS, type Target, type TargetCheck } from '../targets/evaluate';
 import { formatMetric, METRIC_LIST, METRICS, type MetricKey } from '../targets/metrics';
@@ -133,7 +133,7 @@ export async function loadComparison(labId: string, projectId: string, a: GroupK
   return { a: ga, b: gb, metrics: compareGroups(ga, gb) };
 }
 
-/** The PDF of a comparison: B against A per metric with CI, Welch t, df, p and the verdict. */
+/** The PDF of a comparison: B against A per metric with CI, the change as a share of A, Welch t, df, p and the verdict. */
 export async function comparisonReport(labId: string, projectId: string, a: GroupKey, b: GroupKey, opts: ReportOptions): Promise<{ bytes: Buffer; name: string }> {
   const project = await getDb()('projects').where({ lab_id: labId, id: projectId }).first<{ id: string; name: string } | undefined>('id', 'name');
   if (!project) throw notFound('No such project');
@@ -149,6 +149,7 @@ export async function comparisonReport(labId: string, projectId: string, a: Grou
       { header: `A: ${cmp.a.label}`, width: 2.4, align: 'right' },
       { header: `B: ${cmp.b.label}`, width: 2.4, align: 'right' },
       { header: 'B − A ± 95% CI', width: 2.4, align: 'right' },
+      { header: 'Change', width: 1.2, align: 'right' },
       { header: 't', width: 1, align: 'right' },
       { header: 'df', width: 1, align: 'right' },
       { header: 'p', width: 1.4, align: 'right' },
@@ -159,6 +160,7 @@ export async function comparisonReport(labId: string, projectId: string, a: Grou
         `${meanCi(c.metric, c.a)} (n ${c.a.n})`,
         `${meanCi(c.metric, c.b)} (n ${c.b.n})`,
         c.test ? `${formatMetric(c.metric, c.test.difference, false)} ± ${formatMetric(c.metric, c.test.ci.halfWidth, false)}` : '—',
+        formatChange(c),
         c.test && Number.isFinite(c.test.t) ? c.test.t.toFixed(2) : '—',
         c.test ? c.test.df.toFixed(1) : '—',
         c.test ? formatPValue(c.test.p).replace('p = ', '').replace('p < ', '< ') : '—',

@@ -60,6 +60,14 @@ export function relativeChange(r: Pick<MetricComparison, 'a' | 'b'>): number | n
   return (b - a) / Math.abs(a);
 }
 
+/** The relative change as shown: "+32.9 %", "−4.0 %", "+120 %", or "—" without one. */
+export function formatChange(r: Pick<MetricComparison, 'a' | 'b'>): string {
+  const c = relativeChange(r);
+  if (c === null) return '—';
+  const pct = Math.abs(c * 100);
+  return `${c >= 0 ? '+' : '−'}${pct >= 100 ? pct.toFixed(0) : pct.toFixed(1)} %`;
+}
+
 /** How the comparison table can be ordered: the catalogue's order, the size of the change, or the p value. */
 export type ComparisonOrder = 'metric' | 'change' | 'p';
 

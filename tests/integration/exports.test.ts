@@ -5,7 +5,8 @@ import { closeDb, getDb } from '../../db/index';
 import { listExportRows } from '../../db/queries/exports';
 import { createTarget } from '../../db/queries/targets';
 import { createUserWithLab } from '../../db/queries/users';
-import { comparisonReport, projectReport, revisionReport } from '../../lib/reports/build';
+import { comparisonReport, loadComparison, projectReport, revisionReport } from '../../lib/reports/build';
+import { formatChange } from '../../lib/targets/compare';
 import { CSV_HEADERS, readingsCsv } from '../../lib/reports/csv';
 import { deleteFixtureProject, insertFixtureProject, insertReading, type Fixture } from '../fixtures/readings-fixture';
 
@@ -145,6 +146,12 @@ describe('PDF reports', () => {
     const cmp = await comparisonReport(a.labId, fx.projectId, { revisionId: x2, variant: 'no polarizer' }, { revisionId: x2, variant: 'with polarizer' }, { labName: 'Exports A' });
     const c = await pdfText(cmp.bytes);
     expect(c.text).toMatch(/X-2 · with polarizer \(against X-2 · no polarizer\) raises the ambient contrast ratio/);
+    // the change column: B's mean against A's from the same groups the page compares
+    const { metrics } = await loadComparison(a.labId, fx.projectId, { revisionId: x2, variant: 'no polarizer' }, { revisionId: x2, variant: 'with polarizer' });
+    const acr = metrics.find((m) => m.metric === 'ambientContrastRatio');
+    const change = formatChange(acr as NonNullable<typeof acr>);
+    expect(change).toMatch(/^\+\d/);
+    expect(c.text).toContain(change);
     const p = await pdfText((await projectReport(a.labId, fx.projectId, { labName: 'Exports A' })).bytes);
     expect(p.text).toContain('X-1');
     expect(p.text).toContain('X-2');
