@@ -6,13 +6,7 @@ import { SortButton } from '@/components/ui/sort-header';
 import { formatPValue } from '@/lib/stats';
 import { formatChange, orderComparisons, type ComparisonOrder, type MetricComparison } from '@/lib/targets/compare';
 import { formatMetric, METRICS } from '@/lib/targets/metrics';
-import type { GroupStats } from '@/lib/targets/series';
-
-function meanCi(key: MetricComparison['metric'], s: GroupStats) {
-  if (s.mean === null) return '—';
-  if (s.halfWidth === null) return formatMetric(key, s.mean, false);
-  return `${formatMetric(key, s.mean, false)} ± ${formatMetric(key, s.halfWidth, false)}`;
-}
+import { formatMeanCi } from '@/lib/targets/series';
 
 const LEVEL_TONE: Record<MetricComparison['level'], string> = {
   'unlikely-noise': 'text-pass',
@@ -75,9 +69,9 @@ export function ComparisonTable({ rows, aLabel, bLabel }: { rows: MetricComparis
                   {m.unit && m.unit !== ':1' ? <span className="ml-1 text-xs text-muted">({m.unit})</span> : null}
                 </th>
                 <td className={NUM}>{r.a.n}</td>
-                <td className={NUM}>{meanCi(r.metric, r.a)}</td>
+                <td className={NUM}>{formatMeanCi(r.metric, r.a)}</td>
                 <td className={NUM}>{r.b.n}</td>
-                <td className={NUM}>{meanCi(r.metric, r.b)}</td>
+                <td className={NUM}>{formatMeanCi(r.metric, r.b)}</td>
                 <td className={NUM} data-testid={`difference-${r.metric}`}>
                   {t ? `${t.difference >= 0 ? '+' : '−'}${formatMetric(r.metric, Math.abs(t.difference), false)} ± ${formatMetric(r.metric, t.ci.halfWidth, false)}` : '—'}
                 </td>

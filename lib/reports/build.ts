@@ -10,18 +10,13 @@ import { compareGroups, formatChange, type GroupKey } from '../targets/compare';
 import { DEFAULTS_CAVEAT } from '../targets/defaults';
 import { comparatorWords, STATUS_WORDS, type Target, type TargetCheck } from '../targets/evaluate';
 import { formatMetric, METRIC_LIST, METRICS, type MetricKey } from '../targets/metrics';
-import type { GroupStats, Trend } from '../targets/series';
+import { formatMeanCi, type Trend } from '../targets/series';
 import { REPORT_CAUTIONS } from './cautions';
 import { ReportWriter, type ChartGroup } from './pdf';
 
 export type ReportOptions = { labName: string; compress?: boolean; now?: Date };
 
 const targetText = (t: Target) => `${METRICS[t.metric].label} ${comparatorWords(t.comparator)} ${formatMetric(t.metric, t.value)}`;
-
-function meanCi(key: MetricKey, s: GroupStats): string {
-  if (s.mean === null) return '—';
-  return s.halfWidth === null ? formatMetric(key, s.mean, false) : `${formatMetric(key, s.mean, false)} ± ${formatMetric(key, s.halfWidth, false)}`;
-}
 
 function writeTargets(w: ReportWriter, checks: TargetCheck[], scope: string): void {
   w.heading(`Targets on ${scope}`);
@@ -84,7 +79,7 @@ export async function revisionReport(labId: string, revisionId: string, opts: Re
     [{ header: 'Metric', width: 3 }, { header: 'n', width: 0.8, align: 'right' }, { header: 'Mean ± 95% CI', width: 3, align: 'right' }, { header: 'SD', width: 1.6, align: 'right' }],
     METRIC_LIST.map((m) => {
       const s = trend.trends[m.key].revisions.find((r) => r.id === revision.id)?.stats;
-      return { cells: [m.label + (m.unit && m.unit !== ':1' ? ` (${m.unit})` : ''), String(s?.n ?? 0), s ? meanCi(m.key, s) : '—', s?.sd == null ? '—' : formatMetric(m.key, s.sd, false)] };
+      return { cells: [m.label + (m.unit && m.unit !== ':1' ? ` (${m.unit})` : ''), String(s?.n ?? 0), s ? formatMeanCi(m.key, s) : '—', s?.sd == null ? '—' : formatMetric(m.key, s.sd, false)] };
     }),
   );
   const charted = new Set<MetricKey>(['ambientContrastRatio', ...targets.map((t) => t.metric)]);
@@ -157,8 +152,8 @@ export async function comparisonReport(labId: string, projectId: string, a: Grou
     cmp.metrics.map((c) => ({
       cells: [
         METRICS[c.metric].label,
-        `${meanCi(c.metric, c.a)} (n ${c.a.n})`,
-        `${meanCi(c.metric, c.b)} (n ${c.b.n})`,
+        `${formatMeanCi(c.metric, c.a)} (n ${c.a.n})`,
+        `${formatMeanCi(c.metric, c.b)} (n ${c.b.n})`,
         c.test ? `${formatMetric(c.metric, c.test.difference, false)} ± ${formatMetric(c.metric, c.test.ci.halfWidth, false)}` : '—',
         formatChange(c),
         c.test && Number.isFinite(c.test.t) ? c.test.t.toFixed(2) : '—',

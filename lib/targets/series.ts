@@ -1,5 +1,5 @@
 import { summarise } from '../stats';
-import { METRIC_KEYS, type MetricKey } from './metrics';
+import { formatMetric, METRIC_KEYS, type MetricKey } from './metrics';
 
 /** The newest reading of one capture set, reduced to what trends, comparisons and targets need. */
 export type SetReading = {
@@ -71,4 +71,36 @@ export function buildTrends(revisions: readonly RevisionRef[], readings: readonl
     };
   }
   return out;
+}
+
+/** Mean ± 95% CI half-width as shown in tables ("—" for an empty group, the mean alone for n = 1). */
+export function formatMeanCi(key: MetricKey, s: GroupStats): string {
+  if (s.mean === null) return '—';
+  return s.halfWidth === null ? formatMetric(key, s.mean, false) : `${formatMetric(key, s.mean, false)} ± ${formatMetric(key, s.halfWidth, false)}`;
+}
+
+/** One row of a revision's statistics: a metric over all its capture sets, or over one variant's. */
+export type RevisionStatRow = { metric: MetricKey; variant: string | null; stats: GroupStats };
+
+/**
+ * Per metric, n, mean, SD and 95% CI over the revision's capture sets (each counted once, with its
+ * newest reading), then over each variant when there is more than one. Metrics without a single
+ * reading are left out; the caller names them.
+ */
+export function revisionStatistics(readings: readonly SetReading[]): { rows: RevisionStatRow[]; unmeasured: MetricKey[] } {
+  const variants = [...new Set(readings.map((r) => r.variant))].sort((a, b) => a.localeCompare(b));
+  const rows: RevisionStatRow[] = [];
+  const unmeasured: MetricKey[] = [];
+  for (const key of METRIC_KEYS) {
+    const all = values(readings, key);
+    if (all.length === 0) {
+      unmeasured.push(key);
+      continue;
+    }
+    rows.push({ metric: key, variant: null, stats: groupStats(all) });
+    if (variants.length > 1) {
+      for (const v of variants) rows.push({ metric: key, variant: v, stats: groupStats(values(readings.filter((r) => r.variant === v), key)) });
+    }
+  }
+  return { rows, unmeasured };
 }

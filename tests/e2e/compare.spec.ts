@@ -100,6 +100,26 @@ test('the comparison sorts by the size of the change and by p, each verdict stay
   expect(await metricRows.evaluateAll((els) => els.map((e) => e.getAttribute('data-metric')))).toEqual([...catalogue].reverse());
 });
 
+test('the revision page gives n, mean ± CI and SD per metric and variant, the same figures the comparison shows', async ({ page }) => {
+  await signIn(page, 'viewer@example.test');
+  await page.goto(`/projects/${projectId}/compare?a=${encodeURIComponent(`${revisions['VX-B']}:no polarizer`)}&b=${encodeURIComponent(`${revisions['VX-B']}:with polarizer`)}`);
+  const cmp = page.locator('tr[data-metric="ambientContrastRatio"] td');
+  const fromCompare = { nA: await cmp.nth(0).innerText(), a: await cmp.nth(1).innerText(), nB: await cmp.nth(2).innerText(), b: await cmp.nth(3).innerText() };
+
+  await page.goto(`/projects/${projectId}/revisions/${revisions['VX-B']}`);
+  const table = page.getByTestId('revision-statistics');
+  const cells = (variant: string) => table.locator('tbody tr', { hasText: 'Ambient contrast ratio' }).filter({ has: page.locator('td:nth-child(2)', { hasText: new RegExp(`^${variant}$`) }) }).locator('td');
+  await expect(cells('no polarizer').nth(2)).toHaveText(fromCompare.nA);
+  await expect(cells('no polarizer').nth(3)).toHaveText(fromCompare.a);
+  await expect(cells('with polarizer').nth(2)).toHaveText(fromCompare.nB);
+  await expect(cells('with polarizer').nth(3)).toHaveText(fromCompare.b);
+  await expect(cells('with polarizer').nth(4)).toHaveText(/^\d+\.\d{3}$/); // SD
+  // all captures: at least both variants together
+  const all = Number(await cells('all').nth(2).innerText());
+  expect(all).toBeGreaterThanOrEqual(Number(fromCompare.nA) + Number(fromCompare.nB));
+  await expect(page.getByTestId('revision-statistics-note')).toContainText('newest reading');
+});
+
 test('the project page links to a comparison already chosen in the URL', async ({ page }) => {
   await signIn(page, 'viewer@example.test');
   await page.goto(`/projects/${projectId}`);

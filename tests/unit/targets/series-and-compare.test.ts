@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { compareVerdict, summarise, welchTest } from '../../../lib/stats';
 import { compareGroups, decodeGroup, encodeGroup, orderComparisons, relativeChange } from '../../../lib/targets/compare';
 import { METRIC_KEYS, type MetricKey } from '../../../lib/targets/metrics';
-import { buildTrends, type SetReading } from '../../../lib/targets/series';
+import { buildTrends, formatMeanCi, revisionStatistics, type SetReading } from '../../../lib/targets/series';
 
 let seq = 0;
 function reading(revisionId: string, acr: number | null, variant = ''): SetReading {
@@ -33,6 +33,25 @@ describe('trends', () => {
     expect(b?.points).toHaveLength(3);
     expect(t.revisions[0]?.stats).toMatchObject({ n: 1, mean: 1.1, low: null });
     expect(t.revisions[2]?.stats).toMatchObject({ n: 0, mean: null });
+  });
+});
+
+describe('revision statistics', () => {
+  it('give each metric over all capture sets, then per variant, from lib/stats; unmeasured metrics are named', () => {
+    // invented: two variants of one revision
+    const rs = [reading('x', 1.2, 'no polarizer'), reading('x', 1.26, 'no polarizer'), reading('x', 1.5, 'with polarizer'), reading('x', 1.56, 'with polarizer'), reading('x', 1.52, 'with polarizer')];
+    const { rows, unmeasured } = revisionStatistics(rs);
+    expect(rows.map((r) => r.variant)).toEqual([null, 'no polarizer', 'with polarizer']);
+    expect(rows.every((r) => r.metric === 'ambientContrastRatio')).toBe(true);
+    expect(unmeasured).toEqual(METRIC_KEYS.filter((k) => k !== 'ambientContrastRatio'));
+    const all = summarise([1.2, 1.26, 1.5, 1.56, 1.52]);
+    expect(rows[0]?.stats).toMatchObject({ n: 5, mean: all.mean, sd: all.sd, halfWidth: all.ci?.halfWidth });
+    const w = summarise([1.5, 1.56, 1.52]);
+    expect(rows[2]?.stats).toMatchObject({ n: 3, mean: w.mean, sd: w.sd });
+    expect(formatMeanCi('ambientContrastRatio', rows[2]!.stats)).toBe(`${w.mean.toFixed(3)} ± ${w.ci!.halfWidth.toFixed(3)}`);
+    // one variant only: no per-variant rows
+    expect(revisionStatistics(rs.slice(0, 2)).rows).toHaveLength(1);
+    expect(revisionStatistics([]).rows).toEqual([]);
   });
 });
 

@@ -8,11 +8,13 @@ import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
 import { listCaptureSets } from '@/db/queries/capture-sets';
 import { getRevision } from '@/db/queries/revision-edits';
 import { checkRevisionTargets } from '@/db/queries/targets';
+import { listNewestReadings } from '@/db/queries/trends';
 import { can } from '@/lib/auth/permissions';
 import { requireActor } from '@/lib/auth/session';
 import { uuidSchema } from '@/lib/schemas/common';
 import { tally, tallyText } from '@/lib/targets/evaluate';
-import { formatMetric } from '@/lib/targets/metrics';
+import { formatMetric, METRICS } from '@/lib/targets/metrics';
+import { formatMeanCi, revisionStatistics } from '@/lib/targets/series';
 
 const STATUS_TEXT: Record<string, string> = { queued: 'Queued', running: 'Running', done: 'Measured', failed: 'Failed' };
 
@@ -22,7 +24,12 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
   if (!uuidSchema.safeParse(revisionId).success) notFound();
   const revision = await getRevision(actor.labId, revisionId);
   if (!revision || revision.projectId !== projectId) notFound();
-  const [sets, checks] = await Promise.all([listCaptureSets(actor.labId, revision.id), checkRevisionTargets(actor.labId, revision.projectId, revision.id)]);
+  const [sets, checks, readings] = await Promise.all([
+    listCaptureSets(actor.labId, revision.id),
+    checkRevisionTargets(actor.labId, revision.projectId, revision.id),
+    listNewestReadings(actor.labId, { projectId: revision.projectId, revisionId: revision.id }),
+  ]);
+  const statistics = revisionStatistics(readings);
   const variants = [...new Set(sets.filter((s) => s.latestAcr !== null || s.latestStatus === 'done').map((s) => s.variant))];
 
   return (
@@ -67,6 +74,39 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
             <TargetChecks checks={checks} scope={revision.label} />
           </Panel>
         ) : null}
+        <Panel title="Statistics">
+          <DataTable
+            csvName={`${revision.label}-statistics`}
+            testId="revision-statistics"
+            columns={[
+              { key: 'metric', label: 'Metric' },
+              { key: 'group', label: 'Captures' },
+              { key: 'n', label: 'n', numeric: true },
+              { key: 'mean', label: 'Mean ± 95% CI', numeric: true },
+              { key: 'sd', label: 'SD', numeric: true },
+            ]}
+            rows={statistics.rows.map((r, i) => {
+              const m = METRICS[r.metric];
+              return {
+                id: `${r.metric}-${r.variant ?? '*'}`,
+                cells: {
+                  metric: { text: m.label + (m.unit && m.unit !== ':1' ? ` (${m.unit})` : ''), sort: i },
+                  group: { text: r.variant === null ? 'all' : r.variant || 'no variant label', sort: r.variant === null ? '' : `~${r.variant}` },
+                  n: { text: String(r.stats.n), sort: r.stats.n },
+                  mean: { text: formatMeanCi(r.metric, r.stats), sort: r.stats.mean },
+                  sd: { text: r.stats.sd === null ? '—' : formatMetric(r.metric, r.stats.sd, false), sort: r.stats.sd },
+                },
+              };
+            })}
+            empty={<EmptyState title="No readings yet">Analyse a capture set of this revision to see n, mean, SD and the 95% interval of each metric.</EmptyState>}
+          />
+          {statistics.rows.length ? (
+            <p className="mt-2 text-xs text-muted" data-testid="revision-statistics-note">
+              Each capture set counts once, with its newest reading; 95% intervals with Student’s t (none below 2 captures).
+              {statistics.unmeasured.length ? ` No readings yet of: ${statistics.unmeasured.map((k) => METRICS[k].label.toLowerCase()).join(', ')}.` : ''}
+            </p>
+          ) : null}
+        </Panel>
         <Panel title="Capture sets">
           <DataTable
             csvName={`${revision.label}-capture-sets`}
