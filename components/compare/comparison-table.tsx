@@ -2,6 +2,7 @@
 
 import clsx from 'clsx';
 import { useMemo, useState } from 'react';
+import { downloadCsv } from '@/components/ui/csv-download';
 import { SortButton } from '@/components/ui/sort-header';
 import { formatPValue } from '@/lib/stats';
 import { formatChange, orderComparisons, type ComparisonOrder, type MetricComparison } from '@/lib/targets/compare';
@@ -16,6 +17,15 @@ const LEVEL_TONE: Record<MetricComparison['level'], string> = {
   'no-data': 'text-muted',
 };
 
+function differenceText(r: MetricComparison): string {
+  const t = r.test;
+  return t ? `${t.difference >= 0 ? '+' : '−'}${formatMetric(r.metric, Math.abs(t.difference), false)} ± ${formatMetric(r.metric, t.ci.halfWidth, false)}` : '—';
+}
+
+const tText = (r: MetricComparison) => (r.test && Number.isFinite(r.test.t) ? r.test.t.toFixed(2) : '—');
+const dfText = (r: MetricComparison) => (r.test ? r.test.df.toFixed(1) : '—');
+const pText = (r: MetricComparison) => (r.test ? formatPValue(r.test.p).replace(/^p = /, '').replace(/^p < /, '< ') : '—');
+
 const NUM = 'px-2 pt-2 whitespace-nowrap text-right font-mono tabular-nums';
 
 /**
@@ -23,7 +33,7 @@ const NUM = 'px-2 pt-2 whitespace-nowrap text-right font-mono tabular-nums';
  * Welch t, df, p and the verdict. Sorts by metric (the catalogue's order), by the size of the
  * change or by p; each verdict stays under its metric.
  */
-export function ComparisonTable({ rows, aLabel, bLabel }: { rows: MetricComparison[]; aLabel: string; bLabel: string }) {
+export function ComparisonTable({ rows, aLabel, bLabel, csvName }: { rows: MetricComparison[]; aLabel: string; bLabel: string; csvName: string }) {
   const [order, setOrder] = useState<ComparisonOrder>('metric');
   const [reverse, setReverse] = useState(false);
   const sorted = useMemo(() => orderComparisons(rows, order, reverse), [rows, order, reverse]);
@@ -34,63 +44,75 @@ export function ComparisonTable({ rows, aLabel, bLabel }: { rows: MetricComparis
       setReverse(false);
     }
   };
+  const exportCsv = () =>
+    downloadCsv(
+      csvName,
+      ['Metric', 'n A', `A mean ± CI (${aLabel})`, 'n B', `B mean ± CI (${bLabel})`, 'B − A ± CI', 'Change', 'Welch t', 'df', 'p', 'Verdict'],
+      sorted.map((r) => [METRICS[r.metric].label, String(r.a.n), formatMeanCi(r.metric, r.a), String(r.b.n), formatMeanCi(r.metric, r.b), differenceText(r), formatChange(r), tText(r), dfText(r), pText(r), r.verdict]),
+    );
   const ariaSort = (o: ComparisonOrder) => (o === order ? (reverse ? 'descending' : 'ascending') : 'none');
   return (
-    <div className="overflow-x-auto rounded-md border border-line">
-      <table className="w-full text-sm" data-testid="comparison-table" data-order={order} data-reverse={reverse ? 'yes' : 'no'}>
-        <thead className="bg-raised text-left text-xs uppercase tracking-wider text-muted">
-          <tr>
-            <th scope="col" className="px-3 py-2" aria-sort={ariaSort('metric')}>
-              <SortButton label="Metric" active={order === 'metric'} desc={reverse} onClick={sortBy('metric')} />
-            </th>
-            <th scope="col" className="px-2 py-2 text-right">n A</th>
-            <th scope="col" className="px-2 py-2 text-right" title={aLabel}>A mean ± CI</th>
-            <th scope="col" className="px-2 py-2 text-right">n B</th>
-            <th scope="col" className="px-2 py-2 text-right" title={bLabel}>B mean ± CI</th>
-            <th scope="col" className="px-2 py-2 text-right">B − A ± CI</th>
-            <th scope="col" className="px-2 py-2 text-right" aria-sort={ariaSort('change')}>
-              <SortButton label="Change" active={order === 'change'} desc={reverse} onClick={sortBy('change')} title="(B − A) as a share of A’s mean; sorts the largest change first" />
-            </th>
-            <th scope="col" className="px-2 py-2 text-right">Welch t</th>
-            <th scope="col" className="px-2 py-2 text-right">df</th>
-            <th scope="col" className="px-2 py-2 text-right" aria-sort={ariaSort('p')}>
-              <SortButton label="p" active={order === 'p'} desc={reverse} onClick={sortBy('p')} title="Sorts the smallest p first" />
-            </th>
-          </tr>
-        </thead>
-        <tbody>
-          {sorted.map((r) => {
-            const m = METRICS[r.metric];
-            const t = r.test;
-            return [
-              <tr key={r.metric} className="border-t border-line" data-metric={r.metric}>
-                <th scope="row" className="px-3 pt-2 text-left font-medium text-ink">
-                  {m.label}
-                  {m.unit && m.unit !== ':1' ? <span className="ml-1 text-xs text-muted">({m.unit})</span> : null}
-                </th>
-                <td className={NUM}>{r.a.n}</td>
-                <td className={NUM}>{formatMeanCi(r.metric, r.a)}</td>
-                <td className={NUM}>{r.b.n}</td>
-                <td className={NUM}>{formatMeanCi(r.metric, r.b)}</td>
-                <td className={NUM} data-testid={`difference-${r.metric}`}>
-                  {t ? `${t.difference >= 0 ? '+' : '−'}${formatMetric(r.metric, Math.abs(t.difference), false)} ± ${formatMetric(r.metric, t.ci.halfWidth, false)}` : '—'}
-                </td>
-                <td className={NUM} data-testid={`change-${r.metric}`}>
-                  {formatChange(r)}
-                </td>
-                <td className={NUM}>{t && Number.isFinite(t.t) ? t.t.toFixed(2) : '—'}</td>
-                <td className={NUM}>{t ? t.df.toFixed(1) : '—'}</td>
-                <td className={NUM}>{t ? formatPValue(t.p).replace(/^p = /, '').replace(/^p < /, '< ') : '—'}</td>
-              </tr>,
-              <tr key={`${r.metric}-v`}>
-                <td colSpan={10} className={clsx('px-3 pb-2 text-xs', LEVEL_TONE[r.level])} data-testid={`verdict-${r.metric}`}>
-                  {r.verdict}
-                </td>
-              </tr>,
-            ];
-          })}
-        </tbody>
-      </table>
+    <div>
+      <div className="mb-2 flex justify-end">
+        <button type="button" onClick={exportCsv} className="text-xs text-muted underline-offset-2 hover:text-beam hover:underline">
+          Export CSV
+        </button>
+      </div>
+      <div className="overflow-x-auto rounded-md border border-line">
+        <table className="w-full text-sm" data-testid="comparison-table" data-order={order} data-reverse={reverse ? 'yes' : 'no'}>
+          <thead className="bg-raised text-left text-xs uppercase tracking-wider text-muted">
+            <tr>
+              <th scope="col" className="px-3 py-2" aria-sort={ariaSort('metric')}>
+                <SortButton label="Metric" active={order === 'metric'} desc={reverse} onClick={sortBy('metric')} />
+              </th>
+              <th scope="col" className="px-2 py-2 text-right">n A</th>
+              <th scope="col" className="px-2 py-2 text-right" title={aLabel}>A mean ± CI</th>
+              <th scope="col" className="px-2 py-2 text-right">n B</th>
+              <th scope="col" className="px-2 py-2 text-right" title={bLabel}>B mean ± CI</th>
+              <th scope="col" className="px-2 py-2 text-right">B − A ± CI</th>
+              <th scope="col" className="px-2 py-2 text-right" aria-sort={ariaSort('change')}>
+                <SortButton label="Change" active={order === 'change'} desc={reverse} onClick={sortBy('change')} title="(B − A) as a share of A’s mean; sorts the largest change first" />
+              </th>
+              <th scope="col" className="px-2 py-2 text-right">Welch t</th>
+              <th scope="col" className="px-2 py-2 text-right">df</th>
+              <th scope="col" className="px-2 py-2 text-right" aria-sort={ariaSort('p')}>
+                <SortButton label="p" active={order === 'p'} desc={reverse} onClick={sortBy('p')} title="Sorts the smallest p first" />
+              </th>
+            </tr>
+          </thead>
+          <tbody>
+            {sorted.map((r) => {
+              const m = METRICS[r.metric];
+              return [
+                <tr key={r.metric} className="border-t border-line" data-metric={r.metric}>
+                  <th scope="row" className="px-3 pt-2 text-left font-medium text-ink">
+                    {m.label}
+                    {m.unit && m.unit !== ':1' ? <span className="ml-1 text-xs text-muted">({m.unit})</span> : null}
+                  </th>
+                  <td className={NUM}>{r.a.n}</td>
+                  <td className={NUM}>{formatMeanCi(r.metric, r.a)}</td>
+                  <td className={NUM}>{r.b.n}</td>
+                  <td className={NUM}>{formatMeanCi(r.metric, r.b)}</td>
+                  <td className={NUM} data-testid={`difference-${r.metric}`}>
+                    {differenceText(r)}
+                  </td>
+                  <td className={NUM} data-testid={`change-${r.metric}`}>
+                    {formatChange(r)}
+                  </td>
+                  <td className={NUM}>{tText(r)}</td>
+                  <td className={NUM}>{dfText(r)}</td>
+                  <td className={NUM}>{pText(r)}</td>
+                </tr>,
+                <tr key={`${r.metric}-v`}>
+                  <td colSpan={10} className={clsx('px-3 pb-2 text-xs', LEVEL_TONE[r.level])} data-testid={`verdict-${r.metric}`}>
+                    {r.verdict}
+                  </td>
+                </tr>,
+              ];
+            })}
+          </tbody>
+        </table>
+      </div>
     </div>
   );
 }

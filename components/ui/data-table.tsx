@@ -3,6 +3,7 @@
 import clsx from 'clsx';
 import Link from 'next/link';
 import { useMemo, useState } from 'react';
+import { downloadCsv } from './csv-download';
 import { SortButton } from './sort-header';
 
 export type Column = { key: string; label: string; numeric?: boolean };
@@ -12,10 +13,6 @@ export type Column = { key: string; label: string; numeric?: boolean };
  */
 export type Cell = { text: string; sort?: number | string | null; node?: React.ReactNode };
 export type Row = { id: string; href?: string; cells: Record<string, Cell> };
-
-function csvEscape(s: string): string {
-  return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-}
 
 /** A table that sorts on any column and exports what it shows as CSV. */
 export function DataTable({ columns, rows, csvName, empty, testId }: { columns: Column[]; rows: Row[]; csvName: string; empty?: React.ReactNode; testId?: string }) {
@@ -38,14 +35,11 @@ export function DataTable({ columns, rows, csvName, empty, testId }: { columns: 
   }, [rows, sortKey, desc]);
 
   function exportCsv() {
-    const lines = [columns.map((c) => csvEscape(c.label)).join(',')];
-    for (const r of sorted) lines.push(columns.map((c) => csvEscape(r.cells[c.key]?.text ?? '')).join(','));
-    const blob = new Blob([lines.join('\r\n') + '\r\n'], { type: 'text/csv;charset=utf-8' });
-    const a = document.createElement('a');
-    a.href = URL.createObjectURL(blob);
-    a.download = `${csvName}.csv`;
-    a.click();
-    URL.revokeObjectURL(a.href);
+    downloadCsv(
+      csvName,
+      columns.map((c) => c.label),
+      sorted.map((r) => columns.map((c) => r.cells[c.key]?.text ?? '')),
+    );
   }
 
   if (rows.length === 0 && empty) return <>{empty}</>;

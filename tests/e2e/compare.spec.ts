@@ -1,3 +1,4 @@
+import { readFile } from 'node:fs/promises';
 import { expect, test } from '@playwright/test';
 import { closeDb, getDb } from '../../db/index';
 import { DEMO_LAB } from '../../db/seeds/demo-data';
@@ -90,6 +91,17 @@ test('the comparison sorts by the size of the change and by p, each verdict stay
   expect(ps).toEqual([...ps].sort((x, y) => x - y));
   expect(await verdictFollows()).toBe(true);
   await expect(table.locator('th[aria-sort="ascending"]')).toContainText('p');
+
+  // Export CSV saves the table in the order shown, one line per metric with its verdict
+  const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Export CSV' }).click()]);
+  expect(download.suggestedFilename()).toMatch(/-per-metric\.csv$/);
+  const csv = (await readFile(await download.path(), 'utf8')).trim().split('\r\n');
+  expect(csv[0]).toMatch(/^Metric,n A,A mean ± CI \(VX-B · no polarizer\),n B,/);
+  const shown = await metricRows.evaluateAll((els) => els.map((e) => e.querySelector('th')?.childNodes[0]?.textContent ?? ''));
+  expect(csv.slice(1).map((l) => l.split(',')[0])).toEqual(shown);
+  const acrLine = csv.find((l) => l.startsWith('Ambient contrast ratio,')) ?? '';
+  expect(acrLine).toContain(await page.getByTestId('difference-ambientContrastRatio').innerText());
+  expect(acrLine).toContain(await page.getByTestId('verdict-ambientContrastRatio').innerText());
 
   // the metric heading twice: back to the catalogue's order, then reversed
   await page.getByRole('button', { name: 'Metric' }).click();

@@ -108,7 +108,7 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
               </Panel>
             ) : null}
             <Panel title="Per metric">
-              <ComparisonTable rows={rows} aLabel={ga.label} bLabel={gb.label} />
+              <ComparisonTable rows={rows} aLabel={ga.label} bLabel={gb.label} csvName={`${project.name}-${gb.label}-vs-${ga.label}-per-metric`} />
             </Panel>
             <Panel title="Captures side by side">
               <div className="grid gap-6 md:grid-cols-2">
