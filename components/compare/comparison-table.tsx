@@ -2,7 +2,7 @@
 
 import clsx from 'clsx';
 import { useMemo, useState } from 'react';
-import { downloadCsv } from '@/components/ui/csv-download';
+import { downloadCsv, ExportCsvBar } from '@/components/ui/csv-download';
 import { SortButton } from '@/components/ui/sort-header';
 import { formatPValue } from '@/lib/stats';
 import { formatChange, orderComparisons, type ComparisonOrder, type MetricComparison } from '@/lib/targets/compare';
@@ -53,11 +53,7 @@ export function ComparisonTable({ rows, aLabel, bLabel, csvName }: { rows: Metri
   const ariaSort = (o: ComparisonOrder) => (o === order ? (reverse ? 'descending' : 'ascending') : 'none');
   return (
     <div>
-      <div className="mb-2 flex justify-end">
-        <button type="button" onClick={exportCsv} className="text-xs text-muted underline-offset-2 hover:text-beam hover:underline">
-          Export CSV
-        </button>
-      </div>
+      <ExportCsvBar onExport={exportCsv} />
       <div className="overflow-x-auto rounded-md border border-line">
         <table className="w-full text-sm" data-testid="comparison-table" data-order={order} data-reverse={reverse ? 'yes' : 'no'}>
           <thead className="bg-raised text-left text-xs uppercase tracking-wider text-muted">

@@ -3,7 +3,7 @@
 import clsx from 'clsx';
 import Link from 'next/link';
 import { useMemo, useState } from 'react';
-import { downloadCsv } from './csv-download';
+import { downloadCsv, ExportCsvBar } from './csv-download';
 import { SortButton } from './sort-header';
 
 export type Column = { key: string; label: string; numeric?: boolean };
@@ -46,11 +46,7 @@ export function DataTable({ columns, rows, csvName, empty, testId }: { columns: 
 
   return (
     <div>
-      <div className="mb-2 flex justify-end">
-        <button type="button" onClick={exportCsv} className="text-xs text-muted underline-offset-2 hover:text-beam hover:underline">
-          Export CSV
-        </button>
-      </div>
+      <ExportCsvBar onExport={exportCsv} />
       <div className="overflow-x-auto rounded-md border border-line">
         <table className="w-full text-sm" data-testid={testId}>
           <thead className="bg-raised text-left text-xs uppercase tracking-wider text-muted">

@@ -1,3 +1,5 @@
+'use client';
+
 function csvEscape(s: string): string {
   return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
 }
@@ -11,4 +13,15 @@ export function downloadCsv(name: string, header: readonly string[], rows: reado
   a.download = `${name}.csv`;
   a.click();
   URL.revokeObjectURL(a.href);
+}
+
+/** The "Export CSV" link-button above a table, right-aligned. */
+export function ExportCsvBar({ onExport }: { onExport: () => void }) {
+  return (
+    <div className="mb-2 flex justify-end">
+      <button type="button" onClick={onExport} className="text-xs text-muted underline-offset-2 hover:text-beam hover:underline">
+        Export CSV
+      </button>
+    </div>
+  );
 }
