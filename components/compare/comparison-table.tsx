@@ -4,8 +4,7 @@ import clsx from 'clsx';
 import { useMemo, useState } from 'react';
 import { downloadCsv, ExportCsvBar } from '@/components/ui/csv-download';
 import { SortButton } from '@/components/ui/sort-header';
-import { formatPValue } from '@/lib/stats';
-import { formatChange, orderComparisons, type ComparisonOrder, type MetricComparison } from '@/lib/targets/compare';
+import { formatChange, orderComparisons, testFigures, type ComparisonOrder, type MetricComparison } from '@/lib/targets/compare';
 import { formatMetric, METRICS } from '@/lib/targets/metrics';
 import { formatMeanCi } from '@/lib/targets/series';
 
@@ -22,9 +21,6 @@ function differenceText(r: MetricComparison): string {
   return t ? `${t.difference >= 0 ? '+' : '−'}${formatMetric(r.metric, Math.abs(t.difference), false)} ± ${formatMetric(r.metric, t.ci.halfWidth, false)}` : '—';
 }
 
-const tText = (r: MetricComparison) => (r.test && Number.isFinite(r.test.t) ? r.test.t.toFixed(2) : '—');
-const dfText = (r: MetricComparison) => (r.test ? r.test.df.toFixed(1) : '—');
-const pText = (r: MetricComparison) => (r.test ? formatPValue(r.test.p).replace(/^p = /, '').replace(/^p < /, '< ') : '—');
 
 const NUM = 'px-2 pt-2 whitespace-nowrap text-right font-mono tabular-nums';
 
@@ -48,7 +44,7 @@ export function ComparisonTable({ rows, aLabel, bLabel, csvName }: { rows: Metri
     downloadCsv(
       csvName,
       ['Metric', 'n A', `A mean ± CI (${aLabel})`, 'n B', `B mean ± CI (${bLabel})`, 'B − A ± CI', 'Change', 'Welch t', 'df', 'p', 'Verdict'],
-      sorted.map((r) => [METRICS[r.metric].label, String(r.a.n), formatMeanCi(r.metric, r.a), String(r.b.n), formatMeanCi(r.metric, r.b), differenceText(r), formatChange(r), tText(r), dfText(r), pText(r), r.verdict]),
+      sorted.map((r) => [METRICS[r.metric].label, String(r.a.n), formatMeanCi(r.metric, r.a), String(r.b.n), formatMeanCi(r.metric, r.b), differenceText(r), formatChange(r), ...testFigures(r), r.verdict]),
     );
   const ariaSort = (o: ComparisonOrder) => (o === order ? (reverse ? 'descending' : 'ascending') : 'none');
   return (
@@ -95,9 +91,11 @@ export function ComparisonTable({ rows, aLabel, bLabel, csvName }: { rows: Metri
                   <td className={NUM} data-testid={`change-${r.metric}`}>
                     {formatChange(r)}
                   </td>
-                  <td className={NUM}>{tText(r)}</td>
-                  <td className={NUM}>{dfText(r)}</td>
-                  <td className={NUM}>{pText(r)}</td>
+                  {testFigures(r).map((text, k) => (
+                    <td key={k} className={NUM}>
+                      {text}
+                    </td>
+                  ))}
                 </tr>,
                 <tr key={`${r.metric}-v`}>
                   <td colSpan={10} className={clsx('px-3 pb-2 text-xs', LEVEL_TONE[r.level])} data-testid={`verdict-${r.metric}`}>

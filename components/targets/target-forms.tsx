@@ -7,9 +7,9 @@ import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import type { FormState } from '@/lib/auth/action';
 import type { Target } from '@/lib/targets/evaluate';
-import { METRIC_LIST } from '@/lib/targets/metrics';
+import { metricLabelWithUnit, METRIC_LIST } from '@/lib/targets/metrics';
 
-const METRIC_OPTIONS = METRIC_LIST.map((m) => ({ value: m.key, label: `${m.label}${m.unit && m.unit !== ':1' ? ` (${m.unit})` : ''}` }));
+const METRIC_OPTIONS = METRIC_LIST.map((m) => ({ value: m.key, label: metricLabelWithUnit(m) }));
 const COMPARATOR_OPTIONS = [
   { value: '>=', label: 'at least (≥)' },
   { value: '<=', label: 'at most (≤)' },

@@ -4,7 +4,7 @@ import { useRouter } from 'next/navigation';
 import { useMemo, useState } from 'react';
 import { Area, CartesianGrid, ComposedChart, ErrorBar, Line, ReferenceLine, ResponsiveContainer, Scatter, Tooltip, XAxis, YAxis } from 'recharts';
 import { comparatorWords, type Target } from '@/lib/targets/evaluate';
-import { formatMetric, METRIC_LIST, METRICS, type MetricKey } from '@/lib/targets/metrics';
+import { formatMetric, metricLabelWithUnit, METRIC_LIST, METRICS, type MetricKey } from '@/lib/targets/metrics';
 import type { Trend } from '@/lib/targets/series';
 
 type MeanRow = { x: number; id: string; label: string; n: number; mean: number | null; band: [number, number] | null; low: number | null; high: number | null; ci: [number, number] | null };
@@ -181,7 +181,7 @@ export function TrendChart({ projectId, trends, targets, initialMetric }: { proj
                 width={56}
                 stroke="rgb(var(--muted))"
                 tick={{ fontSize: 11 }}
-                label={{ value: info.unit && info.unit !== ':1' ? `${info.label} (${info.unit})` : info.label, angle: -90, position: 'insideLeft', offset: 4, fill: 'rgb(var(--muted))', fontSize: 11, style: { textAnchor: 'middle' } }}
+                label={{ value: metricLabelWithUnit(info), angle: -90, position: 'insideLeft', offset: 4, fill: 'rgb(var(--muted))', fontSize: 11, style: { textAnchor: 'middle' } }}
                 allowDataOverflow
               />
               <Tooltip content={<TrendTooltip metric={metric} />} cursor={{ stroke: 'rgb(var(--line))' }} />

@@ -1,9 +1,8 @@
 import type { Knex } from 'knex';
 import { getDb } from '../index';
 import { recordAudit } from './audit';
-import { checkTarget, type Target, type TargetCheck } from '../../lib/targets/evaluate';
+import { checkTargetsOn, type Target, type TargetCheck } from '../../lib/targets/evaluate';
 import { isMetricKey, type MetricKey } from '../../lib/targets/metrics';
-import { values } from '../../lib/targets/series';
 import { newestMeasuredRevisions } from './projects';
 import { listNewestReadings } from './trends';
 
@@ -66,7 +65,7 @@ export async function deleteTarget(labId: string, userId: string, projectId: str
 /** Each target of the project judged on one revision's newest readings. */
 export async function checkRevisionTargets(labId: string, projectId: string, revisionId: string): Promise<TargetCheck[]> {
   const [targets, readings] = await Promise.all([listTargets(labId, projectId), listNewestReadings(labId, { projectId, revisionId })]);
-  return targets.map((t) => checkTarget(t, values(readings, t.metric)));
+  return checkTargetsOn(targets, readings);
 }
 
 export type ProjectTargetStatus = { projectId: string; revisionId: string | null; revisionLabel: string | null; checks: TargetCheck[] };
@@ -93,11 +92,11 @@ export async function listProjectTargetStatus(labId: string): Promise<Map<string
   for (const [projectId, targets] of targetsByProject) {
     const rev = latestBy.get(projectId);
     if (!rev) {
-      out.set(projectId, { projectId, revisionId: null, revisionLabel: null, checks: targets.map((t) => checkTarget(t, [])) });
+      out.set(projectId, { projectId, revisionId: null, revisionLabel: null, checks: checkTargetsOn(targets, []) });
       continue;
     }
     const readings = await listNewestReadings(labId, { projectId, revisionId: rev.id });
-    out.set(projectId, { projectId, revisionId: rev.id, revisionLabel: rev.label, checks: targets.map((t) => checkTarget(t, values(readings, t.metric))) });
+    out.set(projectId, { projectId, revisionId: rev.id, revisionLabel: rev.label, checks: checkTargetsOn(targets, readings) });
   }
   return out;
 }

@@ -5,11 +5,10 @@ import { checkRevisionTargets, listTargets } from '../../db/queries/targets';
 import { getProjectTrend } from '../../db/queries/trends';
 import { getDb } from '../../db/index';
 import { notFound } from '../errors';
-import { formatPValue } from '../stats';
-import { compareGroups, formatChange, type GroupKey } from '../targets/compare';
+import { compareGroups, formatChange, testFigures, type GroupKey } from '../targets/compare';
 import { DEFAULTS_CAVEAT } from '../targets/defaults';
 import { comparatorWords, STATUS_WORDS, type Target, type TargetCheck } from '../targets/evaluate';
-import { formatMetric, METRIC_LIST, METRICS, type MetricKey } from '../targets/metrics';
+import { formatMetric, metricLabelWithUnit, METRIC_LIST, METRICS, type MetricKey } from '../targets/metrics';
 import { formatMeanCi, type Trend } from '../targets/series';
 import { REPORT_CAUTIONS } from './cautions';
 import { ReportWriter, type ChartGroup } from './pdf';
@@ -79,7 +78,7 @@ export async function revisionReport(labId: string, revisionId: string, opts: Re
     [{ header: 'Metric', width: 3 }, { header: 'n', width: 0.8, align: 'right' }, { header: 'Mean ± 95% CI', width: 3, align: 'right' }, { header: 'SD', width: 1.6, align: 'right' }],
     METRIC_LIST.map((m) => {
       const s = trend.trends[m.key].revisions.find((r) => r.id === revision.id)?.stats;
-      return { cells: [m.label + (m.unit && m.unit !== ':1' ? ` (${m.unit})` : ''), String(s?.n ?? 0), s ? formatMeanCi(m.key, s) : '—', s?.sd == null ? '—' : formatMetric(m.key, s.sd, false)] };
+      return { cells: [metricLabelWithUnit(m), String(s?.n ?? 0), s ? formatMeanCi(m.key, s) : '—', formatMetric(m.key, s?.sd, false)] };
     }),
   );
   const charted = new Set<MetricKey>(['ambientContrastRatio', ...targets.map((t) => t.metric)]);
@@ -156,9 +155,7 @@ export async function comparisonReport(labId: string, projectId: string, a: Grou
         `${formatMeanCi(c.metric, c.b)} (n ${c.b.n})`,
         c.test ? `${formatMetric(c.metric, c.test.difference, false)} ± ${formatMetric(c.metric, c.test.ci.halfWidth, false)}` : '—',
         formatChange(c),
-        c.test && Number.isFinite(c.test.t) ? c.test.t.toFixed(2) : '—',
-        c.test ? c.test.df.toFixed(1) : '—',
-        c.test ? formatPValue(c.test.p).replace('p = ', '').replace('p < ', '< ') : '—',
+        ...testFigures(c),
       ],
     })),
   );

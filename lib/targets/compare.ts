@@ -1,5 +1,5 @@
 import { uuidSchema } from '../schemas/common';
-import { compareVerdict, type TwoSampleResult, type VerdictLevel } from '../stats';
+import { compareVerdict, formatPValue, type TwoSampleResult, type VerdictLevel } from '../stats';
 import { METRIC_LIST, type MetricKey } from './metrics';
 import { groupStats, values, type GroupStats, type SetReading } from './series';
 
@@ -66,6 +66,13 @@ export function formatChange(r: Pick<MetricComparison, 'a' | 'b'>): string {
   if (c === null) return '—';
   const pct = Math.abs(c * 100);
   return `${c >= 0 ? '+' : '−'}${pct >= 100 ? pct.toFixed(0) : pct.toFixed(1)} %`;
+}
+
+/** Welch t, df and p as the table and the PDF show them ("—" each without a test; p without its "p ="). */
+export function testFigures(r: Pick<MetricComparison, 'test'>): [t: string, df: string, p: string] {
+  const t = r.test;
+  if (!t) return ['—', '—', '—'];
+  return [Number.isFinite(t.t) ? t.t.toFixed(2) : '—', t.df.toFixed(1), formatPValue(t.p).replace(/^p = /, '').replace(/^p < /, '< ')];
 }
 
 /** How the comparison table can be ordered: the catalogue's order, the size of the change, or the p value. */

@@ -1,5 +1,6 @@
 import { mean } from '../stats';
 import type { MetricKey } from './metrics';
+import { values, type SetReading } from './series';
 
 export type Comparator = '>=' | '<=';
 
@@ -65,3 +66,8 @@ export function comparatorWords(c: Comparator): string {
 }
 
 export const STATUS_WORDS: Record<TargetStatus, string> = { pass: 'pass', fail: 'fail', 'no-data': 'no data' };
+
+/** Every target judged on one group's readings (each capture set's newest), in the targets' order. */
+export function checkTargetsOn(targets: readonly Target[], readings: readonly SetReading[]): TargetCheck[] {
+  return targets.map((t) => checkTarget(t, values(readings, t.metric)));
+}

@@ -35,6 +35,11 @@ export function isMetricKey(v: unknown): v is MetricKey {
   return typeof v === 'string' && (METRIC_KEYS as readonly string[]).includes(v);
 }
 
+/** The metric's name with its unit in brackets ("Ghost ratio", "Tint (ΔE00)"); ratios ":1" go unnamed. */
+export function metricLabelWithUnit(m: Pick<MetricInfo, 'label' | 'unit'>): string {
+  return m.unit && m.unit !== ':1' ? `${m.label} (${m.unit})` : m.label;
+}
+
 /** A value with its metric's decimals and unit, "—" when missing. */
 export function formatMetric(key: MetricKey, v: number | null | undefined, withUnit = true): string {
   if (v === null || v === undefined || !Number.isFinite(v)) return '—';

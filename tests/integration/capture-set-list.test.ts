@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { closeDb, getDb } from '../../db/index';
 import { listCaptureSets } from '../../db/queries/capture-sets';
 import { createUserWithLab } from '../../db/queries/users';
-import { deleteFixtureProject, insertFixtureProject, insertReading, type Fixture } from '../fixtures/readings-fixture';
+import { insertFixtureProject, insertReading, type Fixture, removeTestLabs } from '../fixtures/readings-fixture';
 
 // The revision page's table of capture sets: each row carries its newest reading's figures.
 // Invented values throughout.
@@ -20,9 +20,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  await deleteFixtureProject(fx.projectId);
-  await getDb()('labs').whereIn('id', [a.labId, b.labId]).delete();
-  await getDb()('users').whereIn('id', [a.userId, b.userId]).delete();
+  await removeTestLabs([a.labId, b.labId], [a.userId, b.userId], fx.projectId);
   await closeDb();
 });
 

@@ -8,7 +8,7 @@ import { createUserWithLab } from '../../db/queries/users';
 import { comparisonReport, loadComparison, projectReport, revisionReport } from '../../lib/reports/build';
 import { formatChange } from '../../lib/targets/compare';
 import { CSV_HEADERS, readingsCsv } from '../../lib/reports/csv';
-import { deleteFixtureProject, insertFixtureProject, insertReading, type Fixture } from '../fixtures/readings-fixture';
+import { insertFixtureProject, insertReading, type Fixture, removeTestLabs } from '../fixtures/readings-fixture';
 
 // Invented readings in real PostgreSQL; the exports must give back exactly what is stored.
 const tag = `${process.pid}-${Date.now()}`;
@@ -73,9 +73,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  await deleteFixtureProject(fx.projectId);
-  await getDb()('labs').whereIn('id', [a.labId, b.labId]).delete();
-  await getDb()('users').whereIn('id', [a.userId, b.userId]).delete();
+  await removeTestLabs([a.labId, b.labId], [a.userId, b.userId], fx.projectId);
   await closeDb();
 });
 

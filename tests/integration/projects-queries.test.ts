@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { closeDb, getDb } from '../../db/index';
 import { createProject, deleteProject, getProject, listProjectLatest, listProjects, updateProject } from '../../db/queries/projects';
 import { createUserWithLab, getMembership, listMemberships } from '../../db/queries/users';
-import { insertFixtureProject, insertReading } from '../fixtures/readings-fixture';
+import { insertFixtureProject, insertReading, removeTestLabs } from '../fixtures/readings-fixture';
 
 // Real PostgreSQL: every project query is scoped by the acting lab.
 let a: { userId: string; labId: string };
@@ -15,8 +15,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  await getDb()('labs').whereIn('id', [a.labId, b.labId]).delete();
-  await getDb()('users').whereIn('id', [a.userId, b.userId]).delete();
+  await removeTestLabs([a.labId, b.labId], [a.userId, b.userId]);
   await closeDb();
 });
 

@@ -12,7 +12,7 @@ import { createUserWithLab } from '../../db/queries/users';
 import { getEnv } from '../../lib/env';
 import { stageLabel } from '../../lib/queue/jobs';
 import { readingsCsv } from '../../lib/reports/csv';
-import { deleteFixtureProject, insertFixtureProject, insertReading, type Fixture } from '../fixtures/readings-fixture';
+import { deleteFixtureProject, insertFixtureProject, insertReading, type Fixture, removeTestLabs } from '../fixtures/readings-fixture';
 
 // The route handlers run as in `next start`, with the request's cookies supplied here: a real
 // next-auth session token and the lab cookie.
@@ -79,9 +79,7 @@ beforeAll(async () => {
 beforeEach(() => clearReadCache());
 
 afterAll(async () => {
-  await deleteFixtureProject(fx.projectId);
-  await getDb()('labs').whereIn('id', [a.labId, b.labId]).delete();
-  await getDb()('users').whereIn('id', [a.userId, b.userId, both]).delete();
+  await removeTestLabs([a.labId, b.labId], [a.userId, b.userId, both], fx.projectId);
   await closeDb();
 });
 

@@ -5,7 +5,7 @@ import { createTarget, deleteTarget, listProjectTargetStatus, listTargets, updat
 import { createUserWithLab } from '../../db/queries/users';
 import { targetSchema } from '../../lib/schemas/target';
 import { notifyTargetFailures } from '../../lib/targets/notify';
-import { deleteFixtureProject, insertFixtureProject, insertReading, type Fixture } from '../fixtures/readings-fixture';
+import { insertFixtureProject, insertReading, type Fixture, removeTestLabs } from '../fixtures/readings-fixture';
 
 // Real PostgreSQL and the local mail catcher; every number here is invented.
 const tag = `${process.pid}-${Date.now()}`;
@@ -49,9 +49,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  await deleteFixtureProject(fx.projectId);
-  await getDb()('labs').whereIn('id', [a.labId, b.labId]).delete();
-  await getDb()('users').whereIn('id', [a.userId, b.userId, leadId]).delete();
+  await removeTestLabs([a.labId, b.labId], [a.userId, b.userId, leadId], fx.projectId);
   await closeDb();
 });
 

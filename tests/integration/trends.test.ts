@@ -1,10 +1,10 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { closeDb, getDb } from '../../db/index';
+import { closeDb } from '../../db/index';
 import { getComparisonGroup, listGroupOptions } from '../../db/queries/comparisons';
 import { getProjectTrend } from '../../db/queries/trends';
 import { createUserWithLab } from '../../db/queries/users';
 import { summarise } from '../../lib/stats';
-import { deleteFixtureProject, insertFixtureProject, insertReading, type Fixture } from '../fixtures/readings-fixture';
+import { insertFixtureProject, insertReading, type Fixture, removeTestLabs } from '../fixtures/readings-fixture';
 
 // Invented readings in real PostgreSQL.
 const tag = `${process.pid}-${Date.now()}`;
@@ -25,9 +25,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  await deleteFixtureProject(fx.projectId);
-  await getDb()('labs').whereIn('id', [a.labId, b.labId]).delete();
-  await getDb()('users').whereIn('id', [a.userId, b.userId]).delete();
+  await removeTestLabs([a.labId, b.labId], [a.userId, b.userId], fx.projectId);
   await closeDb();
 });
 

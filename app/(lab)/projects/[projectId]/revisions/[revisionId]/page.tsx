@@ -7,13 +7,13 @@ import { DataTable } from '@/components/ui/data-table';
 import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
 import { listCaptureSets } from '@/db/queries/capture-sets';
 import { getRevision } from '@/db/queries/revision-edits';
-import { checkRevisionTargets } from '@/db/queries/targets';
+import { listTargets } from '@/db/queries/targets';
 import { listNewestReadings } from '@/db/queries/trends';
 import { can } from '@/lib/auth/permissions';
 import { requireActor } from '@/lib/auth/session';
 import { uuidSchema } from '@/lib/schemas/common';
-import { tally, tallyText } from '@/lib/targets/evaluate';
-import { formatMetric, METRICS } from '@/lib/targets/metrics';
+import { checkTargetsOn, tally, tallyText } from '@/lib/targets/evaluate';
+import { formatMetric, metricLabelWithUnit, METRICS } from '@/lib/targets/metrics';
 import { formatMeanCi, revisionStatistics } from '@/lib/targets/series';
 
 const STATUS_TEXT: Record<string, string> = { queued: 'Queued', running: 'Running', done: 'Measured', failed: 'Failed' };
@@ -24,11 +24,13 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
   if (!uuidSchema.safeParse(revisionId).success) notFound();
   const revision = await getRevision(actor.labId, revisionId);
   if (!revision || revision.projectId !== projectId) notFound();
-  const [sets, checks, readings] = await Promise.all([
+  // one read of the newest readings serves both the target checks and the statistics
+  const [sets, targets, readings] = await Promise.all([
     listCaptureSets(actor.labId, revision.id),
-    checkRevisionTargets(actor.labId, revision.projectId, revision.id),
+    listTargets(actor.labId, revision.projectId),
     listNewestReadings(actor.labId, { projectId: revision.projectId, revisionId: revision.id }),
   ]);
+  const checks = checkTargetsOn(targets, readings);
   const statistics = revisionStatistics(readings);
   const variants = [...new Set(sets.filter((s) => s.latestAcr !== null || s.latestStatus === 'done').map((s) => s.variant))];
 
@@ -85,19 +87,16 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
               { key: 'mean', label: 'Mean ± 95% CI', numeric: true },
               { key: 'sd', label: 'SD', numeric: true },
             ]}
-            rows={statistics.rows.map((r, i) => {
-              const m = METRICS[r.metric];
-              return {
-                id: `${r.metric}-${r.variant ?? '*'}`,
-                cells: {
-                  metric: { text: m.label + (m.unit && m.unit !== ':1' ? ` (${m.unit})` : ''), sort: i },
-                  group: { text: r.variant === null ? 'all' : r.variant || 'no variant label', sort: r.variant === null ? '' : `~${r.variant}` },
-                  n: { text: String(r.stats.n), sort: r.stats.n },
-                  mean: { text: formatMeanCi(r.metric, r.stats), sort: r.stats.mean },
-                  sd: { text: r.stats.sd === null ? '—' : formatMetric(r.metric, r.stats.sd, false), sort: r.stats.sd },
-                },
-              };
-            })}
+            rows={statistics.rows.map((r, i) => ({
+              id: `${r.metric}-${r.variant ?? '*'}`,
+              cells: {
+                metric: { text: metricLabelWithUnit(METRICS[r.metric]), sort: i },
+                group: { text: r.variant === null ? 'all' : r.variant || 'no variant label', sort: r.variant === null ? '' : `~${r.variant}` },
+                n: { text: String(r.stats.n), sort: r.stats.n },
+                mean: { text: formatMeanCi(r.metric, r.stats), sort: r.stats.mean },
+                sd: { text: formatMetric(r.metric, r.stats.sd, false), sort: r.stats.sd },
+              },
+            }))}
             empty={<EmptyState title="No readings yet">Analyse a capture set of this revision to see n, mean, SD and the 95% interval of each metric.</EmptyState>}
           />
           {statistics.rows.length ? (
