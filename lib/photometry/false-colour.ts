@@ -32,13 +32,16 @@ export function falseColour(plane: Plane, min: number, max: number): Uint8Array 
   const out = new Uint8Array(plane.width * plane.height * 3);
   const k = 255 / (max - min);
   const data = plane.data;
-  for (let i = 0, n = data.length; i < n; i++) {
+  for (let i = 0, o = 0, n = data.length; i < n; i++, o += 3) {
     const v = data[i] as number;
     if (v !== v) continue;
-    const j = Math.max(0, Math.min(255, Math.round((v - min) * k))) * 3;
-    out[3 * i] = lut[j] as number;
-    out[3 * i + 1] = lut[j + 1] as number;
-    out[3 * i + 2] = lut[j + 2] as number;
+    // Math.round of the position clamped to 0..255, kept in integers (a float index is slow)
+    let q = (v - min) * k + 0.5;
+    q = q > 0 ? (q < 255 ? q : 255) : 0;
+    const j = (q | 0) * 3;
+    out[o] = lut[j] as number;
+    out[o + 1] = lut[j + 1] as number;
+    out[o + 2] = lut[j + 2] as number;
   }
   return out;
 }

@@ -17,9 +17,9 @@ export function assertRaster(r: PhotoRaster): void {
 
 export interface LuminanceTables {
   /** Per-code contribution of each channel to Y, the BT.709 weights folded in so a pixel costs three lookups. */
-  r: Float32Array;
-  g: Float32Array;
-  b: Float32Array;
+  r: Float64Array;
+  g: Float64Array;
+  b: Float64Array;
   /** Linear value per code, for colour means. */
   linear: Float64Array;
   /** Lowest code counted as clipped: 98% of full scale (PRODUCT.md §5.5). */
@@ -35,9 +35,9 @@ export function luminanceTables(bitDepth: 8 | 16, encoding: 'srgb' | 'linear'): 
   if (hit) return hit;
   const linear = linearTable(bitDepth, encoding);
   const n = linear.length;
-  const r = new Float32Array(n);
-  const g = new Float32Array(n);
-  const b = new Float32Array(n);
+  const r = new Float64Array(n);
+  const g = new Float64Array(n);
+  const b = new Float64Array(n);
   for (let v = 0; v < n; v++) {
     const l = linear[v] as number;
     // ITU-R BT.709 weights, applied per channel before the sum

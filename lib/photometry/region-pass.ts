@@ -1,9 +1,10 @@
+import { LUMINANCE_WEIGHTS } from './luminance';
 import { assertRaster, luminanceTables } from './raster';
 import type { Offset, PhotoRaster, Rect } from './types';
 
 /** What one pass over a photo's raw pixels gathers for one rectangle (reference coordinates). */
 export interface RectTotals {
-  /** Σ of luminance × scale over the pixels the shifted photo has, each rounded to float32 as a luminance plane holds it. */
+  /** Σ of luminance × scale over the pixels the shifted photo has (float64, summed a row segment at a time). */
   sum: number;
   /** Pixels the shifted photo has inside the rectangle. */
   n: number;
@@ -28,73 +29,87 @@ interface Segment {
   /** Columns [x0, x1) in reference coordinates. */
   x0: number;
   x1: number;
-  /** Indices of the (distinct) rectangles covering these columns, in request order. */
+  /** Indices of the (distinct) rectangles covering these columns. */
   members: Int32Array;
-  /** The member that also sums linear RGB, or −1. */
-  rgb: number;
+  /** Whether any member also sums linear RGB. */
+  rgb: boolean;
 }
 
 function sortedUnique(values: number[]): number[] {
   return [...new Set(values)].sort((a, b) => a - b);
 }
 
-// The two common loops live in small functions of their own, called once per row: V8 then
-// optimises them as whole functions after a few rows and keeps that code, instead of replacing a
-// long loop in the middle of a large function on the fly at every call (and throwing that code away
-// when the code after the loop first runs).
-const rowOut = new Float64Array(5);
+// The loops over a row segment live in small functions of their own, called once per segment and
+// row: V8 optimises them as whole functions after a few rows and keeps that code. Each segment's
+// pixels are summed once, whatever the number of rectangles covering it, and the segment's totals
+// are then added to every one of them.
+const rowOut = new Float64Array(4);
 
 type Samples = Uint8Array | Uint16Array;
 
-/** Σ luminance × scale (each rounded to float32) from s0 and from s1 over RGB pixels [p, end); writes both sums to out[0..1], returns the clipped count. */
-function rowLuminance(data: Samples, p: number, end: number, tr: Float32Array, tg: Float32Array, tb: Float32Array, scale: number, clipCode: number, s0: number, s1: number, out: Float64Array): number {
+/** Σ luminance of RGB pixels [p, end) into out[0]; returns the clipped count. */
+function rowLuminance(data: Samples, p: number, end: number, tr: Float64Array, tg: Float64Array, tb: Float64Array, clipCode: number, out: Float64Array): number {
+  let s = 0;
   let c = 0;
   for (; p < end; p += 3) {
     const r = data[p] as number;
     const g = data[p + 1] as number;
     const b = data[p + 2] as number;
-    const v = Math.fround(((tr[r] as number) + (tg[g] as number) + (tb[b] as number)) * scale);
-    s0 += v;
-    s1 += v;
+    s += (tr[r] as number) + (tg[g] as number) + (tb[b] as number);
     if (r >= clipCode || g >= clipCode || b >= clipCode) c++;
   }
-  out[0] = s0;
-  out[1] = s1;
+  out[0] = s;
   return c;
 }
 
-/** As rowLuminance, also adding linear R, G, B to out[2..4]. */
-function rowLuminanceRgb(data: Samples, p: number, end: number, tr: Float32Array, tg: Float32Array, tb: Float32Array, lin: Float64Array, scale: number, clipCode: number, s0: number, s1: number, out: Float64Array): number {
+/**
+ * Σ linear R, G, B of RGB pixels [p, end) into out[1..3] and their luminance into out[0]; returns the
+ * clipped count. Luminance is linear in R, G and B, so it comes from the three sums (the tables hold
+ * weight × linear value) instead of a fourth lookup per pixel.
+ */
+function rowLuminanceRgb(data: Samples, p: number, end: number, lin: Float64Array, clipCode: number, out: Float64Array): number {
+  let sr = 0;
+  let sg = 0;
+  let sb = 0;
   let c = 0;
-  let sr = out[2] as number;
-  let sg = out[3] as number;
-  let sb = out[4] as number;
   for (; p < end; p += 3) {
     const r = data[p] as number;
     const g = data[p + 1] as number;
     const b = data[p + 2] as number;
-    const v = Math.fround(((tr[r] as number) + (tg[g] as number) + (tb[b] as number)) * scale);
-    s0 += v;
-    s1 += v;
     sr += lin[r] as number;
     sg += lin[g] as number;
     sb += lin[b] as number;
     if (r >= clipCode || g >= clipCode || b >= clipCode) c++;
   }
-  out[0] = s0;
-  out[1] = s1;
-  out[2] = sr;
-  out[3] = sg;
-  out[4] = sb;
+  // ITU-R BT.709: Y = 0.2126 R + 0.7152 G + 0.0722 B
+  out[0] = LUMINANCE_WEIGHTS.r * sr + LUMINANCE_WEIGHTS.g * sg + LUMINANCE_WEIGHTS.b * sb;
+  out[1] = sr;
+  out[2] = sg;
+  out[3] = sb;
+  return c;
+}
+
+/** Grey pixels [p, end): luminance into out[0] and the linear value (R = G = B) into out[1..3]; returns the clipped count. */
+function rowGrey(data: Samples, p: number, end: number, lin: Float64Array, clipCode: number, out: Float64Array): number {
+  let sv = 0;
+  let c = 0;
+  for (; p < end; p++) {
+    const v = data[p] as number;
+    sv += lin[v] as number;
+    if (v >= clipCode) c++;
+  }
+  out[0] = (LUMINANCE_WEIGHTS.r + LUMINANCE_WEIGHTS.g + LUMINANCE_WEIGHTS.b) * sv;
+  out[1] = sv;
+  out[2] = sv;
+  out[3] = sv;
   return c;
 }
 
 /**
  * One pass over the raw pixels of a photo whose features sit `offset` pixels away, gathering for
  * every requested rectangle the float64 sum of luminance × scale, the pixel count, the clipped count
- * and optionally the linear RGB sums. Each pixel's luminance is rounded to float32 (the value
- * `luminanceCrop` would hold) and added to each covering rectangle's sum in row-major order, so the
- * sums equal `regionSum` over a crop bit for bit, without a full-resolution plane in memory.
+ * and optionally the linear RGB sums, without a full-resolution plane in memory. Each pixel is read
+ * once however many rectangles cover it.
  */
 export function measureRects(raster: PhotoRaster, requests: readonly RectRequest[], offset: Offset, scale: number): RectTotals[] {
   assertRaster(raster);
@@ -148,8 +163,7 @@ export function measureRects(raster: PhotoRaster, requests: readonly RectRequest
       const x1 = xs[xi + 1] as number;
       const members = cover.filter((i) => (distinct[i] as Rect).x <= x0 && (distinct[i] as Rect).x + (distinct[i] as Rect).w >= x1);
       if (members.length === 0) continue;
-      const rgbMembers = members.filter((i) => wantRgb[i]);
-      segments.push({ x0, x1, members: Int32Array.from(members), rgb: rgbMembers.length === 1 ? (rgbMembers[0] as number) : rgbMembers.length === 0 ? -1 : -2 });
+      segments.push({ x0, x1, members: Int32Array.from(members), rgb: members.some((i) => wantRgb[i]) });
     }
     for (let y = ya; y < yb; y++) {
       const sy = y + dy;
@@ -159,50 +173,27 @@ export function measureRects(raster: PhotoRaster, requests: readonly RectRequest
         const a = Math.max(seg.x0, -dx);
         const e = Math.min(seg.x1, width - dx);
         if (e <= a) continue;
+        const p0 = (sy * width + a + dx) * channels;
+        const p1 = (sy * width + e + dx) * channels;
+        const c =
+          channels === 1
+            ? rowGrey(data, p0, p1, lin, clipCode, rowOut)
+            : seg.rgb
+              ? rowLuminanceRgb(data, p0, p1, lin, clipCode, rowOut)
+              : rowLuminance(data, p0, p1, tr, tg, tb, clipCode, rowOut);
+        const s = (rowOut[0] as number) * scale;
         const m = seg.members;
-        const mc = m.length;
-        const i0 = m[0] as number;
-        const i1 = mc > 1 ? (m[1] as number) : -1;
-        for (let q = 0; q < mc; q++) counts[m[q] as number] = (counts[m[q] as number] as number) + (e - a);
-        let c = 0;
-        if (channels === 3 && seg.rgb === -1 && mc <= 2) {
-          const p0 = (sy * width + a + dx) * 3;
-          c = rowLuminance(data, p0, (sy * width + e + dx) * 3, tr, tg, tb, scale, clipCode, sums[i0] as number, i1 >= 0 ? (sums[i1] as number) : 0, rowOut);
-          sums[i0] = rowOut[0] as number;
-          if (i1 >= 0) sums[i1] = rowOut[1] as number;
-        } else if (channels === 3 && seg.rgb >= 0 && mc <= 2) {
-          const ri = seg.rgb;
-          rowOut[2] = rgbSums[3 * ri] as number;
-          rowOut[3] = rgbSums[3 * ri + 1] as number;
-          rowOut[4] = rgbSums[3 * ri + 2] as number;
-          const p0 = (sy * width + a + dx) * 3;
-          c = rowLuminanceRgb(data, p0, (sy * width + e + dx) * 3, tr, tg, tb, lin, scale, clipCode, sums[i0] as number, i1 >= 0 ? (sums[i1] as number) : 0, rowOut);
-          sums[i0] = rowOut[0] as number;
-          if (i1 >= 0) sums[i1] = rowOut[1] as number;
-          rgbSums[3 * ri] = rowOut[2] as number;
-          rgbSums[3 * ri + 1] = rowOut[3] as number;
-          rgbSums[3 * ri + 2] = rowOut[4] as number;
-        } else {
-          // any number of members, grey or colour: the general (slower) loop
-          const stride = channels;
-          for (let p = (sy * width + a + dx) * stride, end = (sy * width + e + dx) * stride; p < end; p += stride) {
-            const r = data[p] as number;
-            const g = stride === 3 ? (data[p + 1] as number) : r;
-            const b = stride === 3 ? (data[p + 2] as number) : r;
-            const v = Math.fround(((tr[r] as number) + (tg[g] as number) + (tb[b] as number)) * scale);
-            for (let q = 0; q < mc; q++) {
-              const i = m[q] as number;
-              sums[i] = (sums[i] as number) + v;
-              if (wantRgb[i]) {
-                rgbSums[3 * i] = (rgbSums[3 * i] as number) + (lin[r] as number);
-                rgbSums[3 * i + 1] = (rgbSums[3 * i + 1] as number) + (lin[g] as number);
-                rgbSums[3 * i + 2] = (rgbSums[3 * i + 2] as number) + (lin[b] as number);
-              }
-            }
-            if (r >= clipCode || g >= clipCode || b >= clipCode) c++;
+        for (let q = 0; q < m.length; q++) {
+          const i = m[q] as number;
+          sums[i] = (sums[i] as number) + s;
+          counts[i] = (counts[i] as number) + (e - a);
+          clips[i] = (clips[i] as number) + c;
+          if (wantRgb[i]) {
+            rgbSums[3 * i] = (rgbSums[3 * i] as number) + (rowOut[1] as number);
+            rgbSums[3 * i + 1] = (rgbSums[3 * i + 1] as number) + (rowOut[2] as number);
+            rgbSums[3 * i + 2] = (rgbSums[3 * i + 2] as number) + (rowOut[3] as number);
           }
         }
-        for (let q = 0; q < mc; q++) clips[m[q] as number] = (clips[m[q] as number] as number) + c;
       }
     }
   }
