@@ -8,7 +8,7 @@ import { execFileSync } from 'node:child_process';
 import { existsSync, mkdirSync, readFileSync } from 'node:fs';
 import { writeFile } from 'node:fs/promises';
 import { cpus, loadavg, tmpdir, totalmem } from 'node:os';
-import { dirname, join } from 'node:path';
+import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { analyzeFiles, decodeRawOnly, writeArtifacts } from '../lib/image';
 
@@ -16,7 +16,8 @@ const RUNS = 5;
 // V8 optimises the engine's loops over its first few calls (a worker process analyses capture sets
 // one after another, so the steady state is what users get); the first analysis is reported apart
 const WARMUP = 5;
-const here = dirname(fileURLToPath(import.meta.url));
+// npm run bench runs this compiled from .build/bench/ (as the worker runs the engine); its files stay in bench/
+const here = fileURLToPath(new URL('.', import.meta.url)).replace(/[\\/]\.build[\\/]bench[\\/]?$/, '/bench');
 const dir = join(tmpdir(), 'veilmeter-bench-6000x4000-q90-v1');
 const names = ['on.jpg', 'off.jpg', 'ambient.jpg'] as const;
 const paths = names.map((n) => join(dir, n));

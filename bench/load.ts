@@ -243,8 +243,11 @@ async function main(): Promise<void> {
   const { projectId, analysisIds } = await seed(password);
   const serverEnv = { NEXT_DIST_DIR: distDir, QUEUE_PREFIX: prefix, PORT: String(port), NEXTAUTH_URL: base };
   start(['node', 'scripts/web.mjs', '-p', String(port), '-H', '127.0.0.1'], { ...serverEnv, WEB_PROCESSES: String(WEB_PROCESSES) }, 'web');
-  start(['tsx', 'worker/index.ts'], serverEnv, 'worker 1');
-  start(['tsx', 'worker/index.ts'], serverEnv, 'worker 2');
+  // the workers run compiled, as npm start runs them
+  const wb = spawnSync(process.execPath, ['scripts/build-worker.mjs'], { encoding: 'utf8', timeout: 60_000 });
+  if (wb.status !== 0) throw new Error(`worker build failed:\n${wb.stderr}`);
+  start(['node', '--enable-source-maps', '.build/worker/index.mjs'], serverEnv, 'worker 1');
+  start(['node', '--enable-source-maps', '.build/worker/index.mjs'], serverEnv, 'worker 2');
   let up = false;
   for (let i = 0; i < 300 && !up; i++) {
     up = await fetch(`${base}/api/health`).then((r) => r.ok, () => false);

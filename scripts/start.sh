@@ -40,10 +40,12 @@ npx tsx db/seeds/run.ts --if-empty
 
 log "building"
 npx next build >"$RUN/build.log" 2>&1 || { tail -40 "$RUN/build.log" >&2; fail "build failed (log above, full log in $RUN/build.log)"; }
+# the worker runs compiled on plain Node (scripts/build-worker.mjs says why)
+node scripts/build-worker.mjs || fail "worker build failed"
 
 setsid npx tsx scripts/mail-catcher.ts >"$RUN/mail.log" 2>&1 & echo $! > "$RUN/mail.pid"
 for i in $(seq 1 "$WORKERS"); do
-  setsid npx tsx worker/index.ts >"$RUN/worker-$i.log" 2>&1 & echo $! > "$RUN/worker-$i.pid"
+  setsid node --enable-source-maps .build/worker/index.mjs >"$RUN/worker-$i.log" 2>&1 & echo $! > "$RUN/worker-$i.pid"
 done
 setsid node scripts/web.mjs -p "$PORT" -H "${HOST:-127.0.0.1}" >"$RUN/web.log" 2>&1 & echo $! > "$RUN/web.pid"
 

@@ -50,12 +50,13 @@ step() {
   if "$@"; then log "── $name passed ($((SECONDS - t0)) s)"; else log "── $name FAILED"; status=1; fi
 }
 
+step worker-build node scripts/build-worker.mjs
 step typecheck npx tsc --noEmit
 step lint npx eslint --max-warnings=0 .
 step vitest npx vitest run --reporter=default
 step build bash -c 'npx next build > "$0/build.log" 2>&1 || { tail -60 "$0/build.log"; exit 1; }' "$RUN"
-if [ -f .next/BUILD_ID ]; then
-  setsid npx tsx worker/index.ts >"$RUN/worker.log" 2>&1 & echo $! > "$RUN/worker.pid"
+if [ -f .next/BUILD_ID ] && [ -f .build/worker/index.mjs ]; then
+  setsid node --enable-source-maps .build/worker/index.mjs >"$RUN/worker.log" 2>&1 & echo $! > "$RUN/worker.pid"
   step e2e npx playwright test
   [ "$status" = 0 ] || { echo "--- worker log (tail)"; tail -30 "$RUN/worker.log"; }
 fi

@@ -10,6 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { renderCapture, type RenderedCapture } from '../fixtures/capture-generator';
 import { freePort } from '../fixtures/free-port';
 import { createTestLab } from '../fixtures/test-lab';
+import { removeWorkerBuild, workerArgs } from '../fixtures/worker-process';
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 // under /tmp, not a home folder: the postgres user must reach the cluster folder
@@ -66,9 +67,9 @@ const redisStop = () => spawnSync('redis-cli', ['-p', String(ports.redis), 'shut
 const children: ChildProcess[] = [];
 const logOf = new Map<ChildProcess, string[]>();
 
-/** A child process in its own group, resolved once a line containing `ready` appears. */
+/** A child process in its own group (Node with these arguments), resolved once a line containing `ready` appears. */
 function spawnReady(args: string[], env: NodeJS.ProcessEnv, what: string): Promise<ChildProcess> {
-  const child = spawn(process.execPath, ['--import', 'tsx', ...args], { cwd: process.cwd(), env, stdio: ['ignore', 'pipe', 'pipe'], detached: true });
+  const child = spawn(process.execPath, args, { cwd: process.cwd(), env, stdio: ['ignore', 'pipe', 'pipe'], detached: true });
   const log: string[] = [];
   children.push(child);
   logOf.set(child, log);
@@ -108,11 +109,11 @@ async function stopChild(child: ChildProcess | undefined): Promise<void> {
 let env: NodeJS.ProcessEnv = { ...process.env };
 let s3: ChildProcess | undefined;
 const startS3 = async () => {
-  s3 = await spawnReady(['scripts/s3-fake.ts'], env, 'S3 fake');
+  s3 = await spawnReady(['--import', 'tsx', 'scripts/s3-fake.ts'], env, 'S3 fake');
 };
 const workers: ChildProcess[] = [];
 const startWorker = async () => {
-  workers.push(await spawnReady(['worker/index.ts', '--sweep-every=1', '--sweep-grace=1'], { ...env, WORKER_CONCURRENCY: '1' }, 'worker'));
+  workers.push(await spawnReady(workerArgs('--sweep-every=1', '--sweep-grace=1'), { ...env, WORKER_CONCURRENCY: '1' }, 'worker'));
 };
 const allLogs = () => workers.flatMap((w) => logOf.get(w) ?? []).join('');
 
@@ -225,6 +226,7 @@ afterAll(async () => {
   redisStop();
   if (existsSync(join(pgDir, 'postmaster.pid'))) spawnSync('runuser', ['-u', 'postgres', '--', `${pgBin}/pg_ctl`, '-D', pgDir, '-w', '-t', '30', '-m', 'immediate', 'stop'], { timeout: 40_000 });
   rmSync(tmp, { recursive: true, force: true });
+  removeWorkerBuild();
 }, 60_000);
 
 describe('faults and many workers', () => {

@@ -9,6 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { renderCapture, type RenderedCapture } from '../fixtures/capture-generator';
 import { freePort } from '../fixtures/free-port';
 import { createTestLab } from '../fixtures/test-lab';
+import { removeWorkerBuild, workerArgs } from '../fixtures/worker-process';
 
 const tmp = mkdtempSync(join(tmpdir(), 'vm-worker-'));
 const prefix = `vmtest${Math.random().toString(36).slice(2, 8)}`;
@@ -58,7 +59,7 @@ const workers: ChildProcess[] = [];
 const logs: string[] = [];
 
 function spawnWorker(): Promise<ChildProcess> {
-  const child = spawn(process.execPath, ['--import', 'tsx', 'worker/index.ts', '--sweep-every=1', '--sweep-grace=1'], {
+  const child = spawn(process.execPath, workerArgs('--sweep-every=1', '--sweep-grace=1'), {
     cwd: process.cwd(),
     env: { ...process.env, REDIS_URL: `redis://127.0.0.1:${redisPort}`, QUEUE_PREFIX: prefix, STORAGE_DIR: join(tmp, 'storage'), WORKER_CONCURRENCY: '2' },
     stdio: ['ignore', 'pipe', 'pipe'],
@@ -162,6 +163,7 @@ afterAll(async () => {
   await m?.db.closeDb();
   stopRedis();
   rmSync(tmp, { recursive: true, force: true });
+  removeWorkerBuild();
 });
 
 describe('analysis worker', () => {
