@@ -52,7 +52,7 @@ export function ComparisonTable({ rows, aLabel, bLabel, csvName }: { rows: Metri
       <ExportCsvBar onExport={exportCsv} />
       <div className="overflow-x-auto rounded-md border border-line">
         <table className="w-full text-sm" data-testid="comparison-table" data-order={order} data-reverse={reverse ? 'yes' : 'no'}>
-          <thead className="bg-raised text-left text-xs uppercase tracking-wider text-muted">
+          <thead className="whitespace-nowrap bg-raised text-left text-xs uppercase tracking-wider text-muted">
             <tr>
               <th scope="col" className="px-3 py-2" aria-sort={ariaSort('metric')}>
                 <SortButton label="Metric" active={order === 'metric'} desc={reverse} onClick={sortBy('metric')} />

@@ -1,7 +1,7 @@
 // Faults survived, on services this file owns: its own PostgreSQL cluster, Redis and S3 fake on
 // random loopback ports, so stopping and restarting them never touches the shared test stack.
 // Workers are real processes storing photos through STORAGE_DRIVER=s3.
-import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { spawnSync, type ChildProcess } from 'node:child_process';
 import { chmodSync, chownSync, existsSync, mkdirSync, mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Queue } from 'bullmq';
@@ -9,8 +9,8 @@ import { Redis } from 'ioredis';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { renderCapture, type RenderedCapture } from '../fixtures/capture-generator';
 import { freePort } from '../fixtures/free-port';
-import { createTestLab } from '../fixtures/test-lab';
-import { removeWorkerBuild, workerArgs } from '../fixtures/worker-process';
+import { addCaptureSet, createTestLab } from '../fixtures/test-lab';
+import { removeWorkerBuild, spawnReady, workerArgs } from '../fixtures/worker-process';
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 // under /tmp, not a home folder: the postgres user must reach the cluster folder
@@ -67,27 +67,12 @@ const redisStop = () => spawnSync('redis-cli', ['-p', String(ports.redis), 'shut
 const children: ChildProcess[] = [];
 const logOf = new Map<ChildProcess, string[]>();
 
-/** A child process in its own group (Node with these arguments), resolved once a line containing `ready` appears. */
-function spawnReady(args: string[], env: NodeJS.ProcessEnv, what: string): Promise<ChildProcess> {
-  const child = spawn(process.execPath, args, { cwd: process.cwd(), env, stdio: ['ignore', 'pipe', 'pipe'], detached: true });
+/** A child process in its own group, resolved once a line containing `ready` appears; its output is kept per process. */
+function startReady(args: string[], env: NodeJS.ProcessEnv, what: string): Promise<ChildProcess> {
   const log: string[] = [];
-  children.push(child);
-  logOf.set(child, log);
-  return new Promise((resolve, reject) => {
-    const t = setTimeout(() => reject(new Error(`${what} did not start:\n${log.join('')}`)), 30_000);
-    child.stdout?.on('data', (d: Buffer) => {
-      log.push(d.toString());
-      if (d.toString().includes('ready')) {
-        clearTimeout(t);
-        resolve(child);
-      }
-    });
-    child.stderr?.on('data', (d: Buffer) => log.push(d.toString()));
-    child.once('exit', (code) => {
-      clearTimeout(t);
-      reject(new Error(`${what} exited ${code}:\n${log.join('')}`));
-    });
-  });
+  const ready = spawnReady(args, { env, what, log, track: children });
+  logOf.set(children[children.length - 1] as ChildProcess, log);
+  return ready;
 }
 
 async function stopChild(child: ChildProcess | undefined): Promise<void> {
@@ -109,21 +94,19 @@ async function stopChild(child: ChildProcess | undefined): Promise<void> {
 let env: NodeJS.ProcessEnv = { ...process.env };
 let s3: ChildProcess | undefined;
 const startS3 = async () => {
-  s3 = await spawnReady(['--import', 'tsx', 'scripts/s3-fake.ts'], env, 'S3 fake');
+  s3 = await startReady(['--import', 'tsx', 'scripts/s3-fake.ts'], env, 'S3 fake');
 };
 const workers: ChildProcess[] = [];
 const startWorker = async () => {
-  workers.push(await spawnReady(workerArgs('--sweep-every=1', '--sweep-grace=1'), { ...env, WORKER_CONCURRENCY: '1' }, 'worker'));
+  workers.push(await startReady(workerArgs('--sweep-every=1', '--sweep-grace=1'), { ...env, WORKER_CONCURRENCY: '1' }, 'worker'));
 };
 const allLogs = () => workers.flatMap((w) => logOf.get(w) ?? []).join('');
 
 type Mods = {
   db: typeof import('../../db/index');
   analyses: typeof import('../../db/queries/analyses');
-  regions: typeof import('../../db/queries/regions');
   producer: typeof import('../../lib/queue/producer');
   names: typeof import('../../lib/queue/names');
-  ingest: typeof import('../../lib/storage/ingest-photo');
 };
 let m: Mods;
 let labId = '';
@@ -132,19 +115,8 @@ let revisionId = '';
 let queueRedis: Redis;
 let queue: Queue;
 
-async function newCaptureSet(label: string, capture: RenderedCapture): Promise<string> {
-  const db = m.db.getDb();
-  const [row] = await db('capture_sets').insert({ lab_id: labId, revision_id: revisionId, label, pattern: capture.truth.pattern, created_by: userId }).returning<{ id: string }[]>('id');
-  const id = (row as { id: string }).id;
-  for (const role of ['on', 'off', 'ambient'] as const) {
-    await m.ingest.ingestPhoto({ labId, userId, captureSetId: id, role, name: `${label}-${role}.jpg`, bytes: capture[role] });
-  }
-  const t = capture.truth;
-  await m.regions.replaceRegions(labId, userId, id, [
-    { kind: 'screen', ...t.screen, source: 'marked' },
-    { kind: 'background', ...t.background, source: 'marked' },
-  ]);
-  return id;
+function newCaptureSet(label: string, capture: RenderedCapture): Promise<string> {
+  return addCaptureSet(m.db.getDb(), { labId, userId, revisionId }, label, capture);
 }
 
 /** Polls the row; database errors while PostgreSQL is restarting count as "not yet". */
@@ -203,10 +175,8 @@ beforeAll(async () => {
   m = {
     db: await import('../../db/index'),
     analyses: await import('../../db/queries/analyses'),
-    regions: await import('../../db/queries/regions'),
     producer: await import('../../lib/queue/producer'),
     names: await import('../../lib/queue/names'),
-    ingest: await import('../../lib/storage/ingest-photo'),
   };
   const db = m.db.getDb();
   ({ labId, userId, revisionId } = await createTestLab(db, { tag: prefix, name: 'Fault test', project: 'Fault rig', revision: 'F1' }));

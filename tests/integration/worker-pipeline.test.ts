@@ -1,5 +1,5 @@
 // The analysis pipeline against real PostgreSQL, a private Redis and real worker processes.
-import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { spawnSync, type ChildProcess } from 'node:child_process';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -8,8 +8,8 @@ import { Redis } from 'ioredis';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { renderCapture, type RenderedCapture } from '../fixtures/capture-generator';
 import { freePort } from '../fixtures/free-port';
-import { createTestLab } from '../fixtures/test-lab';
-import { removeWorkerBuild, workerArgs } from '../fixtures/worker-process';
+import { addCaptureSet, createTestLab } from '../fixtures/test-lab';
+import { removeWorkerBuild, spawnReady, workerArgs } from '../fixtures/worker-process';
 
 const tmp = mkdtempSync(join(tmpdir(), 'vm-worker-'));
 const prefix = `vmtest${Math.random().toString(36).slice(2, 8)}`;
@@ -41,12 +41,10 @@ process.env.QUEUE_PREFIX = prefix;
 type Mods = {
   db: typeof import('../../db/index');
   analyses: typeof import('../../db/queries/analyses');
-  regions: typeof import('../../db/queries/regions');
   readings: typeof import('../../db/queries/readings');
   producer: typeof import('../../lib/queue/producer');
   jobs: typeof import('../../lib/queue/jobs');
   names: typeof import('../../lib/queue/names');
-  ingest: typeof import('../../lib/storage/ingest-photo');
   storage: typeof import('../../lib/storage');
 };
 let m: Mods;
@@ -59,28 +57,8 @@ const workers: ChildProcess[] = [];
 const logs: string[] = [];
 
 function spawnWorker(): Promise<ChildProcess> {
-  const child = spawn(process.execPath, workerArgs('--sweep-every=1', '--sweep-grace=1'), {
-    cwd: process.cwd(),
-    env: { ...process.env, REDIS_URL: `redis://127.0.0.1:${redisPort}`, QUEUE_PREFIX: prefix, STORAGE_DIR: join(tmp, 'storage'), WORKER_CONCURRENCY: '2' },
-    stdio: ['ignore', 'pipe', 'pipe'],
-    detached: true,
-  });
-  workers.push(child);
-  return new Promise((resolve, reject) => {
-    const t = setTimeout(() => reject(new Error(`worker did not start:\n${logs.join('')}`)), 30_000);
-    child.stdout?.on('data', (d: Buffer) => {
-      logs.push(d.toString());
-      if (d.toString().includes('ready')) {
-        clearTimeout(t);
-        resolve(child);
-      }
-    });
-    child.stderr?.on('data', (d: Buffer) => logs.push(d.toString()));
-    child.once('exit', (code) => {
-      clearTimeout(t);
-      if (code !== null && code !== 0) reject(new Error(`worker exited ${code}:\n${logs.join('')}`));
-    });
-  });
+  const env = { ...process.env, REDIS_URL: `redis://127.0.0.1:${redisPort}`, QUEUE_PREFIX: prefix, STORAGE_DIR: join(tmp, 'storage'), WORKER_CONCURRENCY: '2' };
+  return spawnReady(workerArgs('--sweep-every=1', '--sweep-grace=1'), { env, what: 'worker', log: logs, track: workers });
 }
 
 function killGroup(child: ChildProcess, signal: NodeJS.Signals): void {
@@ -93,21 +71,8 @@ function killGroup(child: ChildProcess, signal: NodeJS.Signals): void {
   }
 }
 
-async function newCaptureSet(label: string, capture: RenderedCapture, opts: { regions?: boolean } = {}): Promise<string> {
-  const db = m.db.getDb();
-  const [row] = await db('capture_sets').insert({ lab_id: labId, revision_id: revisionId, label, pattern: capture.truth.pattern, created_by: userId }).returning<{ id: string }[]>('id');
-  const id = (row as { id: string }).id;
-  for (const role of ['on', 'off', 'ambient'] as const) {
-    await m.ingest.ingestPhoto({ labId, userId, captureSetId: id, role, name: `${label}-${role}.jpg`, bytes: capture[role] });
-  }
-  if (opts.regions !== false) {
-    const t = capture.truth;
-    await m.regions.replaceRegions(labId, userId, id, [
-      { kind: 'screen', ...t.screen, source: 'marked' },
-      { kind: 'background', ...t.background, source: 'marked' },
-    ]);
-  }
-  return id;
+function newCaptureSet(label: string, capture: RenderedCapture, opts: { regions?: boolean } = {}): Promise<string> {
+  return addCaptureSet(m.db.getDb(), { labId, userId, revisionId }, label, capture, opts);
 }
 
 async function waitFor(analysisId: string, statuses: string[], timeoutMs = 60_000) {
@@ -132,12 +97,10 @@ beforeAll(async () => {
   m = {
     db: await import('../../db/index'),
     analyses: await import('../../db/queries/analyses'),
-    regions: await import('../../db/queries/regions'),
     readings: await import('../../db/queries/readings'),
     producer: await import('../../lib/queue/producer'),
     jobs: await import('../../lib/queue/jobs'),
     names: await import('../../lib/queue/names'),
-    ingest: await import('../../lib/storage/ingest-photo'),
     storage: await import('../../lib/storage'),
   };
   const db = m.db.getDb();
