@@ -5,7 +5,7 @@ const config = [
   ...nextVitals,
   ...nextTs,
   {
-    ignores: ['.next/**', 'node_modules/**', '.data/**', '.test-data/**', 'test-results/**', 'playwright-report/**', 'next-env.d.ts'],
+    ignores: ['.next/**', '.next-*/**', '.build/**', 'node_modules/**', '.data/**', '.test-data/**', 'test-results/**', 'playwright-report/**', 'next-env.d.ts'],
   },
   {
     rules: {
