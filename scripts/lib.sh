@@ -140,6 +140,19 @@ redis_stop() {
   rm -f "$data/redis/redis.pid"
 }
 
+# mail_start RUN_DIR: the local mail catcher on 127.0.0.1:$SMTP_PORT, waited for, so mail sent right
+# after (the demo seed's target alerts, for one) is caught rather than refused.
+mail_start() {
+  local run="$1" i
+  setsid npx tsx "$ROOT/scripts/mail-catcher.ts" >"$run/mail.log" 2>&1 & echo $! > "$run/mail.pid"
+  for i in $(seq 1 150); do
+    grep -q "catching on" "$run/mail.log" 2>/dev/null && return
+    kill -0 "$(cat "$run/mail.pid")" 2>/dev/null || break
+    sleep 0.1
+  done
+  cat "$run/mail.log" >&2; fail "the mail catcher did not start (log above)"
+}
+
 # s3_fake_start RUN_DIR PORT: the S3-compatible fake on 127.0.0.1 (objects under DATA_DIR/s3), with
 # the S3_* settings exported so tests can reach it; STORAGE_DRIVER is left as it is.
 s3_fake_start() {

@@ -34,6 +34,8 @@ PGPORT=$PGPORT
 REDIS_PORT=$REDIS_PORT
 EOT
 
+mail_start "$RUN"
+
 log "migrating"
 npx tsx db/migrate.ts latest
 npx tsx db/seeds/run.ts --if-empty
@@ -43,7 +45,6 @@ npx next build >"$RUN/build.log" 2>&1 || { tail -40 "$RUN/build.log" >&2; fail "
 # the worker runs compiled on plain Node (scripts/build-worker.mjs says why)
 node scripts/build-worker.mjs || fail "worker build failed"
 
-setsid npx tsx scripts/mail-catcher.ts >"$RUN/mail.log" 2>&1 & echo $! > "$RUN/mail.pid"
 for i in $(seq 1 "$WORKERS"); do
   setsid node --enable-source-maps .build/worker/index.mjs >"$RUN/worker-$i.log" 2>&1 & echo $! > "$RUN/worker-$i.pid"
 done

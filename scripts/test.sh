@@ -35,7 +35,7 @@ trap 'exit 130' INT TERM
 pg_start "$DATA_DIR" "$PGPORT" throwaway
 pg_ensure_db "$PGPORT" "$PGDATABASE"
 redis_start "$DATA_DIR" "$REDIS_PORT" throwaway
-setsid npx tsx scripts/mail-catcher.ts >"$RUN/mail.log" 2>&1 & echo $! > "$RUN/mail.pid"
+mail_start "$RUN"
 s3_fake_start "$RUN" "$S3_FAKE_PORT"
 
 npx tsx db/migrate.ts latest
