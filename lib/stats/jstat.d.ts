@@ -1,4 +1,4 @@
-// jstat ships no types; only the parts lib/stats uses are declared.
+// jstat ships no types; only the parts lib/stats and the tests' oracles use are declared.
 declare module 'jstat' {
   interface JStatStatic {
     studentt: {
@@ -6,6 +6,8 @@ declare module 'jstat' {
       cdf(x: number, dof: number): number;
     };
     ibeta(x: number, a: number, b: number): number | false;
+    /** k in 0..1; inclusive (exclusive = false) interpolates linearly between order statistics. */
+    percentile(sorted: number[], k: number, exclusive?: boolean): number;
   }
   const jStat: JStatStatic;
   export default jStat;
