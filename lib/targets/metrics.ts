@@ -26,7 +26,7 @@ export const METRICS: Record<MetricKey, MetricInfo> = {
   uniformity: { key: 'uniformity', column: 'uniformity', label: 'Uniformity (min/max)', short: 'Uniformity', unit: '', better: 'higher', digits: 3, phrase: 'the uniformity' },
   ghostRatio: { key: 'ghostRatio', column: 'ghost_ratio', label: 'Ghost ratio', short: 'Ghost', unit: '', better: 'lower', digits: 4, phrase: 'the ghost ratio' },
   transmission: { key: 'transmission', column: 'transmission', label: 'See-through transmission', short: 'Transmission', unit: '', better: 'higher', digits: 3, phrase: 'the see-through transmission' },
-  tintDeltaE00: { key: 'tintDeltaE00', column: 'tint_delta_e00', label: 'Tint ΔE00', short: 'Tint ΔE00', unit: 'ΔE00', better: 'lower', digits: 2, phrase: 'the tint' },
+  tintDeltaE00: { key: 'tintDeltaE00', column: 'tint_delta_e00', label: 'See-through tint', short: 'Tint ΔE00', unit: 'ΔE00', better: 'lower', digits: 2, phrase: 'the tint' },
 };
 
 export const METRIC_LIST: MetricInfo[] = METRIC_KEYS.map((k) => METRICS[k]);
@@ -35,7 +35,7 @@ export function isMetricKey(v: unknown): v is MetricKey {
   return typeof v === 'string' && (METRIC_KEYS as readonly string[]).includes(v);
 }
 
-/** The metric's name with its unit in brackets ("Ghost ratio", "Tint (ΔE00)"); ratios ":1" go unnamed. */
+/** The metric's name with its unit in brackets ("Ghost ratio", "See-through tint (ΔE00)"); ratios ":1" go unnamed. */
 export function metricLabelWithUnit(m: Pick<MetricInfo, 'label' | 'unit'>): string {
   return m.unit && m.unit !== ':1' ? `${m.label} (${m.unit})` : m.label;
 }
