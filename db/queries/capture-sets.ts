@@ -1,6 +1,9 @@
 import { getDb } from '../index';
 import type { Conditions } from '../../lib/schemas/capture-set';
+import { PHOTO_ROLES } from '../../lib/schemas/upload';
 import { recordAudit } from './audit';
+
+const roleRank = (role: string): number => (PHOTO_ROLES as readonly string[]).indexOf(role);
 
 export type CaptureSet = {
   id: string;
@@ -83,7 +86,8 @@ export async function listCaptureSets(labId: string, revisionId: string): Promis
   return rows.map((r) => ({
     ...toSet(r),
     photoCount: Number(r.photo_count ?? 0),
-    roles: r.roles ?? [],
+    // in the order people shoot them (on, off, ambient, dark), not the database's
+    roles: [...(r.roles ?? [])].sort((a, b) => roleRank(a) - roleRank(b)),
     latestStatus: r.latest_status ?? null,
     latestAcr: r.latest_acr ?? null,
     latestGhost: r.latest_ghost ?? null,

@@ -43,4 +43,16 @@ describe('listCaptureSets', () => {
     // the lab's own rows only
     expect(await listCaptureSets(b.labId, rev.id)).toEqual([]);
   });
+
+  it('names a set\'s photo roles in the order they are shot (on, off, ambient, dark)', async () => {
+    const rev = fx.revisions.R1 as { id: string; captureSetIds: string[] };
+    const setId = rev.captureSetIds[1] as string;
+    // stored in an order the database would otherwise give back alphabetically
+    for (const [k, role] of (['dark', 'ambient', 'off', 'on'] as const).entries()) {
+      await getDb()('photos').insert({ lab_id: a.labId, capture_set_id: setId, role, storage_key: `k-${tag}-${role}`, sha256: String(k).repeat(64), bytes: 1, width: 1, height: 1, format: 'jpeg' });
+    }
+    const set = (await listCaptureSets(a.labId, rev.id)).find((s) => s.id === setId);
+    expect(set?.photoCount).toBe(4);
+    expect(set?.roles).toEqual(['on', 'off', 'ambient', 'dark']);
+  });
 });
