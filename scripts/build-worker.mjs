@@ -13,10 +13,10 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
-export const BUILD_DIR = join(root, '.build');
+const at = process.argv.indexOf('--outdir');
+const outdir = at > 0 && process.argv[at + 1] ? join(process.cwd(), process.argv[at + 1]) : join(root, '.build');
 
-/** Builds every entry into outdir (default .build/); resolves once the files are written. */
-export async function buildWorker(outdir = BUILD_DIR) {
+try {
   await build({
     absWorkingDir: root,
     entryPoints: {
@@ -36,12 +36,7 @@ export async function buildWorker(outdir = BUILD_DIR) {
     sourcemap: 'linked',
     logLevel: 'warning',
   });
-}
-
-if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
-  const at = process.argv.indexOf('--outdir');
-  await buildWorker(at > 0 && process.argv[at + 1] ? join(process.cwd(), process.argv[at + 1]) : BUILD_DIR).catch((e) => {
-    process.stderr.write(`worker build failed: ${e instanceof Error ? e.message : String(e)}\n`);
-    process.exit(1);
-  });
+} catch (e) {
+  process.stderr.write(`worker build failed: ${e instanceof Error ? e.message : String(e)}\n`);
+  process.exit(1);
 }

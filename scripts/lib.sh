@@ -153,6 +153,11 @@ mail_start() {
   cat "$run/mail.log" >&2; fail "the mail catcher did not start (log above)"
 }
 
+# worker_spawn LOG_FILE PID_FILE: one worker process, compiled by scripts/build-worker.mjs, on plain Node.
+worker_spawn() {
+  setsid node --enable-source-maps "$ROOT/.build/worker/index.mjs" >"$1" 2>&1 & echo $! > "$2"
+}
+
 # s3_fake_start RUN_DIR PORT: the S3-compatible fake on 127.0.0.1 (objects under DATA_DIR/s3), with
 # the S3_* settings exported so tests can reach it; STORAGE_DRIVER is left as it is.
 s3_fake_start() {

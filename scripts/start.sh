@@ -46,7 +46,7 @@ npx next build >"$RUN/build.log" 2>&1 || { tail -40 "$RUN/build.log" >&2; fail "
 node scripts/build-worker.mjs || fail "worker build failed"
 
 for i in $(seq 1 "$WORKERS"); do
-  setsid node --enable-source-maps .build/worker/index.mjs >"$RUN/worker-$i.log" 2>&1 & echo $! > "$RUN/worker-$i.pid"
+  worker_spawn "$RUN/worker-$i.log" "$RUN/worker-$i.pid"
 done
 setsid node scripts/web.mjs -p "$PORT" -H "${HOST:-127.0.0.1}" >"$RUN/web.log" 2>&1 & echo $! > "$RUN/web.pid"
 

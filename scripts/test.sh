@@ -56,7 +56,7 @@ step lint npx eslint --max-warnings=0 .
 step vitest npx vitest run --reporter=default
 step build bash -c 'npx next build > "$0/build.log" 2>&1 || { tail -60 "$0/build.log"; exit 1; }' "$RUN"
 if [ -f .next/BUILD_ID ] && [ -f .build/worker/index.mjs ]; then
-  setsid node --enable-source-maps .build/worker/index.mjs >"$RUN/worker.log" 2>&1 & echo $! > "$RUN/worker.pid"
+  worker_spawn "$RUN/worker.log" "$RUN/worker.pid"
   step e2e npx playwright test
   [ "$status" = 0 ] || { echo "--- worker log (tail)"; tail -30 "$RUN/worker.log"; }
 fi

@@ -44,6 +44,8 @@ function sortedUnique(values: number[]): number[] {
 // pixels are summed once, whatever the number of rectangles covering it, and the segment's totals
 // are then added to every one of them.
 const rowOut = new Float64Array(4);
+// a grey pixel's luminance is its linear value times the weights' sum
+const GREY_WEIGHT = LUMINANCE_WEIGHTS.r + LUMINANCE_WEIGHTS.g + LUMINANCE_WEIGHTS.b;
 
 type Samples = Uint8Array | Uint16Array;
 
@@ -98,7 +100,7 @@ function rowGrey(data: Samples, p: number, end: number, lin: Float64Array, clipC
     sv += lin[v] as number;
     if (v >= clipCode) c++;
   }
-  out[0] = (LUMINANCE_WEIGHTS.r + LUMINANCE_WEIGHTS.g + LUMINANCE_WEIGHTS.b) * sv;
+  out[0] = GREY_WEIGHT * sv;
   out[1] = sv;
   out[2] = sv;
   out[3] = sv;

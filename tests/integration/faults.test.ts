@@ -68,11 +68,11 @@ const children: ChildProcess[] = [];
 const logOf = new Map<ChildProcess, string[]>();
 
 /** A child process in its own group, resolved once a line containing `ready` appears; its output is kept per process. */
-function startReady(args: string[], env: NodeJS.ProcessEnv, what: string): Promise<ChildProcess> {
+async function startReady(args: string[], env: NodeJS.ProcessEnv, what: string): Promise<ChildProcess> {
   const log: string[] = [];
-  const ready = spawnReady(args, { env, what, log, track: children });
-  logOf.set(children[children.length - 1] as ChildProcess, log);
-  return ready;
+  const child = await spawnReady(args, { env, what, log, track: children });
+  logOf.set(child, log);
+  return child;
 }
 
 async function stopChild(child: ChildProcess | undefined): Promise<void> {
