@@ -1,7 +1,8 @@
 #!/usr/bin/env bash
 # Shared helpers for start.sh, test.sh and stop.sh: installing what is missing and running
 # PostgreSQL, Redis and the mail catcher on 127.0.0.1 inside one data folder.
-set -euo pipefail
+# Sourced, so it sets no shell options: each caller chooses its own (start.sh and the others run
+# with `set -euo pipefail`; test.sh keeps going after a failed step).
 
 ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 PG_BIN="${PG_BIN:-}"
@@ -61,15 +62,16 @@ ensure_node_modules() {
   fi
 }
 
-# The postgres user must be able to reach the cluster folder; a checkout under /root is not
-# reachable, so the cluster then lives in /var/lib/veilmeter and .data/pg links to it.
+# The postgres user must be able to reach the cluster folder; a checkout under /root or in a
+# `mktemp -d` folder (mode 0700) is not reachable, so the cluster then lives in
+# /var/lib/veilmeter/<hash of the data folder>/pg and DATA_DIR/pg links to it.
 pg_dir_for() {
   local data="$1" want="$1/pg"
   mkdir -p "$data"
   if [ -L "$want" ]; then readlink -f "$want"; return; fi
-  if runuser -u postgres -- test -x "$data" 2>/dev/null; then echo "$want"; return; fi
+  if (cd / && runuser -u postgres -- test -x "$data") 2>/dev/null; then echo "$want"; return; fi
   local alt="/var/lib/veilmeter/$(printf '%s' "$data" | sha1sum | cut -c1-12)/pg"
-  mkdir -p "$(dirname "$alt")"
+  mkdir -p "$(dirname "$alt")"; chmod 755 /var/lib/veilmeter "$(dirname "$alt")"
   ln -sfn "$alt" "$want"
   echo "$alt"
 }
@@ -81,18 +83,23 @@ pg_start() {
   if [ ! -f "$dir/PG_VERSION" ]; then
     log "initdb $dir"
     mkdir -p "$dir"; chown postgres:postgres "$dir"; chmod 700 "$dir"
-    local pw="$data/.pgpass-init"
-    printf '%s\n' "$PGPASSWORD" > "$pw"; chown postgres "$pw"
-    runuser -u postgres -- "$PG_BIN/initdb" -D "$dir" -U veilmeter --pwfile="$pw" \
-      --auth-local=scram-sha-256 --auth-host=scram-sha-256 -E UTF8 --locale=C.UTF-8 >/dev/null
+    # initdb runs as postgres and must read the password file: it goes beside the cluster (a
+    # folder postgres can reach, whichever of the two places that is), readable by postgres only
+    local pw; pw="$(dirname "$dir")/.pgpass-init"
+    (umask 077; printf '%s\n' "$PGPASSWORD" > "$pw"); chown postgres:postgres "$pw"
+    # from / : the postgres user may not be allowed into the caller's working folder
+    if ! (cd / && runuser -u postgres -- "$PG_BIN/initdb" -D "$dir" -U veilmeter --pwfile="$pw" \
+      --auth-local=scram-sha-256 --auth-host=scram-sha-256 -E UTF8 --locale=C.UTF-8 >/dev/null); then
+      rm -f "$pw"; fail "initdb failed for $dir"
+    fi
     rm -f "$pw"
   fi
   local opts="-c listen_addresses=127.0.0.1 -p $port -c unix_socket_directories=''"
   if [ "$mode" = throwaway ]; then opts="$opts -c fsync=off -c synchronous_commit=off -c full_page_writes=off"; fi
-  if runuser -u postgres -- "$PG_BIN/pg_ctl" -D "$dir" status >/dev/null 2>&1; then
+  if (cd / && runuser -u postgres -- "$PG_BIN/pg_ctl" -D "$dir" status) >/dev/null 2>&1; then
     log "PostgreSQL already running on 127.0.0.1:$port"
   else
-    runuser -u postgres -- "$PG_BIN/pg_ctl" -D "$dir" -w -t 60 -l "$dir/server.log" -o "$opts" start >/dev/null \
+    (cd / && runuser -u postgres -- "$PG_BIN/pg_ctl" -D "$dir" -w -t 60 -l "$dir/server.log" -o "$opts" start) >/dev/null \
       || { tail -20 "$dir/server.log" >&2; fail "PostgreSQL did not start (log above)"; }
     log "PostgreSQL on 127.0.0.1:$port"
   fi
@@ -110,8 +117,17 @@ pg_stop() {
   [ -e "$data/pg" ] || return 0
   dir="$(readlink -f "$data/pg")"
   if [ -f "$dir/postmaster.pid" ]; then
-    runuser -u postgres -- "$PG_BIN/pg_ctl" -D "$dir" -w -t 60 -m fast stop >/dev/null 2>&1 || true
+    (cd / && runuser -u postgres -- "$PG_BIN/pg_ctl" -D "$dir" -w -t 60 -m fast stop) >/dev/null 2>&1 || true
   fi
+}
+
+# pg_remove DATA_DIR: deletes a stopped throwaway cluster, including its folder under
+# /var/lib/veilmeter when it was put there (and a password file an interrupted initdb left).
+pg_remove() {
+  local data="$1" dir
+  dir="$(readlink -f "$data/pg" 2>/dev/null || true)"
+  case "$dir" in /var/lib/veilmeter/?*/pg) rm -rf "$(dirname "$dir")" ;; esac
+  rm -rf "$data/pg" "$data/.pgpass-init"
 }
 
 # redis_start DATA_DIR PORT durable|throwaway

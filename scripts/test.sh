@@ -25,8 +25,7 @@ cleanup() {
   for f in "$RUN"/*.pid; do [ -e "$f" ] && stop_pidfile "$f"; done
   redis_stop "$DATA_DIR" "$REDIS_PORT"
   pg_stop "$DATA_DIR"
-  local dir; dir="$(readlink -f "$DATA_DIR/pg" 2>/dev/null || true)"
-  case "$dir" in /var/lib/veilmeter/*) rm -rf "$(dirname "$dir")";; esac
+  pg_remove "$DATA_DIR"
   rm -rf "$DATA_DIR"
 }
 trap cleanup EXIT
@@ -47,15 +46,20 @@ step() {
   local name="$1"; shift
   log "── $name"
   local t0=$SECONDS
-  if "$@"; then log "── $name passed ($((SECONDS - t0)) s)"; else log "── $name FAILED"; status=1; fi
+  if "$@"; then log "── $name passed ($((SECONDS - t0)) s)"; else log "── $name FAILED"; status=1; return 1; fi
 }
 
 step worker-build node scripts/build-worker.mjs
 step typecheck npx tsc --noEmit
 step lint npx eslint --max-warnings=0 .
 step vitest npx vitest run --reporter=default
-step build bash -c 'npx next build > "$0/build.log" 2>&1 || { tail -60 "$0/build.log"; exit 1; }' "$RUN"
-if [ -f .next/BUILD_ID ] && [ -f .build/worker/index.mjs ]; then
+# the browser tests run only against this run's build: an earlier one's BUILD_ID is removed first,
+# and a failed build skips them
+dist="${NEXT_DIST_DIR:-.next}"
+rm -f "$dist/BUILD_ID"
+built=0
+step build bash -c 'npx next build > "$0/build.log" 2>&1 || { tail -60 "$0/build.log"; exit 1; }' "$RUN" && built=1
+if [ "$built" = 1 ] && [ -f "$dist/BUILD_ID" ] && [ -f .build/worker/index.mjs ]; then
   worker_spawn "$RUN/worker.log" "$RUN/worker.pid"
   step e2e npx playwright test
   [ "$status" = 0 ] || { echo "--- worker log (tail)"; tail -30 "$RUN/worker.log"; }
