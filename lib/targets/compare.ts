@@ -1,6 +1,7 @@
 import { uuidSchema } from '../schemas/common';
-import { compareVerdict, formatPValue, type TwoSampleResult, type VerdictLevel } from '../stats';
-import { METRIC_LIST, type MetricKey } from './metrics';
+import { formatMetricDifference, MINUS } from '../format';
+import { compareVerdict, formatPValue, levelFromP, type TwoSampleResult, type VerdictLevel } from '../stats';
+import { METRIC_LIST, METRICS, type MetricKey } from './metrics';
 import { groupStats, values, type GroupStats, type SetReading } from './series';
 
 /** A revision, optionally narrowed to one variant ('' is the captures without a variant label). */
@@ -37,6 +38,20 @@ export type MetricComparison = {
   verdict: string;
 };
 
+const LEVEL_WORDS: Record<Exclude<VerdictLevel, 'too-few'>, string> = {
+  'unlikely-noise': 'unlikely to be noise',
+  'probably-real': 'probably real, though more captures would firm it up',
+  'could-be-noise': 'could be noise',
+};
+
+/** "raises the see-through transmission by 31.0 ± 2.9 percentage points" (figures from lib/format). */
+export function changeWords(metric: MetricKey, t: Pick<TwoSampleResult, 'difference' | 'ci'>): string {
+  const size = formatMetricDifference(metric, t.difference, t.ci.halfWidth, { signed: false, long: true });
+  const zero = /^0(\.0*)?( |$)/.test(size.replace(/ ±.*$/, ' '));
+  if (zero) return `leaves ${METRICS[metric].phrase} unchanged (${formatMetricDifference(metric, t.difference, t.ci.halfWidth, { long: true })})`;
+  return `${t.difference > 0 ? 'raises' : 'lowers'} ${METRICS[metric].phrase} by ${size}`;
+}
+
 /** Every metric of group B against group A (the baseline), with the plain-words verdict. */
 export function compareGroups(a: { label: string; readings: readonly SetReading[] }, b: { label: string; readings: readonly SetReading[] }): MetricComparison[] {
   return METRIC_LIST.map((m) => {
@@ -47,9 +62,61 @@ export function compareGroups(a: { label: string; readings: readonly SetReading[
     if (va.length === 0 || vb.length === 0) {
       return { metric: m.key, a: sa, b: sb, test: null, level: 'no-data', verdict: `No ${m.label.toLowerCase()} readings in ${va.length === 0 ? a.label : b.label}.` };
     }
-    const v = compareVerdict({ baseline: va, variant: vb, subject: `${b.label} (against ${a.label})`, metric: m.phrase, unit: m.unit === ':1' ? '' : m.unit, minPerGroup: 3 });
-    return { metric: m.key, a: sa, b: sb, test: v.comparison, level: v.level, verdict: v.text };
+    const subject = `${b.label} (against ${a.label})`;
+    const v = compareVerdict({ baseline: va, variant: vb, subject, metric: m.phrase, minPerGroup: 3 });
+    if (!v.comparison) return { metric: m.key, a: sa, b: sb, test: null, level: v.level, verdict: v.text };
+    const c = v.comparison;
+    const counts = `${vb.length} vs ${va.length} capture${vb.length === 1 && va.length === 1 ? '' : 's'}`;
+    const level = levelFromP(c.p);
+    const text = `${subject.charAt(0).toUpperCase()}${subject.slice(1)} ${changeWords(m.key, c)}; ${counts}; ${LEVEL_WORDS[level]}, ${formatPValue(c.p)}.`;
+    return { metric: m.key, a: sa, b: sb, test: c, level, verdict: text };
   });
+}
+
+/** Which way is good for a metric: the team's target on it decides, else the metric's own direction. */
+export function goodDirection(metric: MetricKey, targets: readonly { metric: MetricKey; comparator: '>=' | '<=' }[] = []): 'higher' | 'lower' {
+  const t = targets.find((x) => x.metric === metric);
+  if (t) return t.comparator === '>=' ? 'higher' : 'lower';
+  return METRICS[metric].better;
+}
+
+/** Whether a change is good, bad or not shown to be a change (p ≥ 0.05, too few captures, no data). */
+export type ChangeTone = 'good' | 'bad' | 'unclear';
+
+/** A change's tone for the team: moved (p < 0.05) and in the good direction, moved the wrong way, or unclear. */
+export function changeTone(r: Pick<MetricComparison, 'metric' | 'test' | 'level'>, targets: readonly { metric: MetricKey; comparator: '>=' | '<=' }[] = []): ChangeTone {
+  if (!r.test || (r.level !== 'unlikely-noise' && r.level !== 'probably-real')) return 'unclear';
+  const up = r.test.difference > 0;
+  return (goodDirection(r.metric, targets) === 'higher') === up ? 'good' : 'bad';
+}
+
+export type ComparisonSummary = { text: string; gains: MetricKey[]; losses: MetricKey[]; unclear: MetricKey[] };
+
+/**
+ * The plain-language summary: every metric that moved (p < 0.05), gains and losses together, then
+ * the metrics that did not clearly move. "VX-B · with polarizer, against VX-B · no polarizer:
+ * raises the ambient contrast ratio by 5.05 ± 0.29 and lowers the see-through transmission by
+ * 31 ± 3 percentage points."
+ */
+export function summariseComparison(aLabel: string, bLabel: string, rows: readonly MetricComparison[], targets: readonly { metric: MetricKey; comparator: '>=' | '<=' }[] = []): ComparisonSummary {
+  const gains: MetricComparison[] = [];
+  const losses: MetricComparison[] = [];
+  const unclear: MetricKey[] = [];
+  for (const r of rows) {
+    if (r.level === 'no-data') continue;
+    const tone = changeTone(r, targets);
+    if (tone === 'good') gains.push(r);
+    else if (tone === 'bad') losses.push(r);
+    else unclear.push(r.metric);
+  }
+  const list = (xs: string[]) => (xs.length <= 1 ? (xs[0] ?? '') : `${xs.slice(0, -1).join(', ')} and ${xs[xs.length - 1]}`);
+  const words = (r: MetricComparison) => (r.test ? `${changeWords(r.metric, r.test)} (${formatPValue(r.test.p)})` : '');
+  const parts: string[] = [];
+  if (gains.length) parts.push(`Gains: ${list(gains.map(words))}.`);
+  if (losses.length) parts.push(`Losses: ${list(losses.map(words))}.`);
+  if (!gains.length && !losses.length) parts.push('No metric moved clearly (p < 0.05).');
+  if (unclear.length) parts.push(`Not clearly changed: ${list(unclear.map((k) => METRICS[k].phrase.replace(/^the /, '')))}.`);
+  return { text: `${bLabel} against ${aLabel}. ${parts.join(' ')}`, gains: gains.map((r) => r.metric), losses: losses.map((r) => r.metric), unclear };
 }
 
 /** B's mean against A's as a share of A's ((B − A) / |A|); null without both means or when A's is 0. */
@@ -65,7 +132,7 @@ export function formatChange(r: Pick<MetricComparison, 'a' | 'b'>): string {
   const c = relativeChange(r);
   if (c === null) return '—';
   const pct = Math.abs(c * 100);
-  return `${c >= 0 ? '+' : '−'}${pct >= 100 ? pct.toFixed(0) : pct.toFixed(1)} %`;
+  return `${c >= 0 ? '+' : MINUS}${pct >= 100 ? pct.toFixed(0) : pct.toFixed(1)} %`;
 }
 
 /** Welch t, df and p as the table and the PDF show them ("—" each without a test; p without its "p ="). */

@@ -1,5 +1,6 @@
 import { summarise } from '../stats';
-import { formatMetric, METRIC_KEYS, type MetricKey } from './metrics';
+import { formatMetricMeanCi } from '../format/metrics';
+import { METRIC_KEYS, type MetricKey } from './metrics';
 
 /** The newest reading of one capture set, reduced to what trends, comparisons and targets need. */
 export type SetReading = {
@@ -73,10 +74,9 @@ export function buildTrends(revisions: readonly RevisionRef[], readings: readonl
   return out;
 }
 
-/** Mean ± 95% CI half-width as shown in tables ("—" for an empty group, the mean alone for n = 1). */
-export function formatMeanCi(key: MetricKey, s: GroupStats): string {
-  if (s.mean === null) return '—';
-  return s.halfWidth === null ? formatMetric(key, s.mean, false) : `${formatMetric(key, s.mean, false)} ± ${formatMetric(key, s.halfWidth, false)}`;
+/** Mean ± 95% CI half-width with the unit, digits from the interval ("—" for an empty group, the mean alone for n = 1). */
+export function formatMeanCi(key: MetricKey, s: GroupStats, withUnit = true): string {
+  return formatMetricMeanCi(key, s, { unit: withUnit });
 }
 
 /** One row of a revision's statistics: a metric over all its capture sets, or over one variant's. */

@@ -43,7 +43,7 @@ describe('metric catalogue and defaults', () => {
       expect(METRICS[k].column).toMatch(/^[a-z0-9_]+$/);
       expect(['higher', 'lower']).toContain(METRICS[k].better);
     }
-    expect(formatMetric('ambientContrastRatio', 1.2)).toBe('1.200:1');
+    expect(formatMetric('ambientContrastRatio', 1.2)).toBe('1.20 : 1');
     expect(formatMetric('ghostRatio', null)).toBe('—');
   });
 

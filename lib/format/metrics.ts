@@ -1,0 +1,149 @@
+// How each measured quantity is shown, everywhere: pages, client-side CSV files, the export CSV's
+// headers, the PDFs and the mails. Ghost and transmission are stored as fractions and shown as
+// percentages; contrast ratios as "9.37 : 1"; the tint in ΔE00. Digits follow the figure's
+// uncertainty when one is known, otherwise three significant digits.
+import type { MetricKey } from '../targets/metrics';
+import { DASH, decimalsForUncertainty, exact, fixed, isNum, MINUS, significant } from './numbers';
+
+/** ratio: "9.37 : 1"; percent: a stored fraction shown ×100 with "%"; deltaE: "2.13 ΔE00"; plain: a bare number. */
+export type MetricKind = 'ratio' | 'percent' | 'deltaE' | 'plain';
+
+export type MetricFormat = {
+  kind: MetricKind;
+  /** Full name, e.g. "See-through tint". */
+  label: string;
+  /** Short name for chart buttons and narrow columns. */
+  short: string;
+  /** How the metric reads inside a sentence. */
+  phrase: string;
+  /** The unit as printed after a figure ('' for none). */
+  unit: string;
+  /** The export CSV's column header (values there stay as stored, units in the header). */
+  csvHeader: string;
+};
+
+export const METRIC_FORMATS: Record<MetricKey, MetricFormat> = {
+  ambientContrastRatio: { kind: 'ratio', label: 'Ambient contrast ratio', short: 'Contrast', phrase: 'the ambient contrast ratio', unit: ': 1', csvHeader: 'ambient_contrast_ratio (ratio L_on/L_off)' },
+  michelson: { kind: 'plain', label: 'Michelson contrast', short: 'Michelson', phrase: 'the Michelson contrast', unit: '', csvHeader: 'michelson (0..1)' },
+  ansiContrast: { kind: 'ratio', label: 'Checkerboard contrast', short: 'Checkerboard', phrase: 'the checkerboard contrast', unit: ': 1', csvHeader: 'checkerboard_contrast (ratio white/black)' },
+  uniformity: { kind: 'plain', label: 'Uniformity (min/max)', short: 'Uniformity', phrase: 'the uniformity', unit: '', csvHeader: 'uniformity (min/max 0..1)' },
+  ghostRatio: { kind: 'percent', label: 'Ghost ratio', short: 'Ghost', phrase: 'the ghost ratio', unit: '%', csvHeader: 'ghost_ratio (ghost/primary 0..1)' },
+  transmission: { kind: 'percent', label: 'See-through transmission', short: 'Transmission', phrase: 'the see-through transmission', unit: '%', csvHeader: 'transmission (L_off/L_ambient 0..1)' },
+  tintDeltaE00: { kind: 'deltaE', label: 'See-through tint', short: 'Tint', phrase: 'the see-through tint', unit: 'ΔE00', csvHeader: 'tint_delta_e00 (CIEDE2000)' },
+};
+
+/**
+ * The metrics a readings table shows, in this order, on every screen and in the PDFs (Michelson
+ * and the checkerboard contrast only where all metrics are listed).
+ */
+export const TABLE_METRICS: readonly MetricKey[] = ['ambientContrastRatio', 'ghostRatio', 'transmission', 'uniformity', 'tintDeltaE00'];
+
+const SIG = 3;
+
+/** Stored value → the number shown (×100 for percentages). */
+export function toShown(key: MetricKey, v: number): number {
+  return METRIC_FORMATS[key].kind === 'percent' ? v * 100 : v;
+}
+
+/** The number typed in the shown unit → the stored value (÷100 for percentages). */
+export function fromShown(key: MetricKey, v: number): number {
+  return METRIC_FORMATS[key].kind === 'percent' ? v / 100 : v;
+}
+
+/** Attaches the metric's unit: "9.37 : 1", "20.2 %", "2.13 ΔE00", "0.873". */
+export function withUnit(key: MetricKey, figure: string): string {
+  const u = METRIC_FORMATS[key].unit;
+  if (!u) return figure;
+  return u === ': 1' ? `${figure} : 1` : `${figure} ${u}`;
+}
+
+/** "See-through tint (ΔE00)", "Ghost ratio (%)"; ratios and bare numbers keep their name alone. */
+export function metricHeading(key: MetricKey, short = false): string {
+  const f = METRIC_FORMATS[key];
+  const name = short ? f.short : f.label;
+  return f.kind === 'percent' || f.kind === 'deltaE' ? `${name} (${f.unit})` : name;
+}
+
+/** The unit a form asks the value in: "%", ": 1", "ΔE00" or ''. */
+export function inputUnit(key: MetricKey): string {
+  return METRIC_FORMATS[key].unit;
+}
+
+export type FormatOptions = {
+  /** Print the unit (default true). */
+  unit?: boolean;
+  /** An uncertainty of the value (stored scale): digits then follow it. */
+  uncertainty?: number | null;
+  /** A figure someone typed (a target's limit): printed as typed, no padding. */
+  exact?: boolean;
+  /** Significant digits when there is no uncertainty (default 3). */
+  sig?: number;
+};
+
+function figureOf(key: MetricKey, v: number, o: FormatOptions): string {
+  const shown = toShown(key, v);
+  if (o.exact) return exact(shown);
+  const d = decimalsForUncertainty(isNum(o.uncertainty) ? Math.abs(toShown(key, o.uncertainty)) : null);
+  if (d !== null) return fixed(shown, d);
+  if (shown === Number.POSITIVE_INFINITY) return '∞';
+  return significant(shown, o.sig ?? SIG);
+}
+
+/** One value of a metric with its unit: "9.37 : 1", "20.2 %", "—" when missing. */
+export function formatMetricValue(key: MetricKey, v: number | null | undefined, o: FormatOptions = {}): string {
+  if (v === Number.POSITIVE_INFINITY) return withUnit(key, '∞');
+  if (!isNum(v)) return DASH;
+  const s = figureOf(key, v, o);
+  return o.unit === false ? s : withUnit(key, s);
+}
+
+/**
+ * Mean ± 95% CI half-width, both to the half-width's second significant digit, the unit once at
+ * the end: "2.66 ± 0.29 : 1", "20.2 ± 1.3 %". The mean alone (3 digits) without an interval.
+ */
+export function formatMetricMeanCi(key: MetricKey, s: { mean: number | null; halfWidth: number | null }, o: { unit?: boolean } = {}): string {
+  if (!isNum(s.mean)) return DASH;
+  const d = decimalsForUncertainty(isNum(s.halfWidth) ? toShown(key, s.halfWidth) : null);
+  const figure = d === null ? figureOf(key, s.mean, {}) : `${fixed(toShown(key, s.mean), d)} ± ${fixed(toShown(key, s.halfWidth as number), d)}`;
+  return o.unit === false ? figure : withUnit(key, figure);
+}
+
+/** A spread (SD) to two significant digits, with the unit. */
+export function formatMetricSpread(key: MetricKey, sd: number | null | undefined, o: { unit?: boolean } = {}): string {
+  if (!isNum(sd)) return DASH;
+  const s = significant(toShown(key, sd), 2);
+  return o.unit === false ? s : withUnit(key, s);
+}
+
+/** The unit of a difference: percentage points for percentages, nothing for a ratio's difference. */
+export function differenceUnit(key: MetricKey, long = false): string {
+  const k = METRIC_FORMATS[key].kind;
+  if (k === 'percent') return long ? 'percentage points' : 'pp';
+  if (k === 'deltaE') return 'ΔE00';
+  return '';
+}
+
+/**
+ * A signed difference with its CI: "+5.05 ± 0.29", "−31 ± 3 pp" (percentages differ in points).
+ * `signed: false` leaves the sign off for sentences that say "raises" or "lowers".
+ */
+export function formatMetricDifference(key: MetricKey, d: number | null | undefined, halfWidth: number | null | undefined, o: { unit?: boolean; signed?: boolean; long?: boolean } = {}): string {
+  if (!isNum(d)) return DASH;
+  const shown = toShown(key, d);
+  const dec = decimalsForUncertainty(isNum(halfWidth) ? toShown(key, halfWidth) : null);
+  const body = dec === null ? significant(Math.abs(shown), SIG) : `${fixed(Math.abs(shown), dec)} ± ${fixed(toShown(key, halfWidth as number), dec)}`;
+  const sign = o.signed === false ? '' : shown >= 0 ? '+' : MINUS;
+  const u = differenceUnit(key, o.long);
+  return `${sign}${body}${o.unit === false || !u ? '' : ` ${u}`}`;
+}
+
+/** An axis tick in the shown unit, without the unit (the axis title carries it). */
+export function formatTick(key: MetricKey, v: number): string {
+  const shown = toShown(key, v);
+  return String(Number(shown.toPrecision(4)));
+}
+
+/** A target's limit as typed, with its unit: "1.2 : 1", "1 %". */
+export function formatLimit(key: MetricKey, v: number): string {
+  return formatMetricValue(key, v, { exact: true });
+}
