@@ -1,6 +1,8 @@
 // A local S3-compatible store on 127.0.0.1 for tests and trying STORAGE_DRIVER=s3 on one machine.
 // Listens on the port of S3_ENDPOINT, serves the bucket S3_BUCKET (created if missing) and keeps
-// the objects under DATA_DIR/s3. Accepts only the fake's own keys: S3RVER / S3RVER.
+// the objects under DATA_DIR/s3. Accepts only the fake's own keys: S3RVER / S3RVER. The server is
+// @20minutes/s3rver (a maintained continuation of s3rver: real HTTP, S3 signatures checked), a
+// development dependency: production installs (npm ci --omit=dev) do not have it.
 import { mkdirSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { join } from 'node:path';
@@ -8,8 +10,8 @@ import { getEnv } from '../lib/env';
 
 type S3rverOptions = { address: string; port: number; silent: boolean; directory: string; configureBuckets: { name: string; configs: string[] }[]; vhostBuckets: boolean };
 type S3rverInstance = { run(): Promise<{ address: string; port: number }>; close(): Promise<void> };
-// s3rver ships no types; this is the part of its API used here
-const S3rver = createRequire(import.meta.url)('s3rver') as new (o: S3rverOptions) => S3rverInstance;
+// the package ships no types; this is the part of its API used here
+const S3rver = createRequire(import.meta.url)('@20minutes/s3rver') as new (o: S3rverOptions) => S3rverInstance;
 
 const env = getEnv();
 const endpoint = new URL(env.S3_ENDPOINT ?? 'http://127.0.0.1:4568');

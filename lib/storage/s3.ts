@@ -1,4 +1,4 @@
-import { DeleteObjectCommand, GetObjectCommand, HeadObjectCommand, PutObjectCommand, S3Client, S3ServiceException } from '@aws-sdk/client-s3';
+import { DeleteObjectCommand, GetObjectCommand, HeadObjectCommand, PutObjectCommand, S3Client, S3ServiceException, type S3ClientConfig } from '@aws-sdk/client-s3';
 import { getEnv, type Env } from '../env';
 import { AppError } from '../errors';
 import { assertKey, type StorageDriver } from './types';
@@ -28,6 +28,24 @@ export type S3Settings = {
   timeoutMs?: number;
 };
 
+/** The S3 client's settings for a store: AWS itself, or the S3-compatible store at `endpoint`. */
+export function s3ClientConfig(s: S3Settings): S3ClientConfig {
+  const timeout = s.timeoutMs ?? 15_000;
+  return {
+    region: s.region,
+    endpoint: s.endpoint,
+    // self-hosted stores and the test fake serve buckets by path, not by subdomain
+    forcePathStyle: Boolean(s.endpoint),
+    credentials: s.accessKeyId && s.secretAccessKey ? { accessKeyId: s.accessKeyId, secretAccessKey: s.secretAccessKey } : undefined,
+    maxAttempts: 2,
+    requestHandler: { connectionTimeout: Math.min(timeout, 3000), requestTimeout: timeout },
+    // Self-hosted stores and the test fake may reject the newer default checksum headers, so a
+    // custom endpoint sends and checks checksums only where the operation requires them. AWS keeps
+    // the SDK's defaults (a checksum on every upload and download).
+    ...(s.endpoint ? { requestChecksumCalculation: 'WHEN_REQUIRED' as const, responseChecksumValidation: 'WHEN_REQUIRED' as const } : {}),
+  };
+}
+
 const NETWORK_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EHOSTUNREACH', 'ENETUNREACH', 'ENOTFOUND', 'EAI_AGAIN', 'EPIPE', 'TimeoutError', 'RequestTimeout']);
 
 /** Objects in one S3 bucket (AWS, or any S3-compatible store when S3_ENDPOINT is set). */
@@ -37,21 +55,9 @@ export class S3Storage implements StorageDriver {
   private readonly where: string;
 
   constructor(s: S3Settings) {
-    const timeout = s.timeoutMs ?? 15_000;
     this.bucket = s.bucket;
     this.where = `bucket “${s.bucket}” at ${s.endpoint ?? `AWS ${s.region}`}`;
-    this.client = new S3Client({
-      region: s.region,
-      endpoint: s.endpoint,
-      // self-hosted stores and the test fake serve buckets by path, not by subdomain
-      forcePathStyle: Boolean(s.endpoint),
-      credentials: s.accessKeyId && s.secretAccessKey ? { accessKeyId: s.accessKeyId, secretAccessKey: s.secretAccessKey } : undefined,
-      maxAttempts: 2,
-      requestHandler: { connectionTimeout: Math.min(timeout, 3000), requestTimeout: timeout },
-      // fakes and older stores reject the newer default checksum headers
-      requestChecksumCalculation: 'WHEN_REQUIRED',
-      responseChecksumValidation: 'WHEN_REQUIRED',
-    });
+    this.client = new S3Client(s3ClientConfig(s));
   }
 
   async put(key: string, bytes: Uint8Array, options?: { contentType?: string }): Promise<void> {

@@ -264,13 +264,17 @@ describe('faults and many workers', () => {
     expect(failed.error).toMatch(/photo store could not be reached/);
     expect(failed.error).not.toMatch(/ECONNREFUSED|Error:|at /);
 
-    // down for the first attempt only: BullMQ's retry finds the store back and finishes the same analysis
+    // down for the first attempt: a retry finds the store back and finishes the same analysis.
+    // How many retries that takes depends on how fast the store comes back on a busy machine, so
+    // what is checked is the outcome: done, after a failed attempt, with one reading and no error.
     const second = (await m.producer.requestAnalysis(labId, userId, setId, queue)).analysis;
     await waitUntil('the first attempt failing on the store', () => allLogs().includes(`${m.names.analysisJobId(second.id)} failed (attempt 1)`), 30_000);
     await startS3();
     const retried = await waitFor(second.id, ['done', 'failed'], 45_000);
     expect(retried.status).toBe('done');
-    expect(retried.attempts).toBe(2);
+    expect(retried.error).toBeNull();
+    expect(retried.attempts).toBeGreaterThanOrEqual(2);
+    expect((await readingCounts([second.id])).get(second.id)).toBe(1);
 
     // and a fresh run of the set that failed now goes through
     const again = (await m.producer.requestAnalysis(labId, userId, setId, queue)).analysis;

@@ -4,9 +4,10 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { S3Client } from '@aws-sdk/client-s3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { toErrorResponse } from '../../lib/errors';
-import { createS3Storage, isStorageUnavailable, S3Storage } from '../../lib/storage/s3';
+import { createS3Storage, isStorageUnavailable, s3ClientConfig, S3Storage } from '../../lib/storage/s3';
 import type { Env } from '../../lib/env';
 import { freePort } from '../fixtures/free-port';
 
@@ -100,5 +101,22 @@ describe('S3 storage driver', () => {
     const d = createS3Storage({ ...base, S3_BUCKET: 'abc', S3_ACCESS_KEY_ID: 'k', S3_SECRET_ACCESS_KEY: 's' });
     expect(d).toBeInstanceOf(S3Storage);
     d.destroy();
+  });
+
+  it('relaxes checksums only for a custom endpoint: AWS keeps the SDK defaults', async () => {
+    const aws = new S3Client(s3ClientConfig({ bucket: 'abc', region: 'eu-west-1' }));
+    const custom = new S3Client(s3ClientConfig({ bucket: 'abc', region: 'eu-west-1', endpoint }));
+    try {
+      // the SDK's default for AWS: a checksum on every upload, and answers checked when they carry one
+      expect(await aws.config.requestChecksumCalculation()).toBe('WHEN_SUPPORTED');
+      expect(await aws.config.responseChecksumValidation()).toBe('WHEN_SUPPORTED');
+      expect(aws.config.forcePathStyle).toBe(false);
+      expect(await custom.config.requestChecksumCalculation()).toBe('WHEN_REQUIRED');
+      expect(await custom.config.responseChecksumValidation()).toBe('WHEN_REQUIRED');
+      expect(custom.config.forcePathStyle).toBe(true);
+    } finally {
+      aws.destroy();
+      custom.destroy();
+    }
   });
 });
