@@ -39,10 +39,24 @@ export function toErrorResponse(err: unknown): { status: number; body: ErrorBody
   if (isUniqueViolation(err)) {
     return { status: 409, body: { error: { code: 'conflict', message: 'That name is already taken' } } };
   }
+  if (isBadValue(err)) {
+    // the schemas refuse these first with field errors; this is the net under them
+    return { status: 422, body: { error: { code: 'invalid', message: 'A value could not be stored: check the text for unusual characters and the dates and numbers for impossible values' } } };
+  }
   console.error('[veilmeter] unexpected error', err);
   return { status: 500, body: { error: { code: 'internal', message: 'Something went wrong on our side. Try again; if it persists, tell your lab admin.' } } };
 }
 
 export function isUniqueViolation(err: unknown): boolean {
   return typeof err === 'object' && err !== null && (err as { code?: unknown }).code === '23505';
+}
+
+// PostgreSQL's data exceptions that only bad input causes: NUL or an unencodable character in
+// text (22P05, 22021), an impossible date or time (22008, 22007), a number out of its column's
+// range (22003), text that is not a value of the column's type (22P02)
+const BAD_VALUE_CODES = new Set(['22P05', '22021', '22008', '22007', '22003', '22P02']);
+
+export function isBadValue(err: unknown): boolean {
+  const code = typeof err === 'object' && err !== null ? (err as { code?: unknown }).code : undefined;
+  return typeof code === 'string' && BAD_VALUE_CODES.has(code);
 }

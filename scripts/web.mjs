@@ -12,6 +12,8 @@ import next from 'next';
 const PRECOMPRESSED_OK = 'x-veilmeter-precompressed';
 const ENCODING = 'x-veilmeter-encoding';
 const LENGTH = 'x-veilmeter-length';
+// lib/security/client-ip.ts PEER_HEADER: the socket's address, which a client cannot choose
+const PEER = 'x-veilmeter-peer';
 
 function option(flag, fallback) {
   const i = process.argv.indexOf(flag);
@@ -60,6 +62,8 @@ if (cluster.isPrimary && copies > 1) {
     // answers the read cache keeps gzipped come back marked with ENCODING (Next.js drops a
     // handler's own Content-Encoding); only requests forwarded from here may be answered so
     req.headers[PRECOMPRESSED_OK] = '1';
+    // replaces any header of that name the client sent
+    req.headers[PEER] = req.socket.remoteAddress ?? '';
     compress(req, res, () => {
       const writeHead = res.writeHead;
       res.writeHead = function (...args) {

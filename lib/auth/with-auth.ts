@@ -4,6 +4,8 @@ import { resolveApiToken, type TokenScope } from '../../db/queries/api-tokens';
 import { getUserById } from '../../db/queries/users';
 import { AppError, toErrorResponse } from '../errors';
 import { consume, RateLimited } from '../security/rate-limit';
+import { readJsonLimited } from '../security/body-limit';
+import { assertSameOrigin } from '../security/origin';
 import { can, type Permission } from './permissions';
 import { actorWith, type Actor } from './session';
 
@@ -56,6 +58,7 @@ export function withAuth<P = Record<string, never>>(handler: Handler<P>, opts: {
       // tokens are for the rig API under /api/v1 only; elsewhere a bearer header counts for
       // nothing and the session decides (so a token is no way around it on the app's own routes)
       const bearer = onRigApi(req) ? req.headers.get('authorization') : null;
+      if (!bearer) assertSameOrigin(req);
       // a project read has its project's data version looked up with the session's role
       const projectId = opts.projectParam ? (params as Record<string, unknown>)[opts.projectParam] : undefined;
       const actor = bearer ? await tokenActor(bearer, opts.permission) : await actorWith(opts.permission, typeof projectId === 'string' ? projectId : undefined);
@@ -74,11 +77,5 @@ export function errorResponse(err: unknown): Response {
   return NextResponse.json(body, { status });
 }
 
-/** Reads a JSON body; malformed JSON is the caller's mistake (422), not ours. */
-export async function readJson(req: Request): Promise<unknown> {
-  try {
-    return await req.json();
-  } catch {
-    throw new AppError(422, 'The request body is not valid JSON', 'invalid_json');
-  }
-}
+/** Reads a JSON body, counted as it streams (413 past lib/security/body-limit.ts's limit); malformed JSON is 422. */
+export const readJson = (req: Request): Promise<unknown> => readJsonLimited(req);

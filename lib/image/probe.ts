@@ -61,6 +61,22 @@ async function exifSummary(bytes: Uint8Array): Promise<ProbedPhoto['exif']> {
 }
 
 /**
+ * Decodes the whole file once, shrunk on load so memory stays small, and refuses it when the
+ * decoder reports anything amiss: a header can declare 9999 × 9999 pixels over a few kilobytes of
+ * data, which decoders otherwise fill with grey and the analysis later blames on camera motion.
+ */
+async function refuseCorrupt(bytes: Uint8Array, name: string, w: number, h: number): Promise<void> {
+  try {
+    await sharp(bytes, { failOn: 'warning', limitInputPixels: MAX_PIXELS, sequentialRead: true })
+      .resize({ width: 256, height: 256, fit: 'inside', withoutEnlargement: true })
+      .raw()
+      .toBuffer();
+  } catch {
+    throw new EngineInputError('not-an-image', `${name} is damaged: it declares ${w} × ${h} pixels but its image data is corrupt or ends early. Copy the original file from the camera again`);
+  }
+}
+
+/**
  * Decides an upload's type from its content and reads its size and EXIF, refusing what the engine
  * cannot measure with an EngineInputError whose message says what to send instead.
  */
@@ -83,6 +99,7 @@ export async function probePhoto(bytes: Uint8Array, name: string): Promise<Probe
   if (w * h > MAX_PIXELS) {
     throw new EngineInputError('too-large', `${name} has ${Math.round((w * h) / 1e6)} megapixels (${w} × ${h}), more than 100: downscale it or crop to the eyepiece view`);
   }
+  await refuseCorrupt(bytes, name, w, h);
   const rotated = (meta.orientation ?? 1) >= 5;
   const t = TYPES[format];
   return {

@@ -1,34 +1,33 @@
 import { z } from 'zod';
+import { safe, strictNumber } from './common';
 import { rectSchema } from './region';
 
-const text = (what: string, max: number) => z.string({ message: `Give the ${what}` }).trim().min(1, { message: `Give the ${what}` }).max(max, { message: `Use at most ${max} characters` });
-// multipart fields arrive as text: numbers are coerced, with a message a person can act on
-const pixels = (what: string) => z.coerce.number({ message: `${what} is a number of pixels` }).int({ message: `${what} is a whole number of pixels` });
+const text = (what: string, max: number) => safe(z.string({ message: `Give the ${what}` }).trim().min(1, { message: `Give the ${what}` }).max(max, { message: `Use at most ${max} characters` }));
+// multipart fields arrive as text: read strictly as numbers ("0x10" is not 16), with a message a person can act on
+const pixels = <T extends z.ZodType>(what: string, range: (n: z.ZodNumber) => T) => strictNumber(`${what} is a number of pixels`, (n) => range(n.int({ message: `${what} is a whole number of pixels` })));
 
 /** The fields of a calibration upload besides the photo itself. */
 export const calibrationFormSchema = z.object({
-  name: z.string().trim().max(80, { message: 'Use at most 80 characters' }).optional().default(''),
-  meterCdm2: z.coerce
-    .number({ message: 'Enter the spot meter’s reading in cd/m²' })
-    .finite({ message: 'Enter the spot meter’s reading in cd/m²' })
-    .positive({ message: 'The meter reading must be above 0 cd/m²' })
-    .max(1e9, { message: 'That reading is beyond any luminance meter' }),
-  x: pixels('The patch’s left edge').min(0, { message: 'The patch starts left of the photo' }),
-  y: pixels('The patch’s top edge').min(0, { message: 'The patch starts above the photo' }),
-  w: pixels('The patch’s width').min(1, { message: 'Mark a patch at least 1 px wide' }),
-  h: pixels('The patch’s height').min(1, { message: 'Mark a patch at least 1 px high' }),
+  name: safe(z.string().trim().max(80, { message: 'Use at most 80 characters' })).optional().default(''),
+  meterCdm2: strictNumber('Enter the spot meter’s reading in cd/m²', (n) =>
+    n.positive({ message: 'The meter reading must be above 0 cd/m²' }).max(1e9, { message: 'That reading is beyond any luminance meter' }),
+  ),
+  x: pixels('The patch’s left edge', (n) => n.min(0, { message: 'The patch starts left of the photo' })),
+  y: pixels('The patch’s top edge', (n) => n.min(0, { message: 'The patch starts above the photo' })),
+  w: pixels('The patch’s width', (n) => n.min(1, { message: 'Mark a patch at least 1 px wide' })),
+  h: pixels('The patch’s height', (n) => n.min(1, { message: 'Mark a patch at least 1 px high' })),
   // for photos whose EXIF lacks them; EXIF wins when it has them
-  make: z.string().trim().max(80).optional().default(''),
-  model: z.string().trim().max(80).optional().default(''),
+  make: safe(z.string().trim().max(80, { message: 'Use at most 80 characters' })).optional().default(''),
+  model: safe(z.string().trim().max(80, { message: 'Use at most 80 characters' })).optional().default(''),
 });
 export type CalibrationForm = z.infer<typeof calibrationFormSchema>;
 
 /** The optional pattern rectangle of a linearity check (the whole photo when left out). */
 export const linearityFormSchema = z.object({
-  x: pixels('The pattern’s left edge').min(0).optional(),
-  y: pixels('The pattern’s top edge').min(0).optional(),
-  w: pixels('The pattern’s width').min(1).optional(),
-  h: pixels('The pattern’s height').min(1).optional(),
+  x: pixels('The pattern’s left edge', (n) => n.min(0, { message: 'The pattern starts left of the photo' })).optional(),
+  y: pixels('The pattern’s top edge', (n) => n.min(0, { message: 'The pattern starts above the photo' })).optional(),
+  w: pixels('The pattern’s width', (n) => n.min(1, { message: 'Mark a pattern at least 1 px wide' })).optional(),
+  h: pixels('The pattern’s height', (n) => n.min(1, { message: 'Mark a pattern at least 1 px high' })).optional(),
 });
 
 /** What a profile keeps about the shot it was calibrated from. */

@@ -1,32 +1,27 @@
 import { z } from 'zod';
+import { optionalStrictNumber, safe } from './common';
 
 export const CAPTURE_PATTERNS = ['full', 'checkerboard'] as const;
 
-const blankToUndefined = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? undefined : v);
+// blank or null is "not known" (never 0); "0x10" or "1_000" is not a number a person typed
 const optionalNumber = (label: string, max: number) =>
-  z.preprocess(
-    blankToUndefined,
-    z.coerce
-      .number({ message: `${label} must be a number` })
-      .refine(Number.isFinite, { message: `${label} must be a number` })
-      .min(0, { message: `${label} cannot be negative` })
-      .max(max, { message: `${label} above ${max} is not plausible` })
-      .optional(),
+  optionalStrictNumber(`${label} must be a number`, (n) =>
+    n.min(0, { message: `${label} cannot be negative` }).max(max, { message: `${label} above ${max} is not plausible` }),
   );
 
 /** What the tester knows about the shot's lighting; every field is optional. */
 export const conditionsSchema = z.object({
   ambientLux: optionalNumber('Ambient illuminance', 200_000),
   backgroundCdm2: optionalNumber('Background luminance', 100_000),
-  displayLevel: z.string().trim().max(80, { message: 'Use at most 80 characters' }).default(''),
+  displayLevel: safe(z.string().trim().max(80, { message: 'Use at most 80 characters' })).default(''),
 });
 
 // Flat fields so one schema serves both HTML forms and JSON bodies.
 export const captureSetSchema = z.object({
-  label: z.string({ message: 'Enter a label' }).trim().min(1, { message: 'Enter a label' }).max(120, { message: 'Use at most 120 characters' }),
-  variant: z.string().trim().max(80, { message: 'Use at most 80 characters' }).default(''),
+  label: safe(z.string({ message: 'Enter a label' }).trim().min(1, { message: 'Enter a label' }).max(120, { message: 'Use at most 120 characters' })),
+  variant: safe(z.string().trim().max(80, { message: 'Use at most 80 characters' })).default(''),
   pattern: z.enum(CAPTURE_PATTERNS, { message: 'Pick the pattern shown on the display' }).default('full'),
-  notes: z.string().trim().max(4000, { message: 'Use at most 4000 characters' }).default(''),
+  notes: safe(z.string().trim().max(4000, { message: 'Use at most 4000 characters' }), { multiline: true }).default(''),
   ...conditionsSchema.shape,
 });
 

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { safe } from './common';
 
 export const REGION_KINDS = ['screen', 'background', 'ghost'] as const;
 export type RegionKind = (typeof REGION_KINDS)[number];
@@ -30,7 +31,7 @@ export const regionsPutSchema = z.object({
 });
 
 export const templateSaveSchema = z.object({
-  name: z.string({ message: 'Name the template' }).trim().min(1, { message: 'Name the template' }).max(80, { message: 'Use at most 80 characters' }),
+  name: safe(z.string({ message: 'Name the template' }).trim().min(1, { message: 'Name the template' }).max(80, { message: 'Use at most 80 characters' })),
 });
 export const templateApplySchema = z.object({ templateId: z.string().uuid({ message: 'Pick a template' }) });
 

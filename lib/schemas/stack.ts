@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { safe } from './common';
 
 // Rounding slack so that R 0.3 + T 0.7 typed in a form is not refused for 1.0000000000000002.
 const SUM_SLACK = 1e-9;
@@ -15,7 +16,7 @@ const angle = (what: string, min: number, max: number) =>
     .refine(Number.isFinite, { message: `${what} must be a finite number` })
     .refine((v) => v >= min && v <= max, { message: `${what} must be between ${min}° and ${max}°` });
 
-const label = z.string().trim().max(80, { message: 'The label must be at most 80 characters' }).optional();
+const label = safe(z.string().trim().max(80, { message: 'The label must be at most 80 characters' })).optional();
 
 const rPlusTAtMostOne = (v: { R: number; T: number }) => v.R + v.T <= 1 + SUM_SLACK;
 const rPlusTMessage = {

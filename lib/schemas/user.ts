@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { safe } from './common';
 
 export const emailSchema = z
   .string({ message: 'Enter an e-mail address' })
@@ -18,8 +19,8 @@ export const signInSchema = z.object({
 });
 
 export const signUpSchema = z.object({
-  name: z.string().trim().min(1, { message: 'Enter your name' }).max(120, { message: 'Use at most 120 characters' }),
+  name: safe(z.string().trim().min(1, { message: 'Enter your name' }).max(120, { message: 'Use at most 120 characters' })),
   email: emailSchema,
   password: passwordSchema,
-  labName: z.string().trim().min(2, { message: 'Name your lab (2 characters or more)' }).max(120, { message: 'Use at most 120 characters' }),
+  labName: safe(z.string().trim().min(2, { message: 'Name your lab (2 characters or more)' }).max(120, { message: 'Use at most 120 characters' })),
 });

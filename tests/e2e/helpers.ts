@@ -5,7 +5,8 @@ export const baseURL = `http://localhost:${process.env.PORT ?? 3107}`;
 
 /** An API client signed in through next-auth's credentials flow, cookies kept. */
 export async function apiAs(email: string, password = DEMO_PASSWORD): Promise<APIRequestContext> {
-  const ctx = await request.newContext({ baseURL });
+  // a browser sends its page's Origin with every write; the app refuses cookie writes without it
+  const ctx = await request.newContext({ baseURL, extraHTTPHeaders: { origin: new URL(baseURL).origin } });
   const { csrfToken } = (await (await ctx.get('/api/auth/csrf')).json()) as { csrfToken: string };
   const res = await ctx.post('/api/auth/callback/credentials', { form: { csrfToken, email, password, json: 'true' }, maxRedirects: 0 });
   if (res.status() >= 400) throw new Error(`sign-in as ${email} answered ${res.status()}`);

@@ -3,15 +3,20 @@ import { decodePhoto, type DecodedPhoto } from '@/lib/image';
 import { AppError } from '@/lib/errors';
 import { isEngineInputError } from '@/lib/photometry';
 import { MAX_UPLOAD_BYTES } from '@/lib/schemas/upload';
+import { readFormLimited } from '@/lib/security/body-limit';
+
+// the photo plus its handful of text fields and the multipart framing
+const MAX_FORM_BYTES = MAX_UPLOAD_BYTES + 64 * 1024;
+const TOO_LARGE = 'The photo is larger than 60 MB, the limit a photo: export a JPEG at high quality or a compressed TIFF';
 
 /** The photo and the text fields of a camera form (multipart), the photo decoded. */
 export async function readCameraForm(req: Request): Promise<{ photo: DecodedPhoto; name: string; fields: Record<string, string> }> {
-  const declared = Number(req.headers.get('content-length') ?? NaN);
-  if (Number.isFinite(declared) && declared > MAX_UPLOAD_BYTES + 64 * 1024) throw new AppError(413, 'The photo is larger than 60 MB, the limit a photo: export a JPEG at high quality or a compressed TIFF', 'too_large');
   let form: FormData;
   try {
-    form = await req.formData();
-  } catch {
+    // counted while it streams: a chunked body without a length stops at the limit, never buffered whole
+    form = await readFormLimited(req, MAX_FORM_BYTES);
+  } catch (e) {
+    if (e instanceof AppError && e.status === 413) throw new AppError(413, TOO_LARGE, 'too_large');
     throw new AppError(422, 'Send the form with its photo (multipart/form-data)', 'invalid');
   }
   const file = form.get('photo');
