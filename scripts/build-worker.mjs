@@ -1,4 +1,5 @@
-// Compiles the worker, its analysis processor and the engine benchmark ahead of time into .build/
+// Compiles the worker, its analysis processor, the engine benchmark and the veilmeter CLI ahead of
+// time into .build/
 // (git-ignored), so they run on plain Node. Loading the TypeScript through tsx at run time instead
 // slows the engine's JavaScript by about a third: its loader hooks stay in the process (and in the
 // processor's worker thread) for as long as it runs.
@@ -8,6 +9,7 @@
 //                                          npm packages still resolve from node_modules)
 //   node .build/worker/index.mjs           run a worker
 //   node .build/bench/engine.mjs           run the engine benchmark (npm run bench does both)
+//   node .build/cli/veilmeter.mjs analyze …    the CLI (scripts/veilmeter.mjs, package.json "bin", runs it)
 import { build } from 'esbuild';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -24,6 +26,7 @@ try {
       // worker/index resolves './processors/analysis-entry.mjs' beside itself: here, the compiled processor
       'worker/processors/analysis-entry': 'worker/processors/analysis.ts',
       'bench/engine': 'bench/engine.ts',
+      'cli/veilmeter': 'scripts/cli/run.ts',
     },
     outdir,
     outExtension: { '.js': '.mjs' },

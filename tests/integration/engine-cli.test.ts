@@ -1,19 +1,25 @@
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { join, relative } from 'node:path';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { ENGINE_VERSION } from '../../lib/photometry/version';
 import { renderCapture } from '../fixtures/capture-generator';
 
 const root = join(import.meta.dirname, '..', '..');
+// the CLI runs compiled, as `npx veilmeter` runs it: built once into a folder of this file's own
+const outdir = join(root, '.build', `cli-test-${process.pid}`);
 let dir: string;
-const cli = (...args: string[]) => {
-  const r = spawnSync(process.execPath, ['--import', 'tsx', join(root, 'scripts', 'analyze.ts'), ...args], { cwd: root, encoding: 'utf8', timeout: 60_000 });
+const veilmeter = (...args: string[]) => {
+  const r = spawnSync(process.execPath, [join(outdir, 'cli', 'veilmeter.mjs'), ...args], { cwd: root, encoding: 'utf8', timeout: 60_000 });
   return { status: r.status, stdout: r.stdout, stderr: r.stderr };
 };
+const cli = (...args: string[]) => veilmeter('analyze', ...args);
 
 beforeAll(async () => {
+  const b = spawnSync(process.execPath, ['scripts/build-worker.mjs', '--outdir', relative(root, outdir)], { cwd: root, encoding: 'utf8', timeout: 60_000 });
+  if (b.status !== 0) throw new Error(`CLI build failed: ${b.stderr}`);
   dir = mkdtempSync(join(tmpdir(), 'veilmeter-cli-'));
   const c = await renderCapture({ seed: 21, width: 480, height: 360, ghost: { gain: 0.04, dx: 9, dy: 6 } });
   writeFileSync(join(dir, 'on.jpg'), c.on);
@@ -27,7 +33,10 @@ beforeAll(async () => {
   writeFileSync(join(dir, 'moved-off.jpg'), moved.off);
 });
 
-afterAll(() => rmSync(dir, { recursive: true, force: true }));
+afterAll(() => {
+  rmSync(dir, { recursive: true, force: true });
+  rmSync(outdir, { recursive: true, force: true });
+});
 
 describe('analyze CLI', () => {
   it('prints exactly one JSON object of the reading shape with --json', () => {
@@ -72,5 +81,61 @@ describe('analyze CLI', () => {
     expect(lines).toHaveLength(1);
     expect(lines[0]).toMatch(message);
     expect(r.stderr).not.toContain('    at ');
+  });
+});
+
+describe('veilmeter command line', () => {
+  it('lists every analyze option, the exit codes and an example under analyze --help', () => {
+    const r = veilmeter('analyze', '--help');
+    expect(r.status).toBe(0);
+    expect(r.stderr).toBe('');
+    expect(r.stdout).toMatch(/^Usage: veilmeter analyze --on FILE --off FILE/);
+    // every option the parser accepts is explained
+    const source = readFileSync(join(root, 'scripts', 'cli', 'analyze.ts'), 'utf8');
+    const block = /options: \{([\s\S]*?)\n {6}\},/.exec(source)?.[1] ?? '';
+    const names = [...block.matchAll(/^\s+'?([a-z0-9-]+)'?: \{ type/gm)].map((m) => m[1]);
+    expect(names.length).toBeGreaterThanOrEqual(12);
+    for (const name of names) expect(r.stdout).toMatch(new RegExp(`^\\s+--${name}\\b`, 'm'));
+    for (const code of ['0', '1', '2']) expect(r.stdout).toMatch(new RegExp(`^\\s+${code}\\s+\\S`, 'm'));
+    expect(r.stdout).toContain('npx veilmeter analyze --on');
+    // -h and `help analyze` say the same
+    expect(veilmeter('analyze', '-h').stdout).toBe(r.stdout);
+    expect(veilmeter('help', 'analyze').stdout).toBe(r.stdout);
+  });
+
+  it('names its commands under --help, and prints the usage on stderr with status 2 when given none', () => {
+    const help = veilmeter('--help');
+    expect(help.status).toBe(0);
+    expect(help.stdout).toMatch(/Usage: veilmeter <command>/);
+    expect(help.stdout).toMatch(/^\s+analyze\s+measure/m);
+    const none = veilmeter();
+    expect(none.status).toBe(2);
+    expect(none.stdout).toBe('');
+    expect(none.stderr).toContain('Usage: veilmeter <command>');
+  });
+
+  it('prints its version and the engine version', () => {
+    const pkg = JSON.parse(readFileSync(join(root, 'package.json'), 'utf8')) as { version: string };
+    for (const flag of ['--version', '-v']) {
+      const r = veilmeter(flag);
+      expect(r.status).toBe(0);
+      expect(r.stdout).toBe(`veilmeter ${pkg.version} (engine ${ENGINE_VERSION})\n`);
+    }
+  });
+
+  it('refuses an unknown command in one line with status 2', () => {
+    const r = veilmeter('analyse', '--on', 'a.jpg');
+    expect(r.status).toBe(2);
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    expect(r.stderr).toMatch(/unknown command "analyse" \(commands: analyze/);
+  });
+
+  it('is the package\'s bin, and npx runs it', () => {
+    const pkg = JSON.parse(readFileSync(join(root, 'package.json'), 'utf8')) as { bin?: Record<string, string> };
+    expect(pkg.bin?.veilmeter).toBe('scripts/veilmeter.mjs');
+    expect(existsSync(join(root, 'scripts', 'veilmeter.mjs'))).toBe(true);
+    const r = spawnSync('npx', ['--no-install', 'veilmeter', '--version'], { cwd: root, encoding: 'utf8', timeout: 60_000 });
+    expect(r.status, r.stderr).toBe(0);
+    expect(r.stdout).toMatch(/^veilmeter \d+\.\d+\.\d+ \(engine /);
   });
 });

@@ -1,17 +1,12 @@
-/**
- * Command-line front of the photometry engine:
- * npm run -s analyze -- --on FILE --off FILE [--ambient FILE] [--dark FILE] [--pattern full|checkerboard]
- *   (repeat --on, --off, --ambient or --dark to give a bracket of one role at different exposures)
- *   [--screen x,y,w,h] [--background x,y,w,h] [--ghost-offset dx,dy|none] [--calibration K] [--linear16]
- *   [--artifacts DIR] [--json]
- * Bad input exits with status 2 and one line on stderr.
- */
+// `veilmeter analyze`: the photometry engine on photos from disk, with the same readings the web app
+// stores (docs/method.md §5). The help text below lists every option.
 import { parseArgs } from 'node:util';
-import { analyzeFiles, writeArtifacts } from '../lib/image';
-import { EngineInputError } from '../lib/photometry/errors';
-import type { BracketedResult } from '../lib/photometry/analyze-capture';
-import type { CaptureResult } from '../lib/photometry/result';
-import type { Offset, Pattern, Rect } from '../lib/photometry/types';
+import { analyzeFiles, writeArtifacts } from '../../lib/image';
+import { EngineInputError } from '../../lib/photometry/errors';
+import type { BracketedResult } from '../../lib/photometry/analyze-capture';
+import type { CaptureResult } from '../../lib/photometry/result';
+import type { Offset, Pattern, Rect } from '../../lib/photometry/types';
+import { EXIT_CODES, type Command } from './command';
 
 function ints(name: string, text: string, count: number): number[] {
   const parts = text.split(',').map((s) => s.trim());
@@ -65,7 +60,7 @@ function table(r: CaptureResult): string {
   return lines.join('\n');
 }
 
-async function main(): Promise<void> {
+async function run(args: string[], out: NodeJS.WritableStream): Promise<void> {
   let values: Record<string, string | boolean | string[] | undefined>;
   try {
     ({ values } = parseArgs({
@@ -83,6 +78,7 @@ async function main(): Promise<void> {
         artifacts: { type: 'string' },
         json: { type: 'boolean', default: false },
       },
+      args,
       strict: true,
       allowPositionals: false,
     }));
@@ -128,15 +124,47 @@ async function main(): Promise<void> {
     artifacts: wantArtifacts !== undefined,
   });
   if (wantArtifacts !== undefined && artifacts) await writeArtifacts(wantArtifacts, artifacts);
-  process.stdout.write(values.json === true ? `${JSON.stringify(result)}\n` : `${table(result)}\n`);
+  out.write(values.json === true ? `${JSON.stringify(result)}\n` : `${table(result)}\n`);
 }
 
-main().catch((e: unknown) => {
-  if (e instanceof EngineInputError) {
-    process.stderr.write(`error: ${e.message.replace(/\s+/g, ' ')}\n`);
-    process.exit(2);
-  }
-  // a bug, not the user's input: still one line; run the engine under a debugger for the stack
-  process.stderr.write(`internal error: ${e instanceof Error ? e.message.replace(/\s+/g, ' ') : String(e)}\n`);
-  process.exit(1);
-});
+const help = `Usage: veilmeter analyze --on FILE --off FILE [options]
+
+Measures one capture from its photos (display on, display off, and optionally ambient and dark)
+and prints the readings as a table, or as one JSON object with --json.
+
+Photos (JPEG, PNG, TIFF or WebP, 8 or 16 bits; the same camera settings for all; repeat an option to
+give a bracket of one role at different exposures):
+  --on FILE               display on, showing the test pattern, lighting as under test (required)
+  --off FILE              the same view with the display dark (required)
+  --ambient FILE          the same scene with the optics out of the path: the reference for
+                          transmission and tint
+  --dark FILE             display on, room dark: the ghost and uniformity are then measured on it
+
+Measurement:
+  --pattern full|checkerboard   what the display showed: full-field white (default) or the 4 × 4
+                          checkerboard (adds the checkerboard contrast)
+  --screen x,y,w,h        the virtual image's rectangle in pixels of the on photo (default: detected
+                          from on − off)
+  --background x,y,w,h    a see-through rectangle away from the screen, for transmission and tint
+                          (default: measured over the screen, with a warning)
+  --ghost-offset dx,dy    the ghost's position minus the screen's, in pixels (default: searched for)
+  --ghost-offset none     no ghost reading
+  --calibration K         a camera profile's factor in cd/m² per unit of Y·N²/(t·S), for readings
+                          in cd/m² (needs exposure EXIF on the on photo)
+  --linear16              16-bit TIFFs hold linear values (no sRGB decoding)
+
+Output:
+  --json                  one JSON object on stdout instead of the table
+  --artifacts DIR         also write the maps into DIR: log-contrast.png, difference.png, maps.json
+  -h, --help              this text
+
+${EXIT_CODES}
+
+Example:
+  npx veilmeter analyze --on on.jpg --off off.jpg --ambient ambient.jpg --json`;
+
+export const analyzeCommand: Command = {
+  summary: 'measure contrast, ghost, transmission and tint from photos on disk',
+  help,
+  run,
+};
