@@ -8,7 +8,7 @@ import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import type { FormState } from '@/lib/auth/action';
 
-type Values = { label?: string; variant?: string; pattern?: string; ambientLux?: number; backgroundCdm2?: number; displayLevel?: string; notes?: string };
+type Values = { label?: string; variant?: string; pattern?: string; tiffEncoding?: string; ambientLux?: number; backgroundCdm2?: number; displayLevel?: string; notes?: string };
 
 /** The fields of a capture set, shared by the new and the edit form. */
 function CaptureSetFields({ errors: e, values: v }: { errors: Record<string, string[]>; values: Values }) {
@@ -30,7 +30,39 @@ function CaptureSetFields({ errors: e, values: v }: { errors: Record<string, str
       <Field label="Background luminance (cd/m²)" name="backgroundCdm2" inputMode="decimal" placeholder="if measured" defaultValue={v.backgroundCdm2} errors={e.backgroundCdm2} />
       <Field label="Display level" name="displayLevel" placeholder="e.g. 80 % brightness" defaultValue={v.displayLevel} errors={e.displayLevel} maxLength={80} />
       <div className="sm:col-span-3">
+        <TiffEncodingField value={v.tiffEncoding} errors={e.tiffEncoding} />
+      </div>
+      <div className="sm:col-span-3">
         <TextArea label="Notes" name="notes" defaultValue={v.notes} errors={e.notes} />
+      </div>
+    </div>
+  );
+}
+
+/** The set's 16-bit TIFF encoding, with when to choose which and the rule "as each file says" follows. */
+function TiffEncodingField({ value, errors }: { value?: string; errors?: string[] }) {
+  return (
+    <div className="grid gap-3 sm:grid-cols-3">
+      <SelectField
+        label="16-bit TIFF encoding"
+        name="tiffEncoding"
+        defaultValue={value ?? 'auto'}
+        options={[
+          { value: 'auto', label: 'As each file says' },
+          { value: 'linear', label: 'Linear 16-bit (raw conversion without gamma)' },
+          { value: 'srgb', label: 'Gamma-encoded (sRGB)' },
+        ]}
+        errors={errors}
+      />
+      <div className="text-xs text-muted sm:col-span-2" data-testid="tiff-encoding-help">
+        <p>
+          Choose <strong className="text-ink">linear 16-bit</strong> when the photos are 16-bit TIFFs converted from camera raw with no gamma curve (a raw converter’s “linear” output): their values are then proportional to light, the
+          most faithful input there is. JPEG, PNG, WebP and 8-bit files are always read as sRGB-encoded; declaring them linear is refused.
+        </p>
+        <p className="mt-1">
+          <strong className="text-ink">As each file says</strong> reads a 16-bit TIFF as linear when it carries a colour profile with straight (gamma 1.0) tone curves, or no colour profile at all; a TIFF with an sRGB, Adobe RGB or other gamma
+          profile (or a gamma transfer function) is read as gamma-encoded. Each photo shows what its file said, and can be set on its own.
+        </p>
       </div>
     </div>
   );

@@ -4,7 +4,9 @@ import clsx from 'clsx';
 import { useRouter } from 'next/navigation';
 import { useCallback, useState } from 'react';
 import { useDropzone } from 'react-dropzone';
+import { apiJson } from '@/lib/hooks/api';
 import { uploadPhoto } from '@/lib/hooks/upload-photo';
+import { photoEncoding, type TiffEncodingSetting } from '@/lib/schemas/capture-set';
 import { MAX_UPLOAD_BYTES, PHOTO_ROLES, ROLE_HINTS, ROLE_LABELS, roleFromFileName, type PhotoRole } from '@/lib/schemas/upload';
 
 export type PhotoCard = {
@@ -16,6 +18,10 @@ export type PhotoCard = {
   bytes: number;
   format: string;
   bitDepth: number;
+  encodingFile: 'linear' | 'srgb' | null;
+  encodingReason: string;
+  encodingDeclared: 'linear' | 'srgb' | null;
+  pages: number;
   exif: { exposureTime?: number; fNumber?: number; iso?: number; make?: string; model?: string; lens?: string; takenAt?: string };
 };
 
@@ -36,7 +42,7 @@ export function exifLine(e: PhotoCard['exif']): string {
   return `${parts.join(' · ')}${cam ? ` · ${cam}` : ''}`;
 }
 
-export function UploadPanel({ captureSetId, photos, canWrite }: { captureSetId: string; photos: PhotoCard[]; canWrite: boolean }) {
+export function UploadPanel({ captureSetId, photos, canWrite, tiffEncoding = 'auto' }: { captureSetId: string; photos: PhotoCard[]; canWrite: boolean; tiffEncoding?: TiffEncodingSetting }) {
   const router = useRouter();
   const [items, setItems] = useState<Item[]>([]);
   const byRole = new Map(photos.map((p) => [p.role, p]));
@@ -97,7 +103,7 @@ export function UploadPanel({ captureSetId, photos, canWrite }: { captureSetId: 
       {canWrite ? <MultiDrop onFiles={(f) => enqueue(f, 'auto')} /> : null}
       <div className="grid gap-3 sm:grid-cols-2 xl:grid-cols-4">
         {PHOTO_ROLES.map((role) => (
-          <RoleSlot key={role} role={role} photo={byRole.get(role) ?? null} captureSetId={captureSetId} canWrite={canWrite} bracket={bracketCount(role)} onFiles={(f) => enqueue(f, role)} />
+          <RoleSlot key={role} role={role} photo={byRole.get(role) ?? null} captureSetId={captureSetId} canWrite={canWrite} bracket={bracketCount(role)} tiffEncoding={tiffEncoding} onFiles={(f) => enqueue(f, role)} />
         ))}
       </div>
       {items.length ? (
@@ -149,11 +155,14 @@ function MultiDrop({ onFiles }: { onFiles: (files: File[]) => void }) {
       <input {...getInputProps()} data-testid="multi-drop-input" />
       <p className="text-ink">Drop the whole set here</p>
       <p className="mt-1 text-xs text-muted">Roles come from the file names: on / display-on, off, ambient / world / no-optics, dark. Up to 60 MB a photo; JPEG, PNG, TIFF (16-bit welcome) or WebP.</p>
+      <p className="mt-1 text-xs text-muted">
+        Best of all: 16-bit linear TIFFs converted from camera raw without a gamma curve. A 16-bit TIFF with no colour profile or a linear one is read as linear; one with an sRGB or other gamma profile as gamma-encoded. Each photo below says how it is read and can be changed.
+      </p>
     </div>
   );
 }
 
-function RoleSlot({ role, photo, captureSetId, canWrite, onFiles, bracket = 1 }: { role: PhotoRole; photo: PhotoCard | null; captureSetId: string; canWrite: boolean; onFiles: (files: File[]) => void; bracket?: number }) {
+function RoleSlot({ role, photo, captureSetId, canWrite, onFiles, bracket = 1, tiffEncoding }: { role: PhotoRole; photo: PhotoCard | null; captureSetId: string; canWrite: boolean; onFiles: (files: File[]) => void; bracket?: number; tiffEncoding: TiffEncodingSetting }) {
   const { getRootProps, getInputProps, isDragActive } = useDropzone({ onDrop: onFiles, multiple: true, disabled: !canWrite, noClick: !canWrite });
   return (
     <div
@@ -181,6 +190,12 @@ function RoleSlot({ role, photo, captureSetId, canWrite, onFiles, bracket = 1 }:
           <div className="text-muted" data-testid={`exif-${role}`}>
             {exifLine(photo.exif)}
           </div>
+          <EncodingLine photo={photo} captureSetId={captureSetId} canWrite={canWrite} tiffEncoding={tiffEncoding} />
+          {photo.pages > 1 ? (
+            <div className="text-warn" data-testid={`pages-${role}`}>
+              This TIFF holds {photo.pages} pages: only the first is measured. Export the view you mean as a single-page file if that is not it.
+            </div>
+          ) : null}
           <a href={`/api/captures/${captureSetId}/photos/${photo.id}/original`} onClick={(e) => e.stopPropagation()} className="text-beam hover:underline">
             Download original
           </a>
@@ -188,6 +203,71 @@ function RoleSlot({ role, photo, captureSetId, canWrite, onFiles, bracket = 1 }:
       ) : (
         <p className="mt-2 text-xs text-muted">{ROLE_HINTS[role]}{canWrite ? ' — drop or click to pick.' : '.'}</p>
       )}
+    </div>
+  );
+}
+
+const ENCODING_TEXT = { linear: 'Read as linear light', srgb: 'Read as sRGB-encoded' } as const;
+
+/** How the photo's values are read, who decided it, and (16-bit TIFFs only) a choice to override it. */
+function EncodingLine({ photo, captureSetId, canWrite, tiffEncoding }: { photo: PhotoCard; captureSetId: string; canWrite: boolean; tiffEncoding: TiffEncodingSetting }) {
+  const router = useRouter();
+  const [error, setError] = useState<string | null>(null);
+  const [busy, setBusy] = useState(false);
+  const d = photoEncoding(tiffEncoding, { ...photo, role: photo.role });
+  const sixteenTiff = photo.format === 'tiff' && photo.bitDepth === 16;
+  const why =
+    d.by === 'photo'
+      ? 'set for this photo'
+      : d.by === 'set'
+        ? 'as the capture set says'
+        : photo.encodingFile === null
+          ? 'uploaded before files were asked: the earlier reading'
+          : `file: ${photo.encodingReason}`;
+  return (
+    <div className="space-y-1" data-testid={`encoding-${photo.role}`} data-linear={d.linear ? 'true' : 'false'}>
+      {d.conflict ? (
+        <p role="alert" className="text-fail">
+          {d.conflict}.
+        </p>
+      ) : (
+        <div className={d.linear ? 'text-pass' : 'text-muted'}>
+          {ENCODING_TEXT[d.linear ? 'linear' : 'srgb']} <span className="text-muted">({why})</span>
+        </div>
+      )}
+      {canWrite && sixteenTiff ? (
+        <label className="flex items-center gap-1 text-muted" onClick={(e) => e.stopPropagation()}>
+          <span>This photo:</span>
+          <select
+            aria-label={`Encoding of the ${photo.role} photo`}
+            value={photo.encodingDeclared ?? 'auto'}
+            disabled={busy}
+            className="rounded border border-line bg-canvas px-1 py-0.5 text-ink"
+            onChange={async (e) => {
+              const v = e.target.value;
+              setBusy(true);
+              setError(null);
+              try {
+                await apiJson(`/api/captures/${captureSetId}/photos/${photo.id}`, { method: 'PATCH', body: JSON.stringify({ encoding: v === 'auto' ? null : v }) });
+                router.refresh();
+              } catch (err) {
+                setError((err as Error).message);
+              } finally {
+                setBusy(false);
+              }
+            }}
+          >
+            <option value="auto">as the set says</option>
+            <option value="linear">linear 16-bit</option>
+            <option value="srgb">sRGB-encoded</option>
+          </select>
+        </label>
+      ) : null}
+      {error ? (
+        <p role="alert" className="text-fail">
+          {error}
+        </p>
+      ) : null}
     </div>
   );
 }

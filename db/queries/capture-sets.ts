@@ -1,5 +1,5 @@
 import { getDb } from '../index';
-import type { Conditions } from '../../lib/schemas/capture-set';
+import type { Conditions, TiffEncodingSetting } from '../../lib/schemas/capture-set';
 import { PHOTO_ROLES } from '../../lib/schemas/upload';
 import { recordAudit } from './audit';
 
@@ -14,6 +14,8 @@ export type CaptureSet = {
   label: string;
   variant: string;
   pattern: 'full' | 'checkerboard';
+  /** How the set's 16-bit TIFFs are read (lib/schemas/capture-set.ts). */
+  tiffEncoding: TiffEncodingSetting;
   conditions: Conditions;
   notes: string;
   createdAt: Date;
@@ -33,7 +35,7 @@ export type CaptureSetSummary = CaptureSet & {
 };
 
 type Row = {
-  id: string; revision_id: string; revision_label: string; project_id: string; project_name: string; label: string; variant: string; pattern: 'full' | 'checkerboard';
+  id: string; revision_id: string; revision_label: string; project_id: string; project_name: string; label: string; variant: string; pattern: 'full' | 'checkerboard'; tiff_encoding?: TiffEncodingSetting;
   conditions: Conditions | null; notes: string; created_at: Date; updated_at: Date;
   photo_count?: string | number; roles?: string[] | null; latest_status?: string | null; latest_acr?: number | null; latest_ghost?: number | null; latest_transmission?: number | null; latest_uniformity?: number | null; latest_reading_at?: Date | null;
 };
@@ -47,6 +49,7 @@ const toSet = (r: Row): CaptureSet => ({
   label: r.label,
   variant: r.variant,
   pattern: r.pattern,
+  tiffEncoding: r.tiff_encoding ?? 'auto',
   conditions: { displayLevel: '', ...(r.conditions ?? {}) },
   notes: r.notes,
   createdAt: r.created_at,
@@ -97,7 +100,7 @@ export async function listCaptureSets(labId: string, revisionId: string): Promis
   }));
 }
 
-export type CaptureSetWrite = { label?: string; variant?: string; pattern?: 'full' | 'checkerboard'; notes?: string } & Partial<Conditions>;
+export type CaptureSetWrite = { label?: string; variant?: string; pattern?: 'full' | 'checkerboard'; tiffEncoding?: TiffEncodingSetting; notes?: string } & Partial<Conditions>;
 
 function conditionsOf(input: Partial<Conditions>, previous: Conditions = { displayLevel: '' }): Conditions {
   const out: Conditions = { ...previous };
@@ -121,6 +124,7 @@ export async function createCaptureSet(labId: string, userId: string, revisionId
         label: input.label,
         variant: input.variant ?? '',
         pattern: input.pattern ?? 'full',
+        tiff_encoding: input.tiffEncoding ?? 'auto',
         notes: input.notes ?? '',
         conditions: JSON.stringify(conditionsOf(input)),
         created_by: userId,
@@ -141,6 +145,7 @@ export async function updateCaptureSet(labId: string, userId: string, id: string
     if (input.label !== undefined) patch.label = input.label;
     if (input.variant !== undefined) patch.variant = input.variant;
     if (input.pattern !== undefined) patch.pattern = input.pattern;
+    if (input.tiffEncoding !== undefined) patch.tiff_encoding = input.tiffEncoding;
     if (input.notes !== undefined) patch.notes = input.notes;
     await trx('capture_sets').where({ lab_id: labId, id }).update(patch);
     await recordAudit({ labId, userId, action: 'capture.update', targetType: 'capture_set', targetId: id, details: input }, trx);

@@ -17,12 +17,19 @@ export type Photo = {
   height: number;
   format: string;
   bitDepth: number;
+  /** What the file said about its encoding at upload (null: stored before files were asked). */
+  encodingFile: 'linear' | 'srgb' | null;
+  encodingReason: string;
+  /** The tester's declaration for this photo; null follows the capture set. */
+  encodingDeclared: 'linear' | 'srgb' | null;
+  /** Pages in the file; the first is measured. */
+  pages: number;
   exif: PhotoExif;
   originalName: string;
   createdAt: Date;
 };
 
-type Row = { id: string; capture_set_id: string; role: PhotoRole; storage_key: string; preview_key: string | null; sha256: string; bytes: string | number; width: number; height: number; format: string; bit_depth: number; exif: PhotoExif | null; original_name: string; created_at: Date };
+type Row = { id: string; capture_set_id: string; role: PhotoRole; storage_key: string; preview_key: string | null; sha256: string; bytes: string | number; width: number; height: number; format: string; bit_depth: number; encoding_file?: 'linear' | 'srgb' | null; encoding_reason?: string; encoding_declared?: 'linear' | 'srgb' | null; pages?: number; exif: PhotoExif | null; original_name: string; created_at: Date };
 
 const toPhoto = (r: Row): Photo => ({
   id: r.id,
@@ -36,6 +43,10 @@ const toPhoto = (r: Row): Photo => ({
   height: r.height,
   format: r.format,
   bitDepth: r.bit_depth,
+  encodingFile: r.encoding_file ?? null,
+  encodingReason: r.encoding_reason ?? '',
+  encodingDeclared: r.encoding_declared ?? null,
+  pages: r.pages ?? 1,
   exif: r.exif ?? {},
   originalName: r.original_name,
   createdAt: r.created_at,
@@ -59,7 +70,7 @@ export async function findPhotoBySha(labId: string, sha256: string): Promise<(Ph
   return row ? { ...toPhoto(row as Row), captureSetLabel: (row as { capture_set_label: string }).capture_set_label } : null;
 }
 
-export type PhotoWrite = Omit<Photo, 'id' | 'createdAt' | 'captureSetId'>;
+export type PhotoWrite = Omit<Photo, 'id' | 'createdAt' | 'captureSetId' | 'encodingDeclared' | 'encodingFile' | 'encodingReason' | 'pages'> & Partial<Pick<Photo, 'encodingDeclared' | 'encodingFile' | 'encodingReason' | 'pages'>>;
 
 const sameExposure = (a: PhotoExif, b: PhotoExif): boolean => a.exposureTime === b.exposureTime && a.fNumber === b.fNumber && a.iso === b.iso;
 const fullExposure = (e: PhotoExif): boolean => [e.exposureTime, e.fNumber, e.iso].every((v) => typeof v === 'number' && v > 0);
@@ -92,6 +103,10 @@ export async function putPhoto(labId: string, userId: string, captureSetId: stri
         height: p.height,
         format: p.format,
         bit_depth: p.bitDepth,
+        encoding_file: p.encodingFile ?? null,
+        encoding_reason: p.encodingReason ?? '',
+        encoding_declared: p.encodingDeclared ?? null,
+        pages: p.pages ?? 1,
         exif: JSON.stringify(p.exif),
         original_name: p.originalName,
       })
@@ -110,5 +125,15 @@ export async function deletePhoto(labId: string, userId: string, id: string): Pr
     if (!row) return null;
     await recordAudit({ labId, userId, action: 'photo.delete', targetType: 'photo', targetId: id, details: { role: row.role } }, trx);
     return [row.storage_key, ...(row.preview_key ? [row.preview_key] : [])];
+  });
+}
+
+/** Sets or clears (null) a photo's own encoding declaration; null when no such photo is in the lab's set. */
+export async function setPhotoEncoding(labId: string, userId: string, captureSetId: string, id: string, encoding: 'linear' | 'srgb' | null): Promise<Photo | null> {
+  return getDb().transaction(async (trx) => {
+    const [row] = await trx('photos').where({ lab_id: labId, capture_set_id: captureSetId, id }).update({ encoding_declared: encoding, updated_at: trx.fn.now() }).returning<Row[]>('*');
+    if (!row) return null;
+    await recordAudit({ labId, userId, action: 'photo.encoding', targetType: 'photo', targetId: id, details: { captureSetId, encoding } }, trx);
+    return toPhoto(row);
   });
 }

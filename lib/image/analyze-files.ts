@@ -7,8 +7,13 @@ import type { Offset, Pattern, PhotoRole, Rect } from '../photometry/types';
 import { renderArtifacts, renderMapImages, type Artifacts, type MapImages } from './artifacts';
 import { decodePhoto } from './decode';
 
-/** A photo by path or as bytes already in memory (the worker reads from storage). */
-export type PhotoSource = string | { name: string; bytes: Uint8Array };
+/**
+ * A photo by path or as bytes already in memory (the worker reads from storage). Bytes may carry
+ * their own `linear16`, which then wins over the option of the same name for that photo.
+ */
+export type PhotoSource = string | { name: string; bytes: Uint8Array; linear16?: boolean };
+
+const linearOf = (source: PhotoSource, options: AnalyzeFilesOptions): boolean => (typeof source !== 'string' && source.linear16 !== undefined ? source.linear16 : (options.linear16 ?? false));
 
 /** One photo of a role, or several at different exposures (a bracket, merged before measuring). */
 export type RoleSource = PhotoSource | readonly PhotoSource[];
@@ -67,7 +72,7 @@ async function analyzeBrackets(options: AnalyzeFilesOptions): Promise<FileAnalys
     const files = await Promise.all(sources.map((s) => load(s, role)));
     const decoded = await Promise.all(
       files.map(async (f, i) => {
-        const d = await decodePhoto(f.bytes, { name: sources.length > 1 ? `the ${role} photo ${f.name} (bracket ${i + 1} of ${sources.length})` : `the ${role} photo ${f.name}`, linear16: options.linear16 ?? false });
+        const d = await decodePhoto(f.bytes, { name: sources.length > 1 ? `the ${role} photo ${f.name} (bracket ${i + 1} of ${sources.length})` : `the ${role} photo ${f.name}`, linear16: linearOf(sources[i] as PhotoSource, options) });
         return { raster: d.raster, exposure: d.exposure } satisfies CapturePhoto;
       }),
     );
@@ -105,7 +110,7 @@ async function analyzeSingles(options: AnalyzeFilesOptions & { on: PhotoSource; 
   const decodeOne = async (k: number, onDecodeStarted?: () => void): Promise<readonly [PhotoRole, CapturePhoto]> => {
     const f = files[k] as { name: string; bytes: Uint8Array };
     const role = (sources[k] as [PhotoRole, PhotoSource])[0];
-    const decoded = await decodePhoto(f.bytes, { name: `the ${role} photo ${f.name}`, linear16: options.linear16 ?? false, onDecodeStarted });
+    const decoded = await decodePhoto(f.bytes, { name: `the ${role} photo ${f.name}`, linear16: linearOf((sources[k] as [PhotoRole, PhotoSource])[1], options), onDecodeStarted });
     const photo: CapturePhoto = { raster: decoded.raster, exposure: decoded.exposure, small: preparePhoto(decoded.raster) };
     return [role, photo] as const;
   };

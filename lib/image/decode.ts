@@ -14,6 +14,8 @@ export interface DecodedPhoto {
   raster: PhotoRaster;
   exposure: ExposureTags | null;
   format: 'jpeg' | 'png' | 'tiff' | 'webp';
+  /** Pages in the file; only the first (page 0) is decoded and measured. */
+  pages: number;
 }
 
 export interface DecodeOptions {
@@ -79,7 +81,7 @@ export async function decodePhoto(buf: Uint8Array, options: DecodeOptions = {}):
     bitDepth: sixteen ? 16 : 8,
     encoding: options.linear16 ? 'linear' : 'srgb',
   };
-  return { raster, exposure: await readExposureTags(buf), format };
+  return { raster, exposure: await readExposureTags(buf), format, pages: Math.max(1, meta.pages ?? 1) };
 }
 
 /** Decode only, as the benchmark's floor: the same sharp call analyzeFiles makes, without EXIF or checks. */

@@ -2,6 +2,7 @@ import exifr from 'exifr';
 import sharp, { type Metadata } from 'sharp';
 import { EngineInputError } from '../photometry/errors';
 import { MAX_PIXELS } from './decode';
+import { encodingFromFile, type FileEncoding } from './encoding';
 import { refuseUnsupported } from './sniff';
 
 export type ProbedPhoto = {
@@ -12,6 +13,10 @@ export type ProbedPhoto = {
   width: number;
   height: number;
   bitDepth: 8 | 16;
+  /** How the file says its values encode light (see lib/image/encoding.ts for the rule). */
+  encoding: FileEncoding;
+  /** Pages in the file (a TIFF may hold several; the first is measured). */
+  pages: number;
   exif: { exposureTime?: number; fNumber?: number; iso?: number; make?: string; model?: string; lens?: string; takenAt?: string; orientation?: number };
 };
 
@@ -102,13 +107,16 @@ export async function probePhoto(bytes: Uint8Array, name: string): Promise<Probe
   await refuseCorrupt(bytes, name, w, h);
   const rotated = (meta.orientation ?? 1) >= 5;
   const t = TYPES[format];
+  const sixteen = meta.depth === 'ushort' || meta.depth === 'short';
   return {
     format,
     ext: t.ext,
     contentType: t.contentType,
     width: rotated ? h : w,
     height: rotated ? w : h,
-    bitDepth: meta.depth === 'ushort' || meta.depth === 'short' ? 16 : 8,
+    bitDepth: sixteen ? 16 : 8,
+    encoding: encodingFromFile({ format, sixteen, icc: meta.icc ?? null, bytes }),
+    pages: Math.max(1, meta.pages ?? 1),
     exif: await exifSummary(bytes),
   };
 }

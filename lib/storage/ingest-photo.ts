@@ -19,7 +19,7 @@ const refuse = (message: string, code = 'photo_refused', status = 422) => new Ap
  * the set's other photos, not already in the lab), stores the original and a preview under fresh
  * keys, then records it. A refused file leaves no row and no stored object behind.
  */
-export async function ingestPhoto(input: { labId: string; userId: string; captureSetId: string; role: PhotoRole; name: string; bytes: Uint8Array }): Promise<IngestResult> {
+export async function ingestPhoto(input: { labId: string; userId: string; captureSetId: string; role: PhotoRole; name: string; bytes: Uint8Array; encoding?: 'linear' | 'srgb' | null }): Promise<IngestResult> {
   const { labId, userId, captureSetId, role, bytes } = input;
   const name = input.name.trim().slice(0, 200) || `${role} photo`;
   if (bytes.length > MAX_UPLOAD_BYTES) throw refuse(`${name} is ${(bytes.length / 1048576).toFixed(0)} MB; the limit is 60 MB a photo: export a JPEG at high quality or a compressed TIFF`, 'too_large', 413);
@@ -30,6 +30,11 @@ export async function ingestPhoto(input: { labId: string; userId: string; captur
   } catch (e) {
     if (isEngineInputError(e)) throw refuse(sentence(e.message));
     throw e;
+  }
+
+  // only a 16-bit TIFF can hold linear values (the engine refuses the rest, as the CLI's --linear16 does)
+  if (input.encoding === 'linear' && !(probed.format === 'tiff' && probed.bitDepth === 16)) {
+    throw refuse(`${name} is a ${probed.bitDepth}-bit ${probed.format.toUpperCase()}, so it cannot be declared linear: only 16-bit TIFFs can.`, 'not_linear');
   }
 
   const sha256 = createHash('sha256').update(bytes).digest('hex');
@@ -75,6 +80,10 @@ export async function ingestPhoto(input: { labId: string; userId: string; captur
       height: probed.height,
       format: probed.format,
       bitDepth: probed.bitDepth,
+      encodingFile: probed.encoding.encoding,
+      encodingReason: probed.encoding.reason,
+      encodingDeclared: input.encoding ?? null,
+      pages: probed.pages,
       exif,
       originalName: name,
     });

@@ -7,6 +7,7 @@ import { listRegions } from '../../db/queries/regions';
 import { upsertReading, type ReadingArtifacts } from '../../db/queries/readings';
 import { analyzeFiles, type PhotoSource } from '../../lib/image';
 import { EngineInputError } from '../../lib/photometry/errors';
+import { photoEncoding } from '../../lib/schemas/capture-set';
 import type { PhotoRole } from '../../lib/photometry/types';
 import { artifactKey, getStorage } from '../../lib/storage';
 import { notifyTargetFailures } from '../../lib/targets/notify';
@@ -33,6 +34,16 @@ export async function runAnalysis(labId: string, analysisId: string, onProgress?
     if (!byRole.has(role)) throw new EngineInputError('file-missing', `the capture set has no ${role} photo: upload the display-${role} photo, then analyse again`);
   }
 
+  // how each photo's values are read: its own declaration, the set's, or its file's (a set declared
+  // linear with a photo that cannot be is the tester's to fix, as the CLI's --linear16 refuses it)
+  const linear = new Map<string, boolean>();
+  for (const p of photos) {
+    const d = photoEncoding(set.tiffEncoding, p);
+    if (d.conflict) throw new EngineInputError('bad-argument', d.conflict);
+    linear.set(p.id, d.linear);
+  }
+  const allLinear = photos.every((p) => linear.get(p.id) === true);
+
   let lastStage = '';
   let lastWrite = 0;
   let pending: Promise<void> = Promise.resolve();
@@ -51,7 +62,7 @@ export async function runAnalysis(labId: string, analysisId: string, onProgress?
   const loadOne = async (role: PhotoRole, p: Photo): Promise<PhotoSource> => {
     const bytes = await storage.get(p.storageKey);
     if (!bytes) throw new EngineInputError('file-missing', `the stored ${role} photo ${p.originalName || ''} is missing: upload it again`);
-    return { name: p.originalName || `${role} photo`, bytes };
+    return { name: p.originalName || `${role} photo`, bytes, linear16: linear.get(p.id) ?? false };
   };
   const load = async (role: PhotoRole): Promise<PhotoSource | PhotoSource[] | null> => {
     const list = byRole.get(role);
@@ -81,11 +92,19 @@ export async function runAnalysis(labId: string, analysisId: string, onProgress?
     screen: rect(screen),
     background: rect(background),
     ghostOffset,
+    linear16: allLinear,
     onProgress: (stage, fraction) => report(stage === 'done' ? 'artifacts' : stage, 5 + 85 * fraction),
   });
 
-  // the reading names the profile it was converted with (more keys are allowed in the result)
-  const result = profile ? { ...engineResult, cameraProfile: { id: profile.id, name: profile.name, make: profile.make, model: profile.model, k: profile.k } } : engineResult;
+  // the reading names the profile it was converted with and how each role's photos were read
+  // (more keys are allowed in the result)
+  const decodedAs: Partial<Record<PhotoRole, 'linear' | 'srgb' | 'mixed'>> = {};
+  for (const [role, list] of byRole) {
+    const kinds = new Set(list.map((p) => (linear.get(p.id) ? 'linear' : 'srgb')));
+    decodedAs[role] = kinds.size > 1 ? 'mixed' : ([...kinds][0] as 'linear' | 'srgb');
+  }
+  const withInput = { ...engineResult, decodedAs };
+  const result = profile ? { ...withInput, cameraProfile: { id: profile.id, name: profile.name, make: profile.make, model: profile.model, k: profile.k } } : withInput;
 
   report('artifacts', 92, true);
   const stored: ReadingArtifacts = {};

@@ -37,6 +37,7 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
     c.backgroundCdm2 !== undefined ? `${c.backgroundCdm2} cd/m² background` : null,
     c.displayLevel ? `display ${c.displayLevel}` : null,
     set.pattern === 'full' ? 'full-white pattern' : '4 × 4 checkerboard',
+    set.tiffEncoding === 'linear' ? '16-bit TIFFs read as linear' : set.tiffEncoding === 'srgb' ? '16-bit TIFFs read as sRGB' : null,
   ].filter(Boolean);
 
   return (
@@ -60,7 +61,22 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
             <UploadPanel
               captureSetId={set.id}
               canWrite={canWrite}
-              photos={photos.map((p) => ({ id: p.id, role: p.role, originalName: p.originalName, width: p.width, height: p.height, bytes: p.bytes, format: p.format, bitDepth: p.bitDepth, exif: p.exif }))}
+              tiffEncoding={set.tiffEncoding}
+              photos={photos.map((p) => ({
+                id: p.id,
+                role: p.role,
+                originalName: p.originalName,
+                width: p.width,
+                height: p.height,
+                bytes: p.bytes,
+                format: p.format,
+                bitDepth: p.bitDepth,
+                encodingFile: p.encodingFile,
+                encodingReason: p.encodingReason,
+                encodingDeclared: p.encodingDeclared,
+                pages: p.pages,
+                exif: p.exif,
+              }))}
             />
           </Panel>
           <Panel title="Capture protocol">
@@ -95,7 +111,7 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
                   <div className="mt-3">
                     <EditCaptureSetForm
                       id={set.id}
-                      values={{ label: set.label, variant: set.variant, pattern: set.pattern, ambientLux: c.ambientLux, backgroundCdm2: c.backgroundCdm2, displayLevel: c.displayLevel, notes: set.notes }}
+                      values={{ label: set.label, variant: set.variant, pattern: set.pattern, tiffEncoding: set.tiffEncoding, ambientLux: c.ambientLux, backgroundCdm2: c.backgroundCdm2, displayLevel: c.displayLevel, notes: set.notes }}
                     />
                   </div>
                 </details>

@@ -1,7 +1,8 @@
 import { NextResponse } from 'next/server';
-import { deletePhoto, getPhoto } from '@/db/queries/photos';
-import { withAuth } from '@/lib/auth/with-auth';
-import { notFound } from '@/lib/errors';
+import { deletePhoto, getPhoto, setPhotoEncoding } from '@/db/queries/photos';
+import { readJson, withAuth } from '@/lib/auth/with-auth';
+import { AppError, notFound } from '@/lib/errors';
+import { photoEncodingSchema } from '@/lib/schemas/capture-set';
 import { deleteKeys } from '@/lib/storage';
 import { captureSetOr404, idOr404 } from '../../../lookup';
 
@@ -15,6 +16,24 @@ export const DELETE = withAuth<P>(
     const keys = await deletePhoto(actor.labId, actor.user.id, photo.id);
     if (keys) await deleteKeys(keys);
     return new NextResponse(null, { status: 204 });
+  },
+  { permission: 'capture.write' },
+);
+
+/** Declares how this photo's values encode light ({ encoding: 'linear' | 'srgb' | null }); null follows the set and the file. */
+export const PATCH = withAuth<P>(
+  async (req, { actor, params }) => {
+    const set = await captureSetOr404(actor.labId, params.captureId);
+    const photo = await getPhoto(actor.labId, idOr404(params.photoId, 'photo'));
+    if (!photo || photo.captureSetId !== set.id) throw notFound('No such photo');
+    const { encoding } = photoEncodingSchema.parse(await readJson(req));
+    if (encoding === 'linear' && !(photo.format === 'tiff' && photo.bitDepth === 16)) {
+      throw new AppError(422, `${photo.originalName || 'This photo'} is a ${photo.bitDepth}-bit ${photo.format.toUpperCase()}, so it cannot be declared linear: only 16-bit TIFFs can.`, 'not_linear', { encoding: ['Only a 16-bit TIFF can be linear'] });
+    }
+    const updated = await setPhotoEncoding(actor.labId, actor.user.id, set.id, photo.id, encoding);
+    if (!updated) throw notFound('No such photo');
+    const { storageKey: _s, previewKey: _p, ...shown } = updated;
+    return NextResponse.json({ photo: shown });
   },
   { permission: 'capture.write' },
 );

@@ -1,0 +1,1 @@
+export { PATCH } from '../../../../../captures/[captureId]/photos/[photoId]/route';
