@@ -6,7 +6,7 @@ import { getEnv } from './lib/env';
 // still checks the role itself against the database. API routes are not matched: each handler
 // answers 401/403 itself through withAuth (the authorization matrix tests every one without a
 // session), and a second decode per call only slowed every read.
-const PUBLIC = [/^\/sign-in/, /^\/sign-up/, /^\/invite\//, /^\/reset/, /^\/patterns\/show/];
+const PUBLIC = [/^\/sign-in/, /^\/sign-up/, /^\/invite\//, /^\/reset/, /^\/verify(\/|$)/, /^\/patterns\/show/];
 
 export async function proxy(req: NextRequest) {
   const { pathname } = req.nextUrl;

@@ -1,3 +1,4 @@
+import { isIP } from 'node:net';
 import { z } from 'zod';
 
 // The only reader of process.env. Parsed on first use, so `next build` needs no settings while a
@@ -16,14 +17,32 @@ const envSchema = z.object({
   S3_REGION: z.string().default('us-east-1'),
   S3_ACCESS_KEY_ID: z.string().optional(),
   S3_SECRET_ACCESS_KEY: z.string().optional(),
-  SMTP_HOST: z.string().default('127.0.0.1'),
-  SMTP_PORT: z.coerce.number().int().positive().default(2529),
+  /** The SMTP relay mail goes to when the local catcher is off (MAIL_CATCHER=0). Unset: no mail is sent. */
+  SMTP_HOST: z.string().trim().min(1).optional(),
+  /** The relay's port (587 for STARTTLS, 465 for SMTP_TLS=tls); with the catcher on, the catcher's port. */
+  SMTP_PORT: z.coerce.number().int().positive().max(65535).default(2529),
+  SMTP_USER: z.string().optional(),
+  SMTP_PASSWORD: z.string().optional(),
+  /** starttls: upgrade a plain connection and refuse to go on without TLS; tls: TLS from the first byte; none: never (a relay on loopback only). */
+  SMTP_TLS: z.enum(['starttls', 'tls', 'none']).default('starttls'),
   MAIL_FROM: z.string().default('Veilmeter <no-reply@veilmeter.example.test>'),
   QUEUE_PREFIX: z.string().default('vm'),
   WORKER_CONCURRENCY: z.coerce.number().int().min(1).max(16).default(1),
   VEILMETER_TEST: z.string().optional(),
-  /** Set by the start and test scripts when mail goes to the local catcher: enables the inbox page. */
+  /**
+   * 1 only for the demo and tests (`npm start`, `npm test` ask for it): mail goes to the local catcher
+   * on 127.0.0.1:SMTP_PORT instead of a relay, and the inbox page shows each person their own mail.
+   */
   MAIL_CATCHER: z.enum(['0', '1']).default('0'),
+  /**
+   * Comma-separated addresses of the reverse proxies in front of the web app; only their
+   * X-Forwarded-For counts when limits pick the client's address (lib/security/client-ip.ts).
+   */
+  TRUSTED_PROXIES: z
+    .string()
+    .default('')
+    .transform((s) => s.split(',').map((x) => x.trim()).filter((x) => x !== ''))
+    .refine((list) => list.every((x) => isIP(x.replace(/^\[|\]$/g, '')) !== 0), { message: 'TRUSTED_PROXIES must be IP addresses separated by commas' }),
 });
 
 export type Env = z.infer<typeof envSchema>;

@@ -6,5 +6,6 @@ export REDIS_URL="redis://:${REDIS_PASSWORD}@127.0.0.1:${REDIS_PORT}"
 export NEXTAUTH_URL="${NEXTAUTH_URL:-http://localhost:${PORT}}"
 export STORAGE_DIR="${STORAGE_DIR:-$DATA_DIR/storage}"
 export NEXT_TELEMETRY_DISABLED=1
-export MAIL_CATCHER="${MAIL_CATCHER:-1}"
+# the local mail catcher is a fake for the demo and tests: off unless asked for (npm start and npm test ask)
+export MAIL_CATCHER="${MAIL_CATCHER:-0}"
 export SMTP_PORT

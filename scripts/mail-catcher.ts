@@ -1,5 +1,8 @@
 // A local SMTP server that accepts every message on 127.0.0.1 and keeps it as JSON under
-// DATA_DIR/mail, for development and tests. Mail never leaves the machine.
+// DATA_DIR/mail, for the demo and tests (MAIL_CATCHER=1). Mail never leaves the machine. Each
+// message's recipients and links are also printed on this process's console (the operator's
+// terminal), which is how a demo reads a verification, invitation or reset mail addressed to
+// nobody real; the app's inbox page shows a signed-in person only mail to their own address.
 import { mkdir, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { simpleParser } from 'mailparser';
@@ -14,7 +17,7 @@ const server = new SMTPServer({
   authOptional: true,
   disabledCommands: ['STARTTLS'],
   size: 5 * 1024 * 1024,
-  onData(stream, _session, done) {
+  onData(stream, session, done) {
     simpleParser(stream)
       .then(async (mail) => {
         await mkdir(dir, { recursive: true });
@@ -24,11 +27,15 @@ const server = new SMTPServer({
           receivedAt: new Date().toISOString(),
           from: mail.from?.text ?? '',
           to: to.map((a) => a.address ?? ''),
+          // who the message was delivered to (the SMTP envelope), which is what the inbox filters on
+          envelopeTo: session.envelope.rcptTo.map((r) => r.address),
           subject: mail.subject ?? '',
           text: mail.text ?? '',
           html: typeof mail.html === 'string' ? mail.html : '',
         };
         await writeFile(join(dir, `${record.id}.json`), JSON.stringify(record, null, 2));
+        const links = record.text.match(/https?:\/\/\S+/g) ?? [];
+        console.log(`[mail] to ${record.envelopeTo.join(', ')}: ${record.subject}${links.map((l) => `\n[mail]   ${l}`).join('')}`);
         done();
       })
       .catch((err: unknown) => done(err instanceof Error ? err : new Error(String(err))));

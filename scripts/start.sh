@@ -20,6 +20,7 @@ stopping=0
 shutdown() {
   [ "$stopping" = 1 ] && return; stopping=1
   log "stopping"
+  [ -f "$RUN/mail-tail.pid" ] && { kill "$(cat "$RUN/mail-tail.pid")" 2>/dev/null || true; rm -f "$RUN/mail-tail.pid"; }
   bash "$ROOT/scripts/stop.sh" >/dev/null 2>&1 || true
   log "stopped; data kept in $DATA_DIR"
 }
@@ -34,7 +35,16 @@ PGPORT=$PGPORT
 REDIS_PORT=$REDIS_PORT
 EOT
 
-mail_start "$RUN"
+# The mail catcher only when asked for (MAIL_CATCHER=1, which `npm start` sets for the demo):
+# a production start sends mail through the SMTP relay of SMTP_HOST instead.
+if [ "$MAIL_CATCHER" = 1 ]; then
+  mail_start "$RUN"
+  MAIL_NOTE="mail catcher 127.0.0.1:$SMTP_PORT, asked for by MAIL_CATCHER=1: mail never leaves this machine, and each message's links are printed below"
+elif [ -n "${SMTP_HOST:-}" ]; then
+  MAIL_NOTE="mail through the relay $SMTP_HOST:$SMTP_PORT (TLS: ${SMTP_TLS:-starttls})"
+else
+  MAIL_NOTE="no mail: set SMTP_HOST (README, SECURITY) or MAIL_CATCHER=1 for the local catcher; invitations, resets and address confirmations cannot be sent"
+fi
 
 log "migrating"
 npx tsx db/migrate.ts latest
@@ -66,7 +76,8 @@ fi
 cat <<EOT
 
   Veilmeter is running at http://localhost:$PORT
-  (PostgreSQL 127.0.0.1:$PGPORT, Redis 127.0.0.1:$REDIS_PORT, $WORKERS worker(s), mail catcher 127.0.0.1:$SMTP_PORT)
+  (PostgreSQL 127.0.0.1:$PGPORT, Redis 127.0.0.1:$REDIS_PORT, $WORKERS worker(s))
+  Mail: $MAIL_NOTE
 
   Demo sign-ins: admin@example.test, lead@example.test, tester@example.test, viewer@example.test
   Demo password: $(npx tsx -e "import('./db/seeds/demo-data.ts').then(m => console.log(m.DEMO_PASSWORD))")
@@ -74,4 +85,9 @@ cat <<EOT
   Logs in $RUN. Ctrl-C or \`npm run stop\` stops everything; the data stays in $DATA_DIR.
 
 EOT
+# the catcher's log on this console: who each message went to and its links (a sign-up's
+# confirmation, an invitation, a reset), the demo's way to read mail sent to invented addresses
+if [ "$MAIL_CATCHER" = 1 ]; then
+  tail -n 0 -F "$RUN/mail.log" 2>/dev/null & echo $! > "$RUN/mail-tail.pid"
+fi
 wait -n "$(cat "$RUN/web.pid")" 2>/dev/null || true

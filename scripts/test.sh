@@ -13,6 +13,8 @@ export PORT PGPORT REDIS_PORT SMTP_PORT
 mkdir -p .test-data
 export DATA_DIR="$(mktemp -d "$ROOT/.test-data/run-XXXXXX")"
 export PGDATABASE=veilmeter_test NODE_ENV=production VEILMETER_TEST=1
+# the tests read mail from the local catcher (tests/e2e/helpers.ts waitForMail)
+export MAIL_CATCHER=1
 RUN="$DATA_DIR/run"; mkdir -p "$RUN"
 
 ensure_system with-browser

@@ -6,6 +6,7 @@ import { useRouter, useSearchParams } from 'next/navigation';
 import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
+import { sameOriginPath } from '@/lib/auth/safe-next';
 
 export function SignInForm() {
   const router = useRouter();
@@ -24,8 +25,8 @@ export function SignInForm() {
       setError(res?.status === 429 ? 'Too many attempts. Wait a minute and try again.' : 'That e-mail and password do not match an account.');
       return;
     }
-    const next = params.get('next');
-    router.replace(next && next.startsWith('/') && !next.startsWith('//') ? next : '/projects');
+    // only a path on this origin, resolved as the browser would resolve it (`/\evil.example` is another host)
+    router.replace(sameOriginPath(params.get('next'), window.location.origin) ?? '/projects');
     router.refresh();
   }
 

@@ -1,9 +1,7 @@
 'use client';
 
-import { signIn } from 'next-auth/react';
 import Link from 'next/link';
-import { useRouter } from 'next/navigation';
-import { useActionState, useEffect, useRef } from 'react';
+import { useActionState } from 'react';
 import { signUpAction } from '@/app/(auth)/actions';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
@@ -11,29 +9,24 @@ import type { FormState } from '@/lib/auth/action';
 
 export function SignUpForm() {
   const [state, action, pending] = useActionState<FormState, FormData>(signUpAction, {});
-  // React clears the form once the action returns, so the credentials are kept from the submit.
-  const typed = useRef({ email: '', password: '' });
-  const router = useRouter();
-
-  useEffect(() => {
-    if (!state.ok) return;
-    void signIn('credentials', { ...typed.current, redirect: false }).then(() => {
-      router.replace('/projects');
-      router.refresh();
-    });
-  }, [state, router]);
+  // The answer is the same whether or not the address has an account: the mail tells the rest.
+  if (state.ok) {
+    return (
+      <div className="space-y-3">
+        <h1 className="text-lg font-semibold">Check your inbox</h1>
+        <p role="status" className="text-sm text-muted">
+          {state.message} We wrote to <strong className="text-ink">{state.values?.email}</strong>.
+        </p>
+        <Link href="/sign-in" className="text-sm text-beam">
+          Sign in
+        </Link>
+      </div>
+    );
+  }
 
   const fe = state.fieldErrors ?? {};
   return (
-    <form
-      action={action}
-      onSubmit={(e) => {
-        const f = new FormData(e.currentTarget);
-        typed.current = { email: String(f.get('email') ?? ''), password: String(f.get('password') ?? '') };
-      }}
-      className="space-y-4"
-      noValidate
-    >
+    <form action={action} className="space-y-4" noValidate>
       <h1 className="text-lg font-semibold">Start a lab</h1>
       <p className="text-sm text-muted">You become the lab&apos;s admin and can invite your team afterwards.</p>
       {state.message && !state.ok ? (
@@ -43,10 +36,10 @@ export function SignUpForm() {
       ) : null}
       <Field label="Your name" name="name" autoComplete="name" defaultValue={state.values?.name} errors={fe.name} required />
       <Field label="E-mail" name="email" type="email" autoComplete="email" defaultValue={state.values?.email} errors={fe.email} required />
-      <Field label="Password" name="password" type="password" autoComplete="new-password" errors={fe.password} hint="10 characters or more" required />
+      <Field label="Password" name="password" type="password" autoComplete="new-password" errors={fe.password} hint="10 characters or more, not a common one" required />
       <Field label="Lab name" name="labName" defaultValue={state.values?.labName} errors={fe.labName} placeholder="e.g. Optics bench B" required />
-      <Button type="submit" className="w-full" disabled={pending || state.ok}>
-        {pending || state.ok ? 'Creating…' : 'Create lab'}
+      <Button type="submit" className="w-full" disabled={pending}>
+        {pending ? 'Creating…' : 'Create lab'}
       </Button>
       <p className="text-center text-xs text-muted">
         Already have an account?{' '}

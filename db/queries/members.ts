@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
 import { getDb } from '../index';
 import { recordAudit } from './audit';
+import { endSessions } from './users';
 import type { Role } from '../../lib/auth/permissions';
 
 export type Member = { userId: string; email: string; name: string; role: Role; since: Date };
@@ -39,6 +40,9 @@ export async function removeMember(labId: string, actorId: string, userId: strin
     if (!current) return 'not-found';
     if (current.role === 'admin' && (await adminCountLocked(trx, labId)) <= 1) return 'last-admin';
     await trx('memberships').where({ lab_id: labId, user_id: userId }).delete();
+    // out of every lab: their sessions end, so a later invitation does not revive an old token
+    const left = await trx('memberships').where({ user_id: userId }).first('lab_id');
+    if (!left) await endSessions(userId, trx);
     await recordAudit({ labId, userId: actorId, action: 'member.remove', targetType: 'user', targetId: userId, details: { role: current.role } }, trx);
     return 'ok';
   });

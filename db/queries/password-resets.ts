@@ -1,6 +1,7 @@
 import { getDb } from '../index';
 import { hashSecret, newSecret } from '../../lib/security/tokens';
 import { recordAudit } from './audit';
+import { endSessions, markEmailVerified } from './users';
 
 export const RESET_TTL_MS = 60 * 60 * 1000;
 
@@ -25,7 +26,10 @@ export async function spendPasswordReset(token: string, passwordHash: string): P
     const row = await trx('password_resets').where({ token_hash: hashSecret(token) }).whereNull('used_at').where('expires_at', '>', new Date()).forUpdate().first<{ id: string; user_id: string } | undefined>('id', 'user_id');
     if (!row) return false;
     await trx('password_resets').where({ id: row.id }).update({ used_at: trx.fn.now() });
+    // the new password ends every session the old one opened, and the link proved the address
     await trx('users').where({ id: row.user_id }).update({ password_hash: passwordHash, updated_at: trx.fn.now() });
+    await endSessions(row.user_id, trx);
+    await markEmailVerified(row.user_id, trx);
     const labs = await trx('memberships').where({ user_id: row.user_id }).pluck('lab_id');
     for (const labId of labs) await recordAudit({ labId, userId: row.user_id, action: 'auth.password-reset' }, trx);
     return true;

@@ -21,7 +21,7 @@ export function sessionToken(jar: CookieSource, secureCookies: boolean): string 
 // jose's leeway on exp/nbf in next-auth's decode, repeated for tokens answered from memory
 const CLOCK_TOLERANCE_S = 15;
 const DECODED_MAX = 1000;
-type Claims = { sub: string | null; exp?: number; nbf?: number };
+type Claims = { sub: string | null; sv: number; exp?: number; nbf?: number };
 const g = globalThis as unknown as { __veilmeterDecoded?: Map<string, Claims> };
 
 /**
@@ -31,6 +31,16 @@ const g = globalThis as unknown as { __veilmeterDecoded?: Map<string, Claims> };
  * cost of a cached read. Expiry is still checked on every request.
  */
 export async function sessionUserId(jar: CookieSource, secureCookies: boolean, secret: string): Promise<string | null> {
+  return (await sessionClaims(jar, secureCookies, secret))?.sub ?? null;
+}
+
+/**
+ * The user id and session version of the session JWT, or null. The version is compared with the
+ * user's row on every request (lib/auth/session.ts): a token issued before the last sign-out,
+ * password reset or removal from the last lab carries an older one. A token without one (issued
+ * before versions existed) counts as version 0.
+ */
+export async function sessionClaims(jar: CookieSource, secureCookies: boolean, secret: string): Promise<{ sub: string; sv: number } | null> {
   const token = sessionToken(jar, secureCookies);
   if (!token) return null;
   const memo = (g.__veilmeterDecoded ??= new Map());
@@ -38,7 +48,13 @@ export async function sessionUserId(jar: CookieSource, secureCookies: boolean, s
   if (!claims) {
     try {
       const payload = await decode({ token, secret });
-      claims = { sub: typeof payload?.sub === 'string' && payload.sub ? payload.sub : null, exp: payload?.exp as number | undefined, nbf: payload?.nbf as number | undefined };
+      const sv = payload?.sv;
+      claims = {
+        sub: typeof payload?.sub === 'string' && payload.sub ? payload.sub : null,
+        sv: typeof sv === 'number' && Number.isInteger(sv) ? sv : 0,
+        exp: payload?.exp as number | undefined,
+        nbf: payload?.nbf as number | undefined,
+      };
     } catch {
       return null;
     }
@@ -51,5 +67,5 @@ export async function sessionUserId(jar: CookieSource, secureCookies: boolean, s
     return null;
   }
   if (typeof claims.nbf === 'number' && claims.nbf > now + CLOCK_TOLERANCE_S) return null;
-  return claims.sub;
+  return claims.sub ? { sub: claims.sub, sv: claims.sv } : null;
 }

@@ -21,6 +21,20 @@ export function resetMail(to: string, link: string): Mail {
   return { to, subject: 'Reset your Veilmeter password', text: `${lines.join('\n')}\n\nReset: ${link}\n`, html: wrap('Reset your password', lines, { href: link, label: 'Choose a new password' }) };
 }
 
+export function verifyMail(to: string, link: string): Mail {
+  const lines = ['Someone started a lab on Veilmeter with this address. Open the link to confirm it is yours; until then the account can do nothing else.', 'If it was not you, ignore this message.', 'The link works once and expires in 48 hours.'];
+  return { to, subject: 'Confirm your address for Veilmeter', text: `${lines.join('\n')}\n\nConfirm: ${link}\n`, html: wrap('Confirm your address', lines, { href: link, label: 'Confirm my address' }) };
+}
+
+/** To the owner of an address someone tried to sign up with again: no second account is made. */
+export function accountExistsMail(to: string, signInLink: string, resetLink: string): Mail {
+  const lines = [
+    'Someone tried to start a lab on Veilmeter with this address, which already has an account. No second account was made.',
+    `If it was you, sign in at ${signInLink} (or choose a new password with the link below). If it was not you, ignore this message.`,
+  ];
+  return { to, subject: 'You already have a Veilmeter account', text: `${lines.join('\n')}\n\nNew password: ${resetLink}\n`, html: wrap('You already have an account', lines, { href: resetLink, label: 'Choose a new password' }) };
+}
+
 /** To a lead: a new reading turned a revision to failing one or more of the project's targets. */
 export function targetFailedMail(
   to: string,

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { passwordProblems } from '../auth/password-rules';
 import { safe } from './common';
 
 export const emailSchema = z
@@ -8,10 +9,10 @@ export const emailSchema = z
   .max(254, { message: 'That address is too long' })
   .email({ message: 'Enter a valid e-mail address' });
 
-export const passwordSchema = z
-  .string({ message: 'Enter a password' })
-  .min(10, { message: 'Use at least 10 characters' })
-  .max(200, { message: 'Use at most 200 characters' });
+// 10 characters to 72 bytes, not a common password or pattern (lib/auth/password-rules.ts)
+export const passwordSchema = z.string({ message: 'Enter a password' }).superRefine((value, ctx) => {
+  for (const message of passwordProblems(value)) ctx.addIssue({ code: 'custom', message });
+});
 
 export const signInSchema = z.object({
   email: emailSchema,
@@ -23,4 +24,8 @@ export const signUpSchema = z.object({
   email: emailSchema,
   password: passwordSchema,
   labName: safe(z.string().trim().min(2, { message: 'Name your lab (2 characters or more)' }).max(120, { message: 'Use at most 120 characters' })),
+}).superRefine((v, ctx) => {
+  // the rules that need the rest of the form: not the e-mail address or the name
+  const [problem] = passwordProblems(v.password, { email: v.email, name: v.name });
+  if (problem && !passwordProblems(v.password).includes(problem)) ctx.addIssue({ code: 'custom', path: ['password'], message: problem });
 });

@@ -1,5 +1,6 @@
 import { RateLimiterMemory, RateLimiterRedis, RateLimiterRes } from 'rate-limiter-flexible';
 import { getEnv } from '../env';
+import { clientAddress } from './client-ip';
 import { producerConnection } from '../queue/connection';
 
 type Limits = { points: number; duration: number; blockDuration?: number };
@@ -56,7 +57,7 @@ export async function resetLimit(name: LimitName, key: string): Promise<void> {
   await limiter(name).delete(key.toLowerCase()).catch(() => undefined);
 }
 
-/** The client address as the proxy in front of us reports it (loopback when direct). */
+/** The client's address: the socket's peer, or what a proxy listed in TRUSTED_PROXIES reports (lib/security/client-ip.ts). */
 export function clientIp(req: Request): string {
-  return req.headers.get('x-forwarded-for')?.split(',')[0]?.trim() || req.headers.get('x-real-ip') || '127.0.0.1';
+  return clientAddress(req);
 }

@@ -47,6 +47,7 @@ const ROUTES: { method: string; path: string; access: Access; query?: string }[]
   { method: 'POST', path: '/api/captures/[captureId]/detect', access: 'capture.write' },
   { method: 'POST', path: '/api/captures/[captureId]/photos', access: 'capture.write' },
   { method: 'DELETE', path: '/api/captures/[captureId]/photos/[photoId]', access: 'capture.write' },
+  { method: 'PATCH', path: '/api/captures/[captureId]/photos/[photoId]', access: 'capture.write' },
   { method: 'GET', path: '/api/captures/[captureId]/photos/[photoId]/original', access: 'capture.read' },
   { method: 'GET', path: '/api/captures/[captureId]/photos/[photoId]/preview', access: 'capture.read' },
   { method: 'GET', path: '/api/captures/[captureId]/regions', access: 'capture.read' },
@@ -64,6 +65,9 @@ const ROUTES: { method: string; path: string; access: Access; query?: string }[]
   { method: 'GET', path: '/api/v1/projects/[projectId]/trend', access: 'project.read' },
   { method: 'POST', path: '/api/v1/captures', access: 'capture.write' },
   { method: 'POST', path: '/api/v1/captures/[captureId]/photos', access: 'capture.write' },
+  { method: 'PATCH', path: '/api/v1/captures/[captureId]/photos/[photoId]', access: 'capture.write' },
+  { method: 'GET', path: '/api/v1/captures/[captureId]/regions', access: 'capture.read' },
+  { method: 'PUT', path: '/api/v1/captures/[captureId]/regions', access: 'capture.write' },
   { method: 'GET', path: '/api/v1/captures/[captureId]/templates', access: 'capture.read' },
   { method: 'POST', path: '/api/v1/captures/[captureId]/templates/apply', access: 'capture.write' },
   { method: 'GET', path: '/api/v1/captures/[captureId]/analyses', access: 'capture.read' },
@@ -75,6 +79,7 @@ const ROUTES: { method: string; path: string; access: Access; query?: string }[]
 const ACTIONS: Record<string, Access> = {
   signUpAction: 'public',
   acceptInvitationAction: 'public',
+  resendVerificationAction: 'session',
   switchLabAction: 'session',
   toggleThemeAction: 'session',
   createProjectAction: 'project.write',
@@ -159,7 +164,7 @@ test.beforeAll(async () => {
   ids = { projectId: project.id, revisionId: revision.id, captureId: photo.capture_set_id, photoId: photo.id, analysisId: analysis.id, profileId: profile.id };
 
   if (!(await db('users').where({ email: OUTSIDER.email }).first())) {
-    const [u] = await db('users').insert({ email: OUTSIDER.email, name: 'Matrix Outsider', password_hash: await hashPassword(OUTSIDER.password) }).returning('id');
+    const [u] = await db('users').insert({ email: OUTSIDER.email, name: 'Matrix Outsider', password_hash: await hashPassword(OUTSIDER.password), email_verified_at: new Date() }).returning('id');
     const [l] = await db('labs').insert({ name: 'Matrix elsewhere lab' }).returning('id');
     await db('memberships').insert({ lab_id: l.id, user_id: u.id, role: 'admin' });
   }

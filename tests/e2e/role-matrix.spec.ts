@@ -16,7 +16,7 @@ test.beforeAll(async () => {
   const project = await db('projects').where({ lab_id: lab.id }).orderBy('name').first<{ id: string }>('id');
   demoProjectId = project.id;
   if (!(await db('users').where({ email: OUTSIDER.email }).first())) {
-    const [u] = await db('users').insert({ email: OUTSIDER.email, name: 'Out Sider', password_hash: await hashPassword(OUTSIDER.password) }).returning('id');
+    const [u] = await db('users').insert({ email: OUTSIDER.email, name: 'Out Sider', password_hash: await hashPassword(OUTSIDER.password), email_verified_at: new Date() }).returning('id');
     const [l] = await db('labs').insert({ name: 'Elsewhere Lab' }).returning('id');
     await db('memberships').insert({ lab_id: l.id, user_id: u.id, role: 'admin' });
   }

@@ -1,5 +1,5 @@
 import { expect, test } from '@playwright/test';
-import { signIn } from './helpers';
+import { linkIn, signIn, waitForMail } from './helpers';
 
 test('a wrong password shows an error on the form and opens no session', async ({ page, context }) => {
   await page.goto('/sign-in');
@@ -50,7 +50,7 @@ test('the create form shows field errors for an empty or 500-character name', as
   await expect(page.getByText('Use at most 120 characters')).toBeVisible();
 });
 
-test('sign-up creates a lab whose creator is its admin, and signs them in', async ({ page }) => {
+test('sign-up creates a lab whose creator is its admin once the address is confirmed', async ({ page }) => {
   const email = `founder-${Date.now()}@example.test`;
   await page.goto('/sign-up');
   await page.getByLabel('Your name').fill('Mira Castellan');
@@ -62,7 +62,11 @@ test('sign-up creates a lab whose creator is its admin, and signs them in', asyn
   await expect(page.getByLabel('Lab name')).toHaveValue('Castellan optics bench');
   await page.getByLabel('Password').fill('a-long-enough-password');
   await page.getByRole('button', { name: 'Create lab' }).click();
-  await page.waitForURL('**/projects');
+  await expect(page.getByRole('status')).toContainText('Check your inbox');
+  // the address is confirmed through the link in the mail the local catcher caught
+  await page.goto(linkIn((await waitForMail(email, /Confirm your address/)).text, '/verify/'));
+  await expect(page.getByRole('heading', { name: 'Address confirmed' })).toBeVisible();
+  await signIn(page, email, 'a-long-enough-password');
   await expect(page.getByTestId('role')).toHaveText('Admin');
   await expect(page.getByText('Castellan optics bench').first()).toBeVisible();
 });

@@ -64,9 +64,9 @@ async function uncachedTrend(labId: string, projectId: string): Promise<string> 
 const uncachedCsv = async (labId: string, projectId: string) => `\uFEFF${readingsCsv(await listExportRows(labId, { projectId }))}`;
 
 beforeAll(async () => {
-  a = await createUserWithLab({ email: `ca-${tag}@example.test`, name: 'Cache A', passwordHash: 'x', labName: `Cache A ${tag}` });
-  b = await createUserWithLab({ email: `cb-${tag}@example.test`, name: 'Cache B', passwordHash: 'x', labName: `Cache B ${tag}` });
-  const [u] = await getDb()('users').insert({ email: `cboth-${tag}@example.test`, name: 'Cache both', password_hash: 'x' }).returning<{ id: string }[]>('id');
+  a = await createUserWithLab({ email: `ca-${tag}@example.test`, name: 'Cache A', passwordHash: 'x', labName: `Cache A ${tag}`, emailVerified: true });
+  b = await createUserWithLab({ email: `cb-${tag}@example.test`, name: 'Cache B', passwordHash: 'x', labName: `Cache B ${tag}`, emailVerified: true });
+  const [u] = await getDb()('users').insert({ email: `cboth-${tag}@example.test`, name: 'Cache both', password_hash: 'x', email_verified_at: new Date() }).returning<{ id: string }[]>('id');
   both = u!.id;
   await getDb()('memberships').insert([{ lab_id: b.labId, user_id: both, role: 'lead' }, { lab_id: a.labId, user_id: both, role: 'lead' }]);
   fx = await insertFixtureProject(a.labId, `Cache visor ${tag}`, [

@@ -1,13 +1,14 @@
 import { NextResponse } from 'next/server';
 import { readJson, errorResponse } from '@/lib/auth/with-auth';
 import { requestPasswordReset, RESET_REQUESTED } from '@/lib/auth/password-reset';
-import { clientIp, RateLimited } from '@/lib/security/rate-limit';
+import { clientAddress } from '@/lib/security/client-ip';
+import { RateLimited } from '@/lib/security/rate-limit';
 import { resetRequestSchema } from '@/lib/schemas/team';
 
 export async function POST(req: Request) {
   try {
     const { email } = resetRequestSchema.parse(await readJson(req));
-    await requestPasswordReset(email, clientIp(req));
+    await requestPasswordReset(email, clientAddress(req));
     return NextResponse.json({ message: RESET_REQUESTED });
   } catch (err) {
     if (err instanceof RateLimited) {

@@ -2,19 +2,22 @@ import { notFound } from 'next/navigation';
 import { EmptyState, Notice, Panel } from '@/components/ui/panel';
 import { requireActor } from '@/lib/auth/session';
 import { getEnv } from '@/lib/env';
-import { listCaughtMail } from '@/lib/mail/inbox';
+import { listCaughtMailFor } from '@/lib/mail/inbox';
 
 export const metadata = { title: 'Local inbox' };
 export const dynamic = 'force-dynamic';
 
 export default async function InboxPage() {
-  await requireActor();
+  // requireActor lets only a person with a verified address through; they see mail to that address
+  const actor = await requireActor();
   if (getEnv().MAIL_CATCHER !== '1') notFound();
-  const mails = await listCaughtMail();
+  const mails = await listCaughtMailFor(actor.user.email);
   return (
     <div className="space-y-4">
-      <Notice tone="info">Mail from this installation goes to a local catcher and never leaves the machine. Point SMTP_HOST/SMTP_PORT at a real server and set MAIL_CATCHER=0 to deliver it.</Notice>
-      <Panel title={`Caught mail (${mails.length})`}>
+      <Notice tone="info">
+        Mail from this installation goes to a local catcher and never leaves the machine. This page shows only mail sent to your own address, {actor.user.email}; the console that runs the catcher prints every message&apos;s links. Set SMTP_HOST (see the README&apos;s SECURITY section) and leave MAIL_CATCHER unset to deliver mail.
+      </Notice>
+      <Panel title={`Your caught mail (${mails.length})`}>
         {mails.length === 0 ? (
           <EmptyState title="Nothing caught yet" />
         ) : (

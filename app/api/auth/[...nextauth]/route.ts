@@ -1,10 +1,15 @@
 import NextAuth from 'next-auth';
 import { NextResponse } from 'next/server';
+import { addressKey, clear, giveBack, signInDelayMs, spend, spent } from '@/lib/auth/limits';
 import { getAuthOptions } from '@/lib/auth/options';
 import { getEnv } from '@/lib/env';
-import { clientIp, consume, RateLimited, resetLimit } from '@/lib/security/rate-limit';
+import { clientAddress } from '@/lib/security/client-ip';
+import { consume, RateLimited } from '@/lib/security/rate-limit';
 
 type Ctx = { params: Promise<{ nextauth: string[] }> };
+
+// A credentials sign-in is a few short fields; anything longer is not one.
+const SIGN_IN_BODY_MAX = 16 * 1024;
 
 function run(req: Request, ctx: Ctx) {
   return NextAuth(req as never, ctx as never, getAuthOptions()) as Promise<Response>;
@@ -14,28 +19,115 @@ async function GET(req: Request, ctx: Ctx) {
   return run(req, ctx);
 }
 
-// Credential sign-ins are limited per address and per client address before next-auth sees
-// them; a success clears the address's counter.
-async function POST(req: Request, ctx: Ctx) {
-  const { nextauth } = await ctx.params;
-  if (nextauth.join('/') !== 'callback/credentials') return run(req, ctx);
-  const form = await req.clone().formData().catch(() => null);
-  const email = String(form?.get('email') ?? '').trim().toLowerCase();
-  try {
-    await consume([
-      ['signInIp', clientIp(req)],
-      ['signInAddress', email || '-'],
-    ]);
-  } catch (err) {
-    if (!(err instanceof RateLimited)) throw err;
-    const url = `${getEnv().NEXTAUTH_URL}/sign-in?error=TooManyAttempts`;
-    return NextResponse.json({ url, error: 'Too many sign-in attempts. Wait and try again.' }, { status: 429, headers: { 'Retry-After': String(err.retryAfterS) } });
+class BadBody extends Error {
+  constructor(readonly status: number, message: string) {
+    super(message);
   }
-  const res = await run(req, ctx);
+}
+
+/** The body as text, counted as it streams, refused past `max` bytes. */
+async function bodyText(req: Request, max: number): Promise<string> {
+  if (!req.body) return '';
+  const reader = req.body.getReader();
+  const parts: Uint8Array[] = [];
+  let size = 0;
+  for (;;) {
+    const { done, value } = await reader.read();
+    if (done) break;
+    size += value.byteLength;
+    if (size > max) {
+      await reader.cancel().catch(() => undefined);
+      throw new BadBody(413, 'A sign-in is a few short fields; this body is too large');
+    }
+    parts.push(value);
+  }
+  return Buffer.concat(parts).toString('utf8');
+}
+
+/**
+ * The fields of a sign-in as next-auth reads them (JSON, or a URL-encoded form where the last of
+ * repeated fields wins), flattened to one string each. The request next-auth then sees is rebuilt
+ * from exactly these fields, with the address in the form the limits count it under, so the
+ * address limited is the address authenticated, whatever the client sent.
+ */
+async function signInFields(req: Request): Promise<Record<string, string>> {
+  const type = req.headers.get('content-type') ?? '';
+  const text = await bodyText(req, SIGN_IN_BODY_MAX);
+  let raw: Record<string, unknown>;
+  if (type.includes('application/json')) {
+    try {
+      const parsed: unknown = JSON.parse(text);
+      raw = parsed && typeof parsed === 'object' && !Array.isArray(parsed) ? (parsed as Record<string, unknown>) : {};
+    } catch {
+      throw new BadBody(422, 'The request body is not valid JSON');
+    }
+  } else if (type.includes('application/x-www-form-urlencoded')) {
+    raw = Object.fromEntries(new URLSearchParams(text));
+  } else {
+    throw new BadBody(415, 'Send the sign-in as a form (application/x-www-form-urlencoded) or as JSON');
+  }
+  const fields: Record<string, string> = {};
+  for (const [k, v] of Object.entries(raw)) if (typeof v === 'string' || typeof v === 'number' || typeof v === 'boolean') fields[k] = String(v);
+  fields.email = addressKey(fields.email);
+  return fields;
+}
+
+function rebuilt(req: Request, fields: Record<string, string>): Request {
+  const headers = new Headers(req.headers);
+  headers.set('content-type', 'application/x-www-form-urlencoded');
+  headers.delete('content-length');
+  headers.delete('transfer-encoding');
+  return new Request(req.url, { method: 'POST', headers, body: new URLSearchParams(fields).toString() });
+}
+
+function tooMany(retryAfterS: number): Response {
+  const url = `${getEnv().NEXTAUTH_URL}/sign-in?error=TooManyAttempts`;
+  return NextResponse.json({ url, error: 'Too many sign-in attempts. Wait and try again.' }, { status: 429, headers: { 'Retry-After': String(retryAfterS) } });
+}
+
+/** Whether next-auth's answer to a credentials sign-in is a success (its target carries no error). */
+async function succeeded(res: Response): Promise<boolean> {
+  if (res.status >= 400) return false;
   const location = res.headers.get('location') ?? '';
   const body = res.headers.get('content-type')?.includes('json') ? ((await res.clone().json().catch(() => ({}))) as { url?: string }) : {};
   const target = body.url ?? location;
-  if (target && !target.includes('error=')) await resetLimit('signInAddress', email);
+  return !!target && !target.includes('error=');
+}
+
+const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+// Credential sign-ins are limited per client and address before next-auth sees them
+// (lib/auth/limits.ts says how); the client is the socket's peer, or what a trusted proxy reports.
+async function POST(req: Request, ctx: Ctx) {
+  const { nextauth } = await ctx.params;
+  if (nextauth.join('/') !== 'callback/credentials') return run(req, ctx);
+  let fields: Record<string, string>;
+  try {
+    fields = await signInFields(req);
+  } catch (err) {
+    if (err instanceof BadBody) return NextResponse.json({ error: { code: 'bad_request', message: err.message } }, { status: err.status });
+    throw err;
+  }
+  const address = fields.email || '-';
+  const client = clientAddress(req);
+  try {
+    await consume([['signInIp', client]]);
+    await spend([
+      ['signInPair', `${address}|${client}`],
+      ['signInClient', client],
+    ]);
+  } catch (err) {
+    if (err instanceof RateLimited) return tooMany(err.retryAfterS);
+    throw err;
+  }
+  const wait = signInDelayMs(await spent('signInAddress', address));
+  if (wait > 0) await sleep(wait);
+  const res = await run(rebuilt(req, fields), ctx);
+  if (await succeeded(res)) {
+    await Promise.all([clear('signInPair', `${address}|${client}`), giveBack('signInClient', client), clear('signInAddress', address)]);
+  } else {
+    await spend([['signInAddress', address]]).catch(() => undefined);
+  }
   return res;
 }
 
