@@ -13,6 +13,18 @@ export class AppError extends Error {
   }
 }
 
+/** Too much at once: 429, with the seconds after which a retry is likely to succeed. */
+export class TooBusy extends AppError {
+  constructor(
+    message: string,
+    readonly retryAfterS: number,
+    code = 'too_busy',
+  ) {
+    super(429, message, code);
+    this.name = 'TooBusy';
+  }
+}
+
 export const notFound = (what = 'Not found') => new AppError(404, what, 'not_found');
 export const forbidden = (what = 'Your role in this lab does not allow this') => new AppError(403, what, 'forbidden');
 export const unauthorized = () => new AppError(401, 'Sign in first', 'unauthorized');
@@ -28,10 +40,13 @@ export function zodFieldErrors(err: ZodError): Record<string, string[]> {
   return out;
 }
 
-/** Turns any thrown value into a status and a body that leaks nothing internal. */
-export function toErrorResponse(err: unknown): { status: number; body: ErrorBody } {
+/** Turns any thrown value into a status and a body that leaks nothing internal (and the headers a 429 needs). */
+export function toErrorResponse(err: unknown): { status: number; body: ErrorBody; headers?: Record<string, string> } {
   if (err instanceof ZodError) {
     return { status: 422, body: { error: { code: 'invalid', message: 'Some fields are not valid', fieldErrors: zodFieldErrors(err) } } };
+  }
+  if (err instanceof TooBusy) {
+    return { status: 429, body: { error: { code: err.code, message: err.message } }, headers: { 'Retry-After': String(Math.max(1, Math.ceil(err.retryAfterS))) } };
   }
   if (err instanceof AppError) {
     return { status: err.status, body: { error: { code: err.code, message: err.message, fieldErrors: err.fieldErrors } } };

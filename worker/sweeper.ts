@@ -1,6 +1,7 @@
 import type { Queue } from 'bullmq';
 import { getDb } from '../db/index';
 import { listUnfinishedAnalyses } from '../db/queries/analyses';
+import { waitingRank } from '../db/queries/analysis-requests';
 import { addAnalysisJob } from '../lib/queue/jobs';
 import { analysisJobId } from '../lib/queue/names';
 
@@ -25,7 +26,8 @@ export async function sweepAnalyses(queue: Queue, graceSeconds: number): Promise
     if (a.status === 'running') {
       await getDb()('analyses').where({ lab_id: a.labId, id: a.id, status: 'running' }).update({ status: 'queued', stage: 'queued', updated_at: getDb().fn.now() });
     }
-    await addAnalysisJob(queue, { analysisId: a.id, labId: a.labId });
+    // back at its lab's turn (lib/queue/jobs.ts fairPriority), not ahead of every lab
+    await addAnalysisJob(queue, { analysisId: a.id, labId: a.labId }, await waitingRank(a.labId, a.id));
     restored++;
   }
   return restored;

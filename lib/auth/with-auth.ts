@@ -73,8 +73,8 @@ export function errorResponse(err: unknown): Response {
   if (err instanceof RateLimited) {
     return NextResponse.json({ error: { code: 'rate_limited', message: 'Too many requests: wait and try again' } }, { status: 429, headers: { 'Retry-After': String(err.retryAfterS) } });
   }
-  const { status, body } = toErrorResponse(err);
-  return NextResponse.json(body, { status });
+  const { status, body, headers } = toErrorResponse(err);
+  return NextResponse.json(body, { status, headers });
 }
 
 /** Reads a JSON body, counted as it streams (413 past lib/security/body-limit.ts's limit); malformed JSON is 422. */

@@ -9,10 +9,27 @@ export const ANALYSIS_JOB_OPTIONS: JobsOptions = {
   removeOnFail: { count: 5000, age: 30 * 24 * 3600 },
 };
 
-/** Adds the job for an analysis; the fixed job id makes a second add of the same analysis a no-op. */
-export async function addAnalysisJob(queue: Queue, data: AnalysisJob): Promise<void> {
+/** BullMQ's largest priority (lower runs sooner). */
+export const MAX_PRIORITY = 2_097_152;
+
+/**
+ * The queue priority of a lab's `rank`-th waiting analysis: its rank itself. Every lab's next
+ * analysis has priority 1, its second 2, and so on, and BullMQ runs lower numbers first (first in,
+ * first out among equals), so labs take turns: a lab that queued twenty does not hold back another
+ * lab's one. Ranks are bounded by the per-lab limit (db/queries/analysis-requests.ts).
+ */
+export function fairPriority(rank: number): number {
+  return Math.min(MAX_PRIORITY, Math.max(1, Math.floor(rank)));
+}
+
+/**
+ * Adds the job for an analysis; the fixed job id makes a second add of the same analysis a no-op.
+ * Every job carries a priority (1 when not given): BullMQ runs jobs without one before all
+ * prioritised ones, which would let them jump every lab's turn.
+ */
+export async function addAnalysisJob(queue: Queue, data: AnalysisJob, priority = 1): Promise<void> {
   const job = analysisJobSchema.parse(data);
-  await queue.add('analyse', job, { ...ANALYSIS_JOB_OPTIONS, jobId: analysisJobId(job.analysisId) });
+  await queue.add('analyse', job, { ...ANALYSIS_JOB_OPTIONS, jobId: analysisJobId(job.analysisId), priority: fairPriority(priority) });
 }
 
 /** Stages the worker reports, in order, with the share of the work done when each begins. */

@@ -1,7 +1,12 @@
 import { NextResponse } from 'next/server';
 import { kindFromSegment, parsePatternSize } from '@/components/patterns/params';
-import { patternPng } from '@/lib/image/pattern-png';
+import { errorResponse } from '@/lib/auth/with-auth';
+import { AppError } from '@/lib/errors';
 import { PATTERN_KINDS } from '@/lib/patterns';
+import { clientAddress } from '@/lib/security/client-ip';
+import { RateLimited } from '@/lib/security/rate-limit';
+import { spend } from '@/lib/security/work-limit';
+import { cachedPatternPng } from './render-cache';
 
 // Public on purpose: a pattern holds no lab data, and the device showing it is often not signed in.
 export async function GET(req: Request, ctx: { params: Promise<{ kind: string }> }): Promise<Response> {
@@ -22,18 +27,23 @@ export async function GET(req: Request, ctx: { params: Promise<{ kind: string }>
     );
   }
   try {
-    const png = await patternPng(kind, size.width, size.height);
+    // each client has a budget of requests and of megapixels drawn (cached sizes cost no drawing)
+    const client = clientAddress(req);
+    await spend('patternRequests', client);
+    const { png, cache } = await cachedPatternPng(kind, size.width, size.height, client);
     return new Response(new Uint8Array(png), {
       status: 200,
       headers: {
         'Content-Type': 'image/png',
         'Content-Length': String(png.length),
+        'X-Veilmeter-Cache': cache,
         // The same URL always yields the same pixels; a day keeps room for a fix to reach devices.
         'Cache-Control': 'public, max-age=86400, stale-while-revalidate=604800, immutable',
         'Content-Disposition': `inline; filename="${kind}-${size.width}x${size.height}.png"`,
       },
     });
   } catch (err) {
+    if (err instanceof AppError || err instanceof RateLimited) return errorResponse(err);
     console.error('[veilmeter] pattern render failed', err);
     return NextResponse.json({ error: { code: 'internal', message: 'The pattern could not be drawn. Try again.' } }, { status: 500 });
   }
