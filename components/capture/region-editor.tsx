@@ -6,24 +6,34 @@ import { useRef, useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { useApplyTemplate, useDetectScreen, useSaveRegions, useSaveTemplate, useTemplates, type EditableRegion } from '@/lib/hooks/use-regions';
 import { REGION_KINDS, type RegionKind } from '@/lib/schemas/region';
+import { dragRegion, ghostRect, handleSize, hitTest, nudgeRegion, putRegion, screenToPhoto, strokeWidth, type Drag, type Rect } from './region-editor-model';
 
 const COLOURS: Record<RegionKind, string> = { screen: 'rgb(var(--beam))', background: 'rgb(var(--pass))', ghost: 'rgb(var(--glow))' };
 const KIND_TEXT: Record<RegionKind, string> = { screen: 'Screen', background: 'Background', ghost: 'Ghost' };
 const ZOOMS = [1, 2, 4, 8];
 
-type Drag = { mode: 'draw' | 'move' | 'resize'; kind: RegionKind; startX: number; startY: number; orig: EditableRegion | null; corner?: 'nw' | 'ne' | 'sw' | 'se' };
+/** The ghost the newest reading detected: its offset from the screen that reading measured. */
+export type DetectedGhost = { screen: Rect; dx: number; dy: number; ratio: number; snr: number | null };
 
-function clampRect(r: EditableRegion, W: number, H: number): EditableRegion {
-  const w = Math.max(1, Math.min(W, Math.round(r.w)));
-  const h = Math.max(1, Math.min(H, Math.round(r.h)));
-  return { ...r, x: Math.max(0, Math.min(W - w, Math.round(r.x))), y: Math.max(0, Math.min(H - h, Math.round(r.y))), w, h };
-}
+const fmt1 = (v: number) => (Number.isInteger(v) ? String(v) : v.toFixed(1));
 
 /**
  * The on photo's preview with the screen, background and ghost rectangles. Everything is kept in
  * full-resolution pixels: the SVG's viewBox is the photo's real size, whatever the preview's.
  */
-export function RegionEditor({ captureSetId, photo, initial, canWrite }: { captureSetId: string; photo: { id: string; width: number; height: number }; initial: EditableRegion[]; canWrite: boolean }) {
+export function RegionEditor({
+  captureSetId,
+  photo,
+  initial,
+  canWrite,
+  detectedGhost = null,
+}: {
+  captureSetId: string;
+  photo: { id: string; width: number; height: number };
+  initial: EditableRegion[];
+  canWrite: boolean;
+  detectedGhost?: DetectedGhost | null;
+}) {
   const router = useRouter();
   const W = photo.width;
   const H = photo.height;
@@ -41,56 +51,32 @@ export function RegionEditor({ captureSetId, photo, initial, canWrite }: { captu
   const saveTemplate = useSaveTemplate(captureSetId);
   const applyTemplate = useApplyTemplate(captureSetId);
 
+  const handle = handleSize(W);
+  const stroke = strokeWidth(W);
   const get = (kind: RegionKind) => regions.find((r) => r.kind === kind) ?? null;
   const put = (r: EditableRegion) => {
-    setRegions((all) => [...all.filter((x) => x.kind !== r.kind), clampRect(r, W, H)]);
+    setRegions((all) => putRegion(all, r, W, H));
     setDirty(true);
     setNote(null);
   };
 
-  const toPhoto = (e: React.PointerEvent) => {
-    const box = (svgRef.current as SVGSVGElement).getBoundingClientRect();
-    return { x: ((e.clientX - box.left) / box.width) * W, y: ((e.clientY - box.top) / box.height) * H };
-  };
+  const toPhoto = (e: React.PointerEvent) => screenToPhoto(e.clientX, e.clientY, (svgRef.current as SVGSVGElement).getBoundingClientRect(), W, H);
 
-  const onDown = (e: React.PointerEvent, mode: Drag['mode'], kind: RegionKind, corner?: Drag['corner']) => {
+  const onSvgDown = (e: React.PointerEvent<SVGSVGElement>) => {
     if (!canWrite) return;
     e.stopPropagation();
     (e.target as Element).setPointerCapture?.(e.pointerId);
     const p = toPhoto(e);
-    setActive(kind);
-    drag.current = { mode, kind, startX: p.x, startY: p.y, orig: get(kind), corner };
-  };
-
-  // one handler for the whole drawing: the target's data attributes say what was grabbed
-  const onSvgDown = (e: React.PointerEvent<SVGSVGElement>) => {
-    const t = (e.target as SVGElement).dataset;
-    const kind = (REGION_KINDS as readonly string[]).includes(t.kind ?? '') ? (t.kind as RegionKind) : active;
-    const mode: Drag['mode'] = t.mode === 'move' || t.mode === 'resize' ? t.mode : 'draw';
-    onDown(e, mode, kind, t.corner as Drag['corner']);
+    const hit = hitTest(regions, p, active, handle);
+    setActive(hit.kind);
+    drag.current = { ...hit, start: p, orig: get(hit.kind) };
   };
 
   const onMove = (e: React.PointerEvent) => {
     const d = drag.current;
     if (!d) return;
-    const p = toPhoto(e);
-    const dx = p.x - d.startX;
-    const dy = p.y - d.startY;
-    if (d.mode === 'draw') {
-      put({ kind: d.kind, x: Math.min(d.startX, p.x), y: Math.min(d.startY, p.y), w: Math.abs(dx), h: Math.abs(dy), source: 'marked' });
-    } else if (d.orig) {
-      const o = d.orig;
-      if (d.mode === 'move') put({ ...o, x: o.x + dx, y: o.y + dy, source: 'marked' });
-      else {
-        const left = d.corner === 'nw' || d.corner === 'sw';
-        const top = d.corner === 'nw' || d.corner === 'ne';
-        const x0 = left ? Math.min(o.x + dx, o.x + o.w - 1) : o.x;
-        const y0 = top ? Math.min(o.y + dy, o.y + o.h - 1) : o.y;
-        const x1 = left ? o.x + o.w : Math.max(o.x + 1, o.x + o.w + dx);
-        const y1 = top ? o.y + o.h : Math.max(o.y + 1, o.y + o.h + dy);
-        put({ ...o, x: x0, y: y0, w: x1 - x0, h: y1 - y0, source: 'marked' });
-      }
-    }
+    const next = dragRegion(d, toPhoto(e));
+    if (next) put(next);
   };
 
   const onUp = () => {
@@ -101,12 +87,10 @@ export function RegionEditor({ captureSetId, photo, initial, canWrite }: { captu
   const onKey = (e: React.KeyboardEvent) => {
     const r = get(active);
     if (!r || !canWrite) return;
-    const step = e.shiftKey ? 10 : 1;
-    const d: Record<string, [number, number]> = { ArrowLeft: [-step, 0], ArrowRight: [step, 0], ArrowUp: [0, -step], ArrowDown: [0, step] };
-    const v = d[e.key];
-    if (!v) return;
+    const next = nudgeRegion(r, e.key, { shift: e.shiftKey, alt: e.altKey });
+    if (!next) return;
     e.preventDefault();
-    put(e.altKey ? { ...r, w: r.w + v[0], h: r.h + v[1], source: 'marked' } : { ...r, x: r.x + v[0], y: r.y + v[1], source: 'marked' });
+    put(next);
   };
 
   const doSave = async () => {
@@ -132,9 +116,9 @@ export function RegionEditor({ captureSetId, photo, initial, canWrite }: { captu
     }
   };
 
-  const handle = 12 * Math.max(1, W / 1600);
-  const stroke = 2 * Math.max(1, W / 1600);
   const sel = get(active);
+  // a ghost the reading detected (a marked one is drawn as a region already)
+  const ghostOnPhoto = detectedGhost ? ghostRect(detectedGhost.screen, detectedGhost, W, H) : null;
 
   return (
     <div className="space-y-3">
@@ -198,6 +182,14 @@ export function RegionEditor({ captureSetId, photo, initial, canWrite }: { captu
             onPointerCancel={onUp}
             data-testid="region-svg"
           >
+            {ghostOnPhoto && detectedGhost ? (
+              <g data-testid="detected-ghost" pointerEvents="none">
+                <rect x={ghostOnPhoto.x} y={ghostOnPhoto.y} width={ghostOnPhoto.w} height={ghostOnPhoto.h} fill="none" stroke={COLOURS.ghost} strokeWidth={stroke} strokeDasharray={`${stroke * 2} ${stroke * 3}`} />
+                <text x={ghostOnPhoto.x + stroke * 3} y={ghostOnPhoto.y + ghostOnPhoto.h - stroke * 3} fill={COLOURS.ghost} fontSize={stroke * 9}>
+                  detected ghost
+                </text>
+              </g>
+            ) : null}
             {regions.map((r) => (
               <g key={r.kind} data-testid={`region-${r.kind}`}>
                 <rect
@@ -257,6 +249,16 @@ export function RegionEditor({ captureSetId, photo, initial, canWrite }: { captu
           );
         })}
       </div>
+      {detectedGhost ? (
+        <p className="text-xs text-muted" data-testid="detected-ghost-note">
+          <span className="font-semibold" style={{ color: COLOURS.ghost }}>
+            Detected ghost
+          </span>{' '}
+          (dashed): the screen of the newest reading moved by ({fmt1(detectedGhost.dx)}, {fmt1(detectedGhost.dy)}) px, {(100 * detectedGhost.ratio).toFixed(2)}% of the display light
+          {detectedGhost.snr !== null ? `, ${detectedGhost.snr.toFixed(1)} standard errors above the noise` : ''}.
+          {ghostOnPhoto ? '' : ' It lies outside the photo.'} Mark a ghost region only to measure a different one.
+        </p>
+      ) : null}
       {note ? (
         <p role={note.tone === 'ok' ? 'status' : 'alert'} className={clsx('text-sm', note.tone === 'ok' ? 'text-pass' : 'text-fail')}>
           {note.text}

@@ -29,6 +29,12 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
   const reading = selected ?? (await getLatestReading(actor.labId, set.id));
   const on = photos.find((p) => p.role === 'on');
   const hasOff = photos.some((p) => p.role === 'off');
+  // the ghost the shown reading detected, drawn on the on photo when that reading was made from a photo of its size
+  const g = reading?.result.ghost;
+  const detectedGhost =
+    reading && g && g.source === 'detected' && on && reading.result.image.width === on.width && reading.result.image.height === on.height
+      ? { screen: { x: reading.result.screen.x, y: reading.result.screen.y, w: reading.result.screen.w, h: reading.result.screen.h }, dx: g.dx, dy: g.dy, ratio: g.ratio, snr: g.snr ?? null }
+      : null;
   const canWrite = can(actor.role, 'capture.write');
   const canDelete = can(actor.role, 'capture.delete');
   const c = set.conditions;
@@ -85,7 +91,7 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
         </div>
         <Panel title="Regions">
           {on ? (
-            <RegionEditor key={on.id} captureSetId={set.id} photo={{ id: on.id, width: on.width, height: on.height }} initial={regions} canWrite={canWrite} />
+            <RegionEditor key={on.id} captureSetId={set.id} photo={{ id: on.id, width: on.width, height: on.height }} initial={regions} canWrite={canWrite} detectedGhost={detectedGhost} />
           ) : (
             <EmptyState title="No on photo yet">The regions are drawn on the display-on photo, in its full-resolution pixels.</EmptyState>
           )}
