@@ -21,5 +21,6 @@ export async function proxy(req: NextRequest) {
 }
 
 export const config = {
-  matcher: ['/((?!api/|_next/static|_next/image|favicon.ico|.*\\.(?:png|svg|ico|woff2)$).*)'],
+  // static files of public/ (icons, robots.txt, the web manifest) are for visitors without a session too
+  matcher: ['/((?!api/|_next/static|_next/image|favicon.ico|.*\\.(?:png|svg|ico|woff2|txt|webmanifest)$).*)'],
 };

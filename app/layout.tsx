@@ -6,6 +6,15 @@ import './globals.css';
 export const metadata: Metadata = {
   title: { default: 'Veilmeter', template: '%s · Veilmeter' },
   description: 'Contrast, ghost and see-through measurements for see-through displays',
+  // public/: icon.svg and the PNGs scripts/make-icons.mjs renders from it
+  manifest: '/manifest.webmanifest',
+  icons: {
+    icon: [
+      { url: '/icon.svg', type: 'image/svg+xml' },
+      { url: '/icon-32.png', type: 'image/png', sizes: '32x32' },
+    ],
+    apple: { url: '/apple-touch-icon.png', sizes: '180x180' },
+  },
 };
 
 export default async function RootLayout({ children }: { children: React.ReactNode }) {
