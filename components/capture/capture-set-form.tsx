@@ -1,6 +1,6 @@
 'use client';
 
-import { useActionState } from 'react';
+import { useActionState, useId } from 'react';
 import { deleteCaptureSetAction, updateCaptureSetAction } from '@/app/(lab)/captures/[captureId]/actions';
 import { createCaptureSetAction } from '@/app/(lab)/projects/[projectId]/revisions/actions';
 import { FormStatus, keepValues, SelectField, TextArea } from '@/components/revisions/revision-forms';
@@ -11,11 +11,18 @@ import type { FormState } from '@/lib/auth/action';
 type Values = { label?: string; variant?: string; pattern?: string; tiffEncoding?: string; ambientLux?: number; backgroundCdm2?: number; displayLevel?: string; notes?: string };
 
 /** The fields of a capture set, shared by the new and the edit form. */
-function CaptureSetFields({ errors: e, values: v }: { errors: Record<string, string[]>; values: Values }) {
+function CaptureSetFields({ errors: e, values: v, variants = [] }: { errors: Record<string, string[]>; values: Values; variants?: string[] }) {
+  // the revision's existing variants are offered, so a typo does not split a group in two
+  const listId = useId();
   return (
     <div className="grid gap-3 sm:grid-cols-3">
       <Field label="Label" name="label" placeholder="e.g. Window light, 0°" defaultValue={v.label} errors={e.label} maxLength={120} />
-      <Field label="Variant (for A/B)" name="variant" placeholder="e.g. with polarizer" defaultValue={v.variant} errors={e.variant} maxLength={80} />
+      <Field label="Variant (for A/B)" name="variant" placeholder="e.g. with polarizer" defaultValue={v.variant} errors={e.variant} maxLength={80} list={listId} autoComplete="off" hint={variants.length ? `In this revision: ${variants.join(', ')}` : undefined} />
+      <datalist id={listId} data-testid="variant-options">
+        {variants.map((x) => (
+          <option key={x} value={x} />
+        ))}
+      </datalist>
       <SelectField
         label="Pattern on the display"
         name="pattern"
@@ -68,12 +75,12 @@ function TiffEncodingField({ value, errors }: { value?: string; errors?: string[
   );
 }
 
-export function CreateCaptureSetForm({ revisionId }: { revisionId: string }) {
+export function CreateCaptureSetForm({ revisionId, variants }: { revisionId: string; variants?: string[] }) {
   const [state, action, pending] = useActionState<FormState, FormData>(createCaptureSetAction, {});
   return (
     <form onSubmit={keepValues(action)} className="space-y-3" noValidate aria-label="New capture set">
       <input type="hidden" name="revisionId" value={revisionId} />
-      <CaptureSetFields errors={state.fieldErrors ?? {}} values={{}} />
+      <CaptureSetFields errors={state.fieldErrors ?? {}} values={{}} variants={variants} />
       <div className="flex items-center gap-3">
         <Button type="submit" disabled={pending}>
           {pending ? 'Creating…' : 'Create capture set'}
@@ -84,12 +91,12 @@ export function CreateCaptureSetForm({ revisionId }: { revisionId: string }) {
   );
 }
 
-export function EditCaptureSetForm({ id, values }: { id: string; values: Values }) {
+export function EditCaptureSetForm({ id, values, variants }: { id: string; values: Values; variants?: string[] }) {
   const [state, action, pending] = useActionState<FormState, FormData>(updateCaptureSetAction, {});
   return (
     <form onSubmit={keepValues(action)} className="space-y-3" noValidate aria-label="Edit capture set">
       <input type="hidden" name="id" value={id} />
-      <CaptureSetFields errors={state.fieldErrors ?? {}} values={values} />
+      <CaptureSetFields errors={state.fieldErrors ?? {}} values={values} variants={variants} />
       <p className="text-xs text-muted">A changed pattern or region applies from the next analysis; earlier readings keep what they were measured with.</p>
       <div className="flex items-center gap-3">
         <Button type="submit" tone="quiet" disabled={pending}>

@@ -1,7 +1,9 @@
 import clsx from 'clsx';
 import { DEFAULT_TARGETS, DEFAULTS_CAVEAT } from '@/lib/targets/defaults';
-import { comparatorWords, STATUS_WORDS, type TargetCheck, type TargetStatus } from '@/lib/targets/evaluate';
-import { formatMetric, METRICS } from '@/lib/targets/metrics';
+import { formatLimit, formatMetricValue } from '@/lib/format';
+import { describeCondition } from '@/lib/targets/conditions';
+import { comparatorWords, revisionVerdictText, STATUS_WORDS, type Target, type TargetCheck, type TargetStatus } from '@/lib/targets/evaluate';
+import { METRICS } from '@/lib/targets/metrics';
 import { DataTable, type Column, type Row } from '@/components/ui/data-table';
 import { AdoptDefaultButton, CreateTargetForm, EditTargetForm } from './target-forms';
 
@@ -15,20 +17,37 @@ export function StatusBadge({ status }: { status: TargetStatus }) {
   );
 }
 
-/** The targets judged on one revision: what each asks, the revision's mean, pass or fail; sorts and exports CSV. */
+/** What a target asks, in words: "Ghost ratio at most 1 %". */
+export function targetAsks(t: Pick<Target, 'metric' | 'comparator' | 'value'>): string {
+  return `${METRICS[t.metric].label} ${comparatorWords(t.comparator)} ${formatLimit(t.metric, t.value)}`;
+}
+
+/** The structured condition and the note, for a table cell. */
+export function conditionText(t: Pick<Target, 'condition' | 'conditionNote'>): string {
+  return [describeCondition(t.condition ?? {}), t.conditionNote ? `note: ${t.conditionNote}` : ''].filter(Boolean).join(' · ');
+}
+
+/**
+ * The targets judged on one revision, variant by variant: what each asks, its condition, the
+ * variant's mean over the capture sets that meet the condition, pass or fail; sorts and exports CSV.
+ */
 export function TargetChecks({ checks, scope }: { checks: TargetCheck[]; scope: string }) {
   const columns: Column[] = [
+    { key: 'variant', label: 'Variant' },
     { key: 'target', label: 'Target' },
     { key: 'condition', label: 'Condition' },
     { key: 'mean', label: `${scope} mean`, numeric: true },
     { key: 'n', label: 'n', numeric: true },
     { key: 'status', label: 'Status' },
   ];
-  const rows: Row[] = checks.map((c) => {
-    const asks = `${METRICS[c.target.metric].label} ${comparatorWords(c.target.comparator)} ${formatMetric(c.target.metric, c.target.value)}`;
+  const rows: Row[] = checks.map((c, i) => {
+    const asks = targetAsks(c.target);
+    const variant = c.variant === undefined ? 'all' : c.variant || 'no variant label';
+    const left = c.excluded ? `${c.excluded} left out: ${(c.excludedWhy ?? []).join(', ')}` : '';
     return {
-      id: c.target.id,
+      id: `${c.target.id}:${c.variant ?? '*'}`,
       cells: {
+        variant: { text: variant, sort: i },
         target: {
           text: c.target.isDefault ? `${asks} (default)` : asks,
           node: (
@@ -38,9 +57,9 @@ export function TargetChecks({ checks, scope }: { checks: TargetCheck[]; scope: 
             </>
           ),
         },
-        condition: { text: c.target.conditionNote, node: <span className="text-muted">{c.target.conditionNote || '—'}</span> },
-        mean: { text: formatMetric(c.target.metric, c.mean), sort: c.mean },
-        n: { text: String(c.n), sort: c.n },
+        condition: { text: conditionText(c.target), node: <span className="text-muted">{conditionText(c.target) || 'any'}</span> },
+        mean: { text: formatMetricValue(c.target.metric, c.mean), sort: c.mean },
+        n: { text: left ? `${c.n} (${left})` : String(c.n), sort: c.n, node: left ? <span title={left}>{c.n} <span className="text-xs text-muted">(+{c.excluded} left out)</span></span> : undefined },
         status: { text: STATUS_WORDS[c.status], node: <StatusBadge status={c.status} /> },
       },
     };
@@ -49,14 +68,20 @@ export function TargetChecks({ checks, scope }: { checks: TargetCheck[]; scope: 
 }
 
 /** Targets of a project: status on its latest measured revision, and editing for leads. */
-export function TargetsPanel({ projectId, checks, scope, canEdit }: { projectId: string; checks: TargetCheck[]; scope: string | null; canEdit: boolean }) {
-  const present = new Set(checks.map((c) => `${c.target.metric}${c.target.comparator}${c.target.value}`));
+export function TargetsPanel({ projectId, checks, targets, scope, canEdit, variants = [] }: { projectId: string; checks: TargetCheck[]; targets?: Target[]; scope: string | null; canEdit: boolean; variants?: string[] }) {
+  const list = targets ?? [...new Map(checks.map((c) => [c.target.id, c.target])).values()];
+  const present = new Set(list.map((t) => `${t.metric}${t.comparator}${t.value}`));
   const offers = DEFAULT_TARGETS.filter((d) => !present.has(`${d.metric}${d.comparator}${d.value}`));
   return (
     <div className="space-y-5" data-testid="targets-panel">
-      {checks.length ? (
+      {list.length ? (
         <>
-          {scope ? <p className="text-xs text-muted">Judged on {scope}, the latest revision with readings: the mean of each capture set’s newest reading.</p> : null}
+          {scope ? (
+            <p className="text-xs text-muted" data-testid="targets-verdict">
+              {scope} {revisionVerdictText(checks)}. Judged on {scope}, the latest revision with readings, variant by variant: the mean of the newest reading of each capture set whose
+              stated conditions meet the target’s.
+            </p>
+          ) : null}
           <TargetChecks checks={checks} scope={scope ?? 'Latest'} />
         </>
       ) : (
@@ -64,13 +89,13 @@ export function TargetsPanel({ projectId, checks, scope, canEdit }: { projectId:
       )}
       {canEdit ? (
         <>
-          {checks.length ? (
+          {list.length ? (
             <details className="rounded-md border border-line px-3 py-2">
               <summary className="cursor-pointer text-sm text-ink">Edit targets</summary>
               <div className="mt-3 space-y-4 divide-y divide-line">
-                {checks.map((c) => (
-                  <div key={c.target.id} className="pt-3 first:pt-0">
-                    <EditTargetForm projectId={projectId} target={c.target} />
+                {list.map((t) => (
+                  <div key={t.id} className="pt-3 first:pt-0">
+                    <EditTargetForm projectId={projectId} target={t} variants={variants} />
                   </div>
                 ))}
               </div>
@@ -78,7 +103,7 @@ export function TargetsPanel({ projectId, checks, scope, canEdit }: { projectId:
           ) : null}
           <div>
             <h3 className="mb-2 text-sm font-semibold text-ink">New target</h3>
-            <CreateTargetForm projectId={projectId} />
+            <CreateTargetForm projectId={projectId} variants={variants} />
           </div>
           {offers.length ? (
             <div>
@@ -86,7 +111,7 @@ export function TargetsPanel({ projectId, checks, scope, canEdit }: { projectId:
               <p className="mb-2 text-xs text-muted">{DEFAULTS_CAVEAT}</p>
               <ul className="space-y-2">
                 {offers.map((d) => {
-                  const label = `${METRICS[d.metric].label} ${comparatorWords(d.comparator)} ${formatMetric(d.metric, d.value)}`;
+                  const label = targetAsks(d);
                   return (
                     <li key={d.id} className="flex flex-wrap items-center justify-between gap-3 rounded-md border border-dashed border-line px-3 py-2" data-testid={`default-${d.id}`}>
                       <div className="text-sm">

@@ -1,12 +1,15 @@
 import type { Knex } from 'knex';
 import { getDb } from '../index';
 import { recordAudit } from './audit';
+import { toCondition, type TargetCondition } from '../../lib/targets/conditions';
 import { checkTargetsOn, type Target, type TargetCheck } from '../../lib/targets/evaluate';
 import { isMetricKey, type MetricKey } from '../../lib/targets/metrics';
 import { newestMeasuredRevisions } from './projects';
 import { listNewestReadings } from './trends';
 
-type Row = { id: string; project_id: string; metric: string; comparator: '>=' | '<='; value: number; condition_note: string; is_default: boolean };
+type Row = { id: string; project_id: string; metric: string; comparator: '>=' | '<='; value: number; condition_note: string; condition?: unknown; variants?: unknown; is_default: boolean };
+
+const toVariants = (v: unknown): string[] => (Array.isArray(v) ? v.filter((x): x is string => typeof x === 'string') : []);
 
 const toTarget = (r: Row): Target => ({
   id: r.id,
@@ -15,10 +18,22 @@ const toTarget = (r: Row): Target => ({
   comparator: r.comparator,
   value: r.value,
   conditionNote: r.condition_note,
+  condition: toCondition(r.condition),
+  variants: toVariants(r.variants),
   isDefault: r.is_default,
 });
 
-export type TargetWrite = { metric: MetricKey; comparator: '>=' | '<='; value: number; conditionNote: string; isDefault: boolean };
+export type TargetWrite = { metric: MetricKey; comparator: '>=' | '<='; value: number; conditionNote: string; condition?: TargetCondition; variants?: string[]; isDefault: boolean };
+
+const columns = (input: TargetWrite) => ({
+  metric: input.metric,
+  comparator: input.comparator,
+  value: input.value,
+  condition_note: input.conditionNote,
+  condition: JSON.stringify(toCondition(input.condition ?? {})),
+  variants: JSON.stringify(input.variants ?? []),
+  is_default: input.isDefault,
+});
 
 export async function listTargets(labId: string, projectId: string, db: Knex | Knex.Transaction = getDb()): Promise<Target[]> {
   const rows: Row[] = await db('targets').where({ lab_id: labId, project_id: projectId }).orderBy([{ column: 'metric' }, { column: 'created_at' }]);
@@ -31,7 +46,7 @@ export async function createTarget(labId: string, userId: string, projectId: str
     const project = await trx('projects').where({ lab_id: labId, id: projectId }).first('id');
     if (!project) return null;
     const [row] = await trx('targets')
-      .insert({ lab_id: labId, project_id: projectId, metric: input.metric, comparator: input.comparator, value: input.value, condition_note: input.conditionNote, is_default: input.isDefault })
+      .insert({ lab_id: labId, project_id: projectId, ...columns(input) })
       .returning<Row[]>('*');
     if (!row) throw new Error('insert returned nothing');
     await recordAudit({ labId, userId, action: 'target.create', targetType: 'target', targetId: row.id, details: { projectId, ...input } }, trx);
@@ -44,7 +59,7 @@ export async function updateTarget(labId: string, userId: string, projectId: str
   return getDb().transaction(async (trx) => {
     const [row] = await trx('targets')
       .where({ lab_id: labId, project_id: projectId, id })
-      .update({ metric: input.metric, comparator: input.comparator, value: input.value, condition_note: input.conditionNote, is_default: input.isDefault, updated_at: trx.fn.now() })
+      .update({ ...columns(input), updated_at: trx.fn.now() })
       .returning<Row[]>('*');
     if (!row) return null;
     await trx('target_states').where({ lab_id: labId, target_id: id }).delete();
@@ -62,7 +77,7 @@ export async function deleteTarget(labId: string, userId: string, projectId: str
   });
 }
 
-/** Each target of the project judged on one revision's newest readings. */
+/** Each target of the project judged on each variant of one revision's newest readings. */
 export async function checkRevisionTargets(labId: string, projectId: string, revisionId: string): Promise<TargetCheck[]> {
   const [targets, readings] = await Promise.all([listTargets(labId, projectId), listNewestReadings(labId, { projectId, revisionId })]);
   return checkTargetsOn(targets, readings);
@@ -101,18 +116,29 @@ export async function listProjectTargetStatus(labId: string): Promise<Map<string
   return out;
 }
 
+/** The variant names used in a project's capture sets, for pickers (a typo would split a group). */
+export async function listProjectVariants(labId: string, projectId: string): Promise<string[]> {
+  const rows: { variant: string }[] = await getDb()('capture_sets as c')
+    .join('revisions as r', 'r.id', 'c.revision_id')
+    .where({ 'c.lab_id': labId, 'r.project_id': projectId })
+    .whereNot('c.variant', '')
+    .distinct('c.variant')
+    .orderBy('c.variant');
+  return rows.map((r) => r.variant);
+}
+
 /**
- * Records whether a target fails on a revision and says whether that is news: true only when the
+ * Records whether a target fails on a revision (on one variant of it) and says whether that is news: true only when the
  * state was unknown or the opposite before. One statement, so two workers finishing at once
  * cannot both see the change.
  */
-export async function recordTargetState(labId: string, targetId: string, revisionId: string, failing: boolean): Promise<boolean> {
+export async function recordTargetState(labId: string, targetId: string, revisionId: string, failing: boolean, variant = ''): Promise<boolean> {
   const res = await getDb().raw(
-    `INSERT INTO target_states (lab_id, target_id, revision_id, failing) VALUES (?, ?, ?, ?)
-     ON CONFLICT (target_id, revision_id) DO UPDATE SET failing = EXCLUDED.failing, changed_at = now()
+    `INSERT INTO target_states (lab_id, target_id, revision_id, variant, failing) VALUES (?, ?, ?, ?, ?)
+     ON CONFLICT (target_id, revision_id, variant) DO UPDATE SET failing = EXCLUDED.failing, changed_at = now()
      WHERE target_states.failing IS DISTINCT FROM EXCLUDED.failing
      RETURNING failing`,
-    [labId, targetId, revisionId, failing],
+    [labId, targetId, revisionId, variant, failing],
   );
   return (res.rows as unknown[]).length > 0;
 }

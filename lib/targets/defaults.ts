@@ -1,3 +1,4 @@
+import type { TargetCondition } from './conditions';
 import type { MetricKey } from './metrics';
 
 /** How sure the figure behind a default is (the words REFERENCES.md uses). */
@@ -9,6 +10,8 @@ export type DefaultTarget = {
   comparator: '>=' | '<=';
   value: number;
   conditionNote: string;
+  /** The structured part of the condition, where the default names one. */
+  condition?: TargetCondition;
   /** Where the figure comes from, in plain words, with its status. */
   basis: string;
   status: SourceStatus;
@@ -26,6 +29,7 @@ export const DEFAULT_TARGETS: DefaultTarget[] = [
     comparator: '>=',
     value: 1.2,
     conditionNote: 'against a very bright background, 10,000 fL (about 34,260 cd/m²)',
+    condition: { backgroundCdm2Min: 30_000 },
     basis: 'Figure widely quoted as the minimum for airborne HUDs; the standard itself was not read.',
     status: 'from memory',
   },
@@ -44,6 +48,7 @@ export const DEFAULT_TARGETS: DefaultTarget[] = [
     comparator: '>=',
     value: 0.75,
     conditionNote: 'full-white pattern, 3 × 3 grid, min/max',
+    condition: { pattern: 'full' },
     basis: 'A level panel data sheets commonly state for 9-point uniformity.',
     status: 'published',
   },

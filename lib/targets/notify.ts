@@ -3,8 +3,10 @@ import { checkRevisionTargets, listLeadEmails, recordTargetState } from '../../d
 import { getEnv } from '../env';
 import { targetFailedMail } from '../mail/templates';
 import { sendMail } from '../mail/transport';
-import { comparatorWords, type TargetCheck } from './evaluate';
-import { formatMetric, METRICS } from './metrics';
+import { formatLimit, formatMetricValue } from '../format';
+import { describeCondition } from './conditions';
+import { comparatorWords, variantName, type TargetCheck } from './evaluate';
+import { METRICS } from './metrics';
 
 export type NotifyOutcome = { newlyFailing: TargetCheck[]; mailed: string[] };
 
@@ -24,16 +26,16 @@ export async function notifyTargetFailures(labId: string, revisionId: string): P
   for (const c of checks) {
     if (c.status === 'no-data') continue;
     const failing = c.status === 'fail';
-    const changed = await recordTargetState(labId, c.target.id, revisionId, failing);
+    const changed = await recordTargetState(labId, c.target.id, revisionId, failing, c.variant ?? '');
     if (changed && failing) newlyFailing.push(c);
   }
   if (newlyFailing.length === 0) return { newlyFailing, mailed: [] };
   const leads = await listLeadEmails(labId);
   const link = `${getEnv().NEXTAUTH_URL.replace(/\/$/, '')}/projects/${rev.project_id}/revisions/${revisionId}`;
   const failures = newlyFailing.map((c) => ({
-    target: `${METRICS[c.target.metric].label} ${comparatorWords(c.target.comparator)} ${formatMetric(c.target.metric, c.target.value)}`,
-    condition: c.target.conditionNote,
-    mean: formatMetric(c.target.metric, c.mean),
+    target: `${METRICS[c.target.metric].label} ${comparatorWords(c.target.comparator)} ${formatLimit(c.target.metric, c.target.value)}${c.variant !== undefined ? `, as ${variantName(c.variant)}` : ''}`,
+    condition: [describeCondition(c.target.condition ?? {}), c.target.conditionNote].filter(Boolean).join(' · '),
+    mean: formatMetricValue(c.target.metric, c.mean),
     n: c.n,
   }));
   const mailed: string[] = [];
@@ -44,7 +46,7 @@ export async function notifyTargetFailures(labId: string, revisionId: string): P
     }
   } catch (err) {
     // forget the new state so the next reading tries the mail again instead of never sending it
-    await getDb()('target_states').where({ lab_id: labId, revision_id: revisionId }).whereIn('target_id', newlyFailing.map((c) => c.target.id)).delete();
+    for (const c of newlyFailing) await getDb()('target_states').where({ lab_id: labId, revision_id: revisionId, target_id: c.target.id, variant: c.variant ?? '' }).delete();
     throw err;
   }
   return { newlyFailing, mailed };

@@ -1,5 +1,6 @@
 import { summarise } from '../stats';
 import { formatMetricMeanCi } from '../format/metrics';
+import type { StatedConditions } from './conditions';
 import { METRIC_KEYS, type MetricKey } from './metrics';
 
 /** The newest reading of one capture set, reduced to what trends, comparisons and targets need. */
@@ -11,6 +12,8 @@ export type SetReading = {
   variant: string;
   createdAt: Date;
   values: Record<MetricKey, number | null>;
+  /** What the capture set states about its shot (targets judge only the sets that meet their condition). */
+  conditions?: StatedConditions;
 };
 
 export type RevisionRef = { id: string; label: string; position: number };

@@ -6,8 +6,8 @@ import { listProjectTargetStatus } from '@/db/queries/targets';
 import { can } from '@/lib/auth/permissions';
 import { requireActor } from '@/lib/auth/session';
 import { formatDate } from '@/lib/format';
-import { tally, tallyText } from '@/lib/targets/evaluate';
-import { formatMetric } from '@/lib/targets/metrics';
+import { formatMetricValue } from '@/lib/format';
+import { revisionVerdictText, verdictSortKey } from '@/lib/targets/evaluate';
 
 export const metadata = { title: 'Projects' };
 
@@ -17,9 +17,9 @@ export default async function ProjectsPage() {
   const targetCell = (id: string) => {
     const s = status.get(id);
     if (!s) return { text: 'no targets', sort: null };
-    const t = tally(s.checks);
+    const words = revisionVerdictText(s.checks);
     // failing first when sorted: the projects that need a look
-    return { text: s.revisionLabel ? `${s.revisionLabel} ${tallyText(t)}` : tallyText(t), sort: t.fail > 0 ? 0 : t.pass > 0 ? 1 : 2 };
+    return { text: s.revisionLabel ? `${s.revisionLabel} ${words}` : words, sort: verdictSortKey(s.checks) };
   };
   const rows = projects.map((p) => {
     const l = latest.get(p.id);
@@ -32,8 +32,8 @@ export default async function ProjectsPage() {
         captures: { text: String(p.captureCount), sort: p.captureCount },
         last: { text: p.lastReadingAt ? formatDate(p.lastReadingAt) : '—', sort: p.lastReadingAt?.getTime() ?? null },
         newest: { text: l?.revisionLabel ?? '—', sort: l?.revisionLabel ?? null },
-        acr: { text: formatMetric('ambientContrastRatio', l?.acr), sort: l?.acr ?? null },
-        ghost: { text: formatMetric('ghostRatio', l?.ghost, false), sort: l?.ghost ?? null },
+        acr: { text: formatMetricValue('ambientContrastRatio', l?.acr), sort: l?.acr ?? null },
+        ghost: { text: formatMetricValue('ghostRatio', l?.ghost), sort: l?.ghost ?? null },
         targets: targetCell(p.id),
         updated: { text: formatDate(p.updatedAt), sort: p.updatedAt.getTime() },
       },

@@ -8,14 +8,13 @@ import { DataTable } from '@/components/ui/data-table';
 import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
 import { getProject } from '@/db/queries/projects';
 import { listRevisions } from '@/db/queries/revisions';
-import { listTargets } from '@/db/queries/targets';
+import { listProjectVariants, listTargets } from '@/db/queries/targets';
 import { getProjectTrend } from '@/db/queries/trends';
 import { can } from '@/lib/auth/permissions';
 import { requireActor } from '@/lib/auth/session';
 import { uuidSchema } from '@/lib/schemas/common';
-import { checkTarget } from '@/lib/targets/evaluate';
+import { checkTargetsOn } from '@/lib/targets/evaluate';
 import { isMetricKey } from '@/lib/targets/metrics';
-import { values } from '@/lib/targets/series';
 
 const LINK = 'rounded-md border border-line bg-raised px-3 py-1.5 text-sm text-ink hover:border-beam/60';
 
@@ -26,11 +25,17 @@ export default async function ProjectPage({ params, searchParams }: { params: Pr
   if (!uuidSchema.safeParse(projectId).success) notFound();
   const project = await getProject(actor.labId, projectId);
   if (!project) notFound();
-  const [revisions, trend, targets] = await Promise.all([listRevisions(actor.labId, project.id), getProjectTrend(actor.labId, project.id), listTargets(actor.labId, project.id)]);
+  const [revisions, trend, targets, variants] = await Promise.all([
+    listRevisions(actor.labId, project.id),
+    getProjectTrend(actor.labId, project.id),
+    listTargets(actor.labId, project.id),
+    listProjectVariants(actor.labId, project.id),
+  ]);
   // the project's target status is its latest measured build's
   const latest = trend ? [...trend.revisions].reverse().find((r) => trend.readings.some((g) => g.revisionId === r.id)) : undefined;
   const latestReadings = latest && trend ? trend.readings.filter((g) => g.revisionId === latest.id) : [];
-  const checks = targets.map((t) => checkTarget(t, values(latestReadings, t.metric)));
+  // each target judged per variant, on the capture sets whose stated conditions meet it
+  const checks = checkTargetsOn(targets, latestReadings);
 
   return (
     <>
@@ -83,7 +88,7 @@ export default async function ProjectPage({ params, searchParams }: { params: Pr
           </Panel>
         ) : null}
         <Panel title="Targets">
-          <TargetsPanel projectId={project.id} checks={checks} scope={latest?.label ?? null} canEdit={can(actor.role, 'target.write')} />
+          <TargetsPanel projectId={project.id} checks={checks} targets={targets} scope={latest?.label ?? null} canEdit={can(actor.role, 'target.write')} variants={variants} />
         </Panel>
         {can(actor.role, 'revision.write') ? (
           <Panel title="New revision">

@@ -6,7 +6,7 @@ import { createTarget, deleteTarget, updateTarget } from '@/db/queries/targets';
 import { formAction } from '@/lib/auth/action';
 import { AppError, notFound } from '@/lib/errors';
 import { uuidSchema } from '@/lib/schemas/common';
-import { targetSchema } from '@/lib/schemas/target';
+import { refineTarget, targetSchema, toTargetWrite } from '@/lib/schemas/target';
 import { DEFAULT_TARGETS } from '@/lib/targets/defaults';
 
 function refresh(projectId: string) {
@@ -14,16 +14,16 @@ function refresh(projectId: string) {
   revalidatePath(`/projects/${projectId}`, 'layout');
 }
 
-export const createTargetAction = formAction('target.write', targetSchema.extend({ projectId: uuidSchema }), async (actor, input) => {
-  const { projectId, ...rest } = input;
+export const createTargetAction = formAction('target.write', targetSchema.extend({ projectId: uuidSchema }).superRefine(refineTarget), async (actor, input) => {
+  const { projectId, ...rest } = toTargetWrite(input);
   const t = await createTarget(actor.labId, actor.user.id, projectId, rest);
   if (!t) throw notFound('No such project');
   refresh(projectId);
   return 'Target added';
 });
 
-export const updateTargetAction = formAction('target.write', targetSchema.extend({ projectId: uuidSchema, id: uuidSchema }), async (actor, input) => {
-  const { projectId, id, ...rest } = input;
+export const updateTargetAction = formAction('target.write', targetSchema.extend({ projectId: uuidSchema, id: uuidSchema }).superRefine(refineTarget), async (actor, input) => {
+  const { projectId, id, ...rest } = toTargetWrite(input);
   const t = await updateTarget(actor.labId, actor.user.id, projectId, id, rest);
   if (!t) throw notFound('No such target');
   refresh(projectId);
@@ -40,7 +40,7 @@ export const deleteTargetAction = formAction('target.write', z.object({ projectI
 export const adoptDefaultTargetAction = formAction('target.write', z.object({ projectId: uuidSchema, defaultId: z.string().max(60) }), async (actor, input) => {
   const d = DEFAULT_TARGETS.find((x) => x.id === input.defaultId);
   if (!d) throw new AppError(422, 'That default does not exist', 'invalid');
-  const t = await createTarget(actor.labId, actor.user.id, input.projectId, { metric: d.metric, comparator: d.comparator, value: d.value, conditionNote: d.conditionNote, isDefault: true });
+  const t = await createTarget(actor.labId, actor.user.id, input.projectId, { metric: d.metric, comparator: d.comparator, value: d.value, conditionNote: d.conditionNote, condition: d.condition ?? {}, variants: [], isDefault: true });
   if (!t) throw notFound('No such project');
   refresh(input.projectId);
   return 'Default added as a target; adjust it to what your team agrees';

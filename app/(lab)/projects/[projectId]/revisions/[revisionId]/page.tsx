@@ -12,9 +12,10 @@ import { listNewestReadings } from '@/db/queries/trends';
 import { can } from '@/lib/auth/permissions';
 import { requireActor } from '@/lib/auth/session';
 import { uuidSchema } from '@/lib/schemas/common';
-import { checkTargetsOn, tally, tallyText } from '@/lib/targets/evaluate';
-import { formatMetric, metricLabelWithUnit, METRICS } from '@/lib/targets/metrics';
-import { formatMeanCi, revisionStatistics } from '@/lib/targets/series';
+import { formatIlluminance, formatMetricMeanCi, formatMetricSpread, formatMetricValue, metricHeading, TABLE_METRICS } from '@/lib/format';
+import { checkTargetsOn, revisionVerdictText } from '@/lib/targets/evaluate';
+import { METRICS, type MetricKey } from '@/lib/targets/metrics';
+import { revisionStatistics } from '@/lib/targets/series';
 
 const STATUS_TEXT: Record<string, string> = { queued: 'Queued', running: 'Running', done: 'Measured', failed: 'Failed' };
 
@@ -33,6 +34,16 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
   const checks = checkTargetsOn(targets, readings);
   const statistics = revisionStatistics(readings);
   const variants = [...new Set(sets.filter((s) => s.latestAcr !== null || s.latestStatus === 'done').map((s) => s.variant))];
+  const knownVariants = [...new Set(sets.map((s) => s.variant).filter(Boolean))].sort((a, b) => a.localeCompare(b));
+  const latestOf: Partial<Record<MetricKey, (s: (typeof sets)[number]) => number | null>> = {
+    ambientContrastRatio: (s) => s.latestAcr,
+    ghostRatio: (s) => s.latestGhost,
+    transmission: (s) => s.latestTransmission,
+    uniformity: (s) => s.latestUniformity,
+  };
+  const latest = (k: MetricKey, s: (typeof sets)[number]) => latestOf[k]?.(s) ?? null;
+  // the one metric list, less what the capture set summary does not carry
+  const setMetrics = TABLE_METRICS.filter((k) => latestOf[k] !== undefined);
 
   return (
     <>
@@ -72,7 +83,7 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
       </p>
       <div className="space-y-6">
         {checks.length ? (
-          <Panel title={<span data-testid="revision-target-summary">Targets · {revision.label} {tallyText(tally(checks))}</span>}>
+          <Panel title={<span data-testid="revision-target-summary">Targets · {revision.label} {revisionVerdictText(checks)}</span>}>
             <TargetChecks checks={checks} scope={revision.label} />
           </Panel>
         ) : null}
@@ -90,11 +101,11 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
             rows={statistics.rows.map((r, i) => ({
               id: `${r.metric}-${r.variant ?? '*'}`,
               cells: {
-                metric: { text: metricLabelWithUnit(METRICS[r.metric]), sort: i },
+                metric: { text: metricHeading(r.metric), sort: i },
                 group: { text: r.variant === null ? 'all' : r.variant || 'no variant label', sort: r.variant === null ? '' : `~${r.variant}` },
                 n: { text: String(r.stats.n), sort: r.stats.n },
-                mean: { text: formatMeanCi(r.metric, r.stats), sort: r.stats.mean },
-                sd: { text: formatMetric(r.metric, r.stats.sd, false), sort: r.stats.sd },
+                mean: { text: formatMetricMeanCi(r.metric, r.stats), sort: r.stats.mean },
+                sd: { text: formatMetricSpread(r.metric, r.stats.sd), sort: r.stats.sd },
               },
             }))}
             empty={<EmptyState title="No readings yet">Analyse a capture set of this revision to see n, mean, SD and the 95% interval of each metric.</EmptyState>}
@@ -114,12 +125,9 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
               { key: 'variant', label: 'Variant' },
               { key: 'pattern', label: 'Pattern' },
               { key: 'photos', label: 'Photos', numeric: true },
-              { key: 'lux', label: 'Ambient (lx)', numeric: true },
+              { key: 'lux', label: 'Ambient', numeric: true },
               { key: 'status', label: 'Analysis' },
-              { key: 'acr', label: 'Contrast ratio', numeric: true },
-              { key: 'ghost', label: 'Ghost', numeric: true },
-              { key: 'transmission', label: 'Transmission', numeric: true },
-              { key: 'uniformity', label: 'Uniformity', numeric: true },
+              ...setMetrics.map((k) => ({ key: k, label: metricHeading(k), numeric: true })),
             ]}
             rows={sets.map((s) => ({
               id: s.id,
@@ -129,12 +137,9 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
                 variant: { text: s.variant || '—', sort: s.variant },
                 pattern: { text: s.pattern === 'full' ? 'full white' : 'checkerboard' },
                 photos: { text: `${s.photoCount} (${s.roles.join(', ') || 'none'})`, sort: s.photoCount },
-                lux: { text: s.conditions.ambientLux !== undefined ? String(s.conditions.ambientLux) : '—', sort: s.conditions.ambientLux ?? null },
+                lux: { text: formatIlluminance(s.conditions.ambientLux), sort: s.conditions.ambientLux ?? null },
                 status: { text: s.latestStatus ? (STATUS_TEXT[s.latestStatus] ?? s.latestStatus) : 'not analysed', sort: s.latestStatus },
-                acr: { text: s.latestAcr !== null ? s.latestAcr.toFixed(3) : '—', sort: s.latestAcr },
-                ghost: { text: formatMetric('ghostRatio', s.latestGhost, false), sort: s.latestGhost },
-                transmission: { text: formatMetric('transmission', s.latestTransmission, false), sort: s.latestTransmission },
-                uniformity: { text: formatMetric('uniformity', s.latestUniformity, false), sort: s.latestUniformity },
+                ...Object.fromEntries(setMetrics.map((k) => [k, { text: formatMetricValue(k, latest(k, s)), sort: latest(k, s) }])),
               },
             }))}
             empty={<EmptyState title="No capture sets yet">A capture set is one shot of the eyepiece view: on, off and ambient photos under stated conditions.</EmptyState>}
@@ -142,7 +147,7 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
         </Panel>
         {can(actor.role, 'capture.write') ? (
           <Panel title="New capture set">
-            <CreateCaptureSetForm revisionId={revision.id} />
+            <CreateCaptureSetForm revisionId={revision.id} variants={knownVariants} />
           </Panel>
         ) : null}
         {can(actor.role, 'revision.write') ? (
