@@ -3,12 +3,14 @@
 import { useRouter } from 'next/navigation';
 import { useMemo, useState } from 'react';
 import { Area, CartesianGrid, ComposedChart, ErrorBar, Line, ReferenceLine, ResponsiveContainer, Scatter, Tooltip, XAxis, YAxis } from 'recharts';
+import { formatLimit, formatMetricMeanCi, formatMetricValue, formatTick, metricHeading } from '@/lib/format';
 import { comparatorWords, type Target } from '@/lib/targets/evaluate';
-import { formatMetric, metricLabelWithUnit, METRIC_LIST, METRICS, type MetricKey } from '@/lib/targets/metrics';
-import type { Trend } from '@/lib/targets/series';
+import { METRIC_LIST, type MetricKey } from '@/lib/targets/metrics';
+import { trendByVariant, variantColour, variantLabel, type GroupStats, type Trend } from '@/lib/targets/series';
 
-type MeanRow = { x: number; id: string; label: string; n: number; mean: number | null; band: [number, number] | null; low: number | null; high: number | null; ci: [number, number] | null };
-type PointRow = { x: number; y: number; capture: string; variant: string; revision: string };
+type SeriesCell = { mean: number | null; band: [number, number] | null; ci: [number, number] | null; stats: GroupStats };
+type MeanRow = { x: number; id: string; label: string; series: SeriesCell[] } & Record<string, unknown>;
+type PointRow = { x: number; y: number; capture: string; variant: string; revision: string; colour: string };
 
 // Spreads a revision's captures a little sideways so equal values do not hide each other.
 function jitter(i: number, n: number): number {
@@ -16,23 +18,24 @@ function jitter(i: number, n: number): number {
   return ((i / (n - 1)) * 2 - 1) * Math.min(0.18, 0.03 * n);
 }
 
-function MeanDot(props: { cx?: number; cy?: number; payload?: MeanRow; onOpen: (id: string) => void }) {
-  const { cx, cy, payload, onOpen } = props;
-  if (cx === undefined || cy === undefined || !payload || payload.mean === null) return <g />;
+function MeanDot(props: { cx?: number; cy?: number; payload?: MeanRow; onOpen: (id: string) => void; colour: string; variant: string; j: number }) {
+  const { cx, cy, payload, onOpen, colour, variant, j } = props;
+  if (cx === undefined || cy === undefined || !payload || payload.series[j]?.mean == null) return <g />;
   return (
     <g
       className="vm-trend-mean"
       data-testid="trend-mean"
+      data-variant={variant}
       role="link"
       tabIndex={0}
-      aria-label={`Open revision ${payload.label}`}
+      aria-label={`Open revision ${payload.label}${variant ? ` (${variant})` : ''}`}
       style={{ cursor: 'pointer' }}
       onClick={() => onOpen(payload.id)}
       onKeyDown={(e) => {
         if (e.key === 'Enter') onOpen(payload.id);
       }}
     >
-      <circle cx={cx} cy={cy} r={6} fill="rgb(var(--beam))" stroke="rgb(var(--canvas))" strokeWidth={2} />
+      <circle cx={cx} cy={cy} r={6} fill={colour} stroke="rgb(var(--canvas))" strokeWidth={2} />
     </g>
   );
 }
@@ -40,14 +43,16 @@ function MeanDot(props: { cx?: number; cy?: number; payload?: MeanRow; onOpen: (
 function PointDot(props: unknown) {
   const { cx, cy, payload } = props as { cx?: number; cy?: number; payload?: PointRow };
   if (cx === undefined || cy === undefined || !payload) return <g />;
-  return <circle className="vm-trend-point" data-testid="trend-point" cx={cx} cy={cy} r={3.5} fill="rgb(var(--glow))" fillOpacity={0.85} />;
+  return <circle className="vm-trend-point" data-testid="trend-point" data-variant={payload.variant} cx={cx} cy={cy} r={3.5} fill={payload.colour} fillOpacity={0.7} />;
 }
 
-function TrendTooltip({ active, payload, metric }: { active?: boolean; payload?: { payload?: MeanRow | PointRow }[]; metric: MetricKey }) {
+const isPoint = (r: MeanRow | PointRow): r is PointRow => typeof (r as PointRow).capture === 'string' && !('series' in r);
+
+function TrendTooltip({ active, payload, metric, variants, colours }: { active?: boolean; payload?: { payload?: MeanRow | PointRow }[]; metric: MetricKey; variants: string[]; colours: string[] }) {
   const row = active ? payload?.[0]?.payload : undefined;
   if (!row) return null;
   const box = 'rounded-md border border-line bg-panel px-3 py-2 text-xs text-ink shadow-lg';
-  if ('capture' in row) {
+  if (isPoint(row)) {
     return (
       <div className={box}>
         <p className="font-semibold">{row.capture}</p>
@@ -55,59 +60,61 @@ function TrendTooltip({ active, payload, metric }: { active?: boolean; payload?:
           {row.revision}
           {row.variant ? ` · ${row.variant}` : ''}
         </p>
-        <p className="font-mono">{formatMetric(metric, row.y)}</p>
+        <p className="font-mono">{formatMetricValue(metric, row.y)}</p>
       </div>
     );
   }
+  const shown = row.series.map((c, j) => ({ c, j })).filter(({ c }) => c.stats.n > 0);
   return (
     <div className={box}>
       <p className="font-semibold">{row.label}</p>
-      {row.mean === null ? (
-        <p className="text-muted">no readings</p>
-      ) : (
-        <>
-          <p className="font-mono">mean {formatMetric(metric, row.mean)}</p>
-          {row.low !== null && row.high !== null ? (
-            <p className="font-mono text-muted">
-              95% CI {formatMetric(metric, row.low, false)} – {formatMetric(metric, row.high, false)}
-            </p>
+      {shown.length === 0 ? <p className="text-muted">no readings</p> : null}
+      {shown.map(({ c, j }) => (
+        <p key={j} className="font-mono">
+          {variants.length > 1 ? (
+            <span className="mr-1 font-sans" style={{ color: colours[j] }}>
+              {variantLabel(variants[j] ?? '')}:
+            </span>
           ) : null}
-          <p className="text-muted">
-            {row.n} capture set{row.n === 1 ? '' : 's'} · click to open
-          </p>
-        </>
-      )}
+          mean {formatMetricMeanCi(metric, c.stats)} <span className="font-sans text-muted">(n {c.stats.n})</span>
+        </p>
+      ))}
+      {shown.length ? <p className="text-muted">95% CI · click a mean to open</p> : null}
     </div>
   );
 }
 
-/**
- * One metric across the revisions in their order: the mean with its 95% CI as a band, each
- * capture set's newest reading as a dot, and the project's targets as dashed lines.
- */
 export function TrendChart({ projectId, trends, targets, initialMetric }: { projectId: string; trends: Record<MetricKey, Trend>; targets: Target[]; initialMetric?: MetricKey }) {
   const router = useRouter();
   const withData = METRIC_LIST.filter((m) => trends[m.key].revisions.some((r) => r.points.length > 0));
   const [metric, setMetric] = useState<MetricKey>(initialMetric ?? withData[0]?.key ?? 'ambientContrastRatio');
-  const info = METRICS[metric];
   const trend = trends[metric];
   const metricTargets = targets.filter((t) => t.metric === metric);
 
-  const { means, points, domain, ticks } = useMemo(() => {
-    const means: MeanRow[] = trend.revisions.map((r, i) => ({
-      x: i,
-      id: r.id,
-      label: r.label,
-      n: r.stats.n,
-      mean: r.stats.mean,
-      low: r.stats.low,
-      high: r.stats.high,
-      band: r.stats.low !== null && r.stats.high !== null ? [r.stats.low, r.stats.high] : null,
-      // the same interval as whiskers on the mean: it still shows where a revision stands alone
-      ci: r.stats.mean !== null && r.stats.low !== null && r.stats.high !== null ? [r.stats.mean - r.stats.low, r.stats.high - r.stats.mean] : null,
-    }));
-    const points: PointRow[] = trend.revisions.flatMap((r, i) => r.points.map((p, j) => ({ x: i + jitter(j, r.points.length), y: p.value, capture: p.label, variant: p.variant, revision: r.label })));
-    const ys = [...points.map((p) => p.y), ...means.flatMap((m) => (m.band ? m.band : [])), ...metricTargets.map((t) => t.value)];
+  const { means, points, domain, ticks, variants, colours } = useMemo(() => {
+    const { variants, stats } = trendByVariant(trend);
+    // one variant keeps the theme's own colour; several get colours told apart by colour-blind readers
+    const colours = variants.length > 1 ? variants.map((_, j) => variantColour(j)) : ['rgb(var(--beam))'];
+    const means: MeanRow[] = trend.revisions.map((r, i) => {
+      const series: SeriesCell[] = (stats[i] ?? []).map((st) => ({
+        mean: st.mean,
+        band: st.low !== null && st.high !== null ? [st.low, st.high] : null,
+        // the same interval as whiskers on the mean: it still shows where a revision stands alone
+        ci: st.mean !== null && st.low !== null && st.high !== null ? [st.mean - st.low, st.high - st.mean] : null,
+        stats: st,
+      }));
+      const row: MeanRow = { x: i, id: r.id, label: r.label, series };
+      series.forEach((c, j) => {
+        row[`mean${j}`] = c.mean;
+        row[`band${j}`] = c.band;
+        row[`ci${j}`] = c.ci;
+      });
+      return row;
+    });
+    const points: PointRow[] = trend.revisions.flatMap((r, i) =>
+      r.points.map((p, k) => ({ x: i + jitter(k, r.points.length), y: p.value, capture: p.label, variant: p.variant, revision: r.label, colour: colours[Math.max(0, variants.indexOf(p.variant))] ?? colours[0]! })),
+    );
+    const ys = [...points.map((p) => p.y), ...means.flatMap((m) => m.series.flatMap((c) => (c.band ? c.band : []))), ...metricTargets.map((t) => t.value)];
     let lo = ys.length ? Math.min(...ys) : 0;
     let hi = ys.length ? Math.max(...ys) : 1;
     if (hi - lo < 1e-9) {
@@ -118,11 +125,12 @@ export function TrendChart({ projectId, trends, targets, initialMetric }: { proj
     const raw = (hi - lo) / 5;
     const mag = 10 ** Math.floor(Math.log10(raw));
     const step = ([1, 2, 5, 10].find((f) => f * mag >= raw) ?? 10) * mag;
-    const start = Math.floor(lo / step) * step;
+    // no negative axis for quantities that cannot be negative
+    const start = Math.max(lo >= 0 ? 0 : -Infinity, Math.floor(lo / step) * step);
     const end = Math.ceil(hi / step) * step;
     const ticks: number[] = [];
     for (let v = start; v <= end + step / 2; v += step) ticks.push(Number(v.toPrecision(12)));
-    return { means, points, domain: [start, end] as [number, number], ticks };
+    return { means, points, domain: [start, end] as [number, number], ticks, variants, colours };
   }, [trend, metricTargets]);
 
   const open = (id: string) => router.push(`/projects/${projectId}/revisions/${id}`);
@@ -132,7 +140,7 @@ export function TrendChart({ projectId, trends, targets, initialMetric }: { proj
     url.searchParams.set('metric', key);
     window.history.replaceState(null, '', url);
   };
-  const tick = (v: number) => Number(v.toPrecision(4)).toString();
+  const tick = (v: number) => formatTick(metric, v);
 
   return (
     <div>
@@ -181,17 +189,46 @@ export function TrendChart({ projectId, trends, targets, initialMetric }: { proj
                 width={56}
                 stroke="rgb(var(--muted))"
                 tick={{ fontSize: 11 }}
-                label={{ value: metricLabelWithUnit(info), angle: -90, position: 'insideLeft', offset: 4, fill: 'rgb(var(--muted))', fontSize: 11, style: { textAnchor: 'middle' } }}
+                label={{ value: metricHeading(metric), angle: -90, position: 'insideLeft', offset: 4, fill: 'rgb(var(--muted))', fontSize: 11, style: { textAnchor: 'middle' } }}
                 allowDataOverflow
               />
-              <Tooltip content={<TrendTooltip metric={metric} />} cursor={{ stroke: 'rgb(var(--line))' }} />
-              <Area dataKey="band" className="vm-ci-band" type="linear" stroke="none" fill="rgb(var(--beam))" fillOpacity={0.16} isAnimationActive={false} connectNulls activeDot={false} />
-              <Line dataKey="mean" className="vm-trend-line" type="linear" stroke="rgb(var(--beam))" strokeWidth={2} connectNulls isAnimationActive={false} dot={(p: unknown) => {
-                  const d = p as { cx?: number; cy?: number; payload?: MeanRow; index?: number };
-                  return <MeanDot key={d.index} cx={d.cx} cy={d.cy} payload={d.payload} onOpen={open} />;
-                }} activeDot={false}>
-                <ErrorBar dataKey="ci" className="vm-ci-whisker" width={10} stroke="rgb(var(--beam))" strokeWidth={1.5} isAnimationActive={false} />
-              </Line>
+              <Tooltip content={<TrendTooltip metric={metric} variants={variants} colours={colours} />} cursor={{ stroke: 'rgb(var(--line))' }} />
+              {variants.map((v, j) => (
+                <Area
+                  key={`band-${j}`}
+                  dataKey={`band${j}`}
+                  className="vm-ci-band"
+                  data-variant={v}
+                  type="linear"
+                  stroke="none"
+                  fill={colours[j]}
+                  fillOpacity={variants.length > 1 ? 0.1 : 0.16}
+                  isAnimationActive={false}
+                  connectNulls
+                  activeDot={false}
+                />
+              ))}
+              {variants.map((v, j) => (
+                <Line
+                  key={`line-${j}`}
+                  dataKey={`mean${j}`}
+                  name={variantLabel(v)}
+                  className="vm-trend-line"
+                  type="linear"
+                  stroke={colours[j]}
+                  strokeWidth={2}
+                  strokeDasharray={j % 2 === 1 ? '7 3' : undefined}
+                  connectNulls
+                  isAnimationActive={false}
+                  dot={(p: unknown) => {
+                    const d = p as { cx?: number; cy?: number; payload?: MeanRow; index?: number };
+                    return <MeanDot key={`${j}-${d.index}`} cx={d.cx} cy={d.cy} payload={d.payload} onOpen={open} colour={colours[j] ?? ''} variant={v} j={j} />;
+                  }}
+                  activeDot={false}
+                >
+                  <ErrorBar dataKey={`ci${j}`} className="vm-ci-whisker" width={10} stroke={colours[j]} strokeWidth={1.5} isAnimationActive={false} />
+                </Line>
+              ))}
               <Scatter data={points} dataKey="y" className="vm-trend-points" shape={PointDot} isAnimationActive={false} />
               {metricTargets.map((t) => (
                 <ReferenceLine
@@ -202,16 +239,30 @@ export function TrendChart({ projectId, trends, targets, initialMetric }: { proj
                   strokeDasharray="6 4"
                   strokeWidth={1.5}
                   ifOverflow="extendDomain"
-                  label={{ value: `target ${t.comparator === '>=' ? '≥' : '≤'} ${formatMetric(metric, t.value)}${t.isDefault ? ' (default)' : ''}`, position: 'insideTopRight', fill: 'rgb(var(--muted))', fontSize: 10 }}
+                  label={{ value: `target ${t.comparator === '>=' ? '≥' : '≤'} ${formatLimit(metric, t.value)}${t.isDefault ? ' (default)' : ''}`, position: 'insideTopRight', fill: 'rgb(var(--muted))', fontSize: 10 }}
                 />
               ))}
             </ComposedChart>
           </ResponsiveContainer>
         </div>
       )}
+      {variants.length > 1 ? (
+        <ul className="mt-2 flex flex-wrap gap-x-5 gap-y-1 text-xs text-ink" data-testid="trend-legend" aria-label="Variants">
+          {variants.map((v, j) => (
+            <li key={v} className="inline-flex items-center gap-1.5" data-variant={v}>
+              <svg width="22" height="10" aria-hidden="true">
+                <line x1="0" y1="5" x2="22" y2="5" stroke={colours[j]} strokeWidth="2" strokeDasharray={j % 2 === 1 ? '7 3' : undefined} />
+                <circle cx="11" cy="5" r="3.5" fill={colours[j]} />
+              </svg>
+              {variantLabel(v)}
+            </li>
+          ))}
+        </ul>
+      ) : null}
       <p className="mt-2 text-xs text-muted">
-        Dots: each capture set’s newest reading. Line: the revision mean; band and whiskers: its 95% confidence interval (Student’s t, from 2 captures on). Dashed: targets
-        {metricTargets.length ? ` (${metricTargets.map((t) => `${comparatorWords(t.comparator)} ${formatMetric(metric, t.value)}`).join(', ')})` : ' — none set for this metric'}. Click a mean to open its
+        Dots: each capture set’s newest reading. {variants.length > 1 ? 'One line per variant, never a blend of them: ' : 'Line: '}the mean; band and whiskers: its 95% confidence interval
+        (Student’s t, from 2 captures on). Dashed: targets
+        {metricTargets.length ? ` (${metricTargets.map((t) => `${comparatorWords(t.comparator)} ${formatLimit(metric, t.value)}`).join(', ')})` : ' — none set for this metric'}. Click a mean to open its
         revision.
       </p>
     </div>

@@ -107,3 +107,34 @@ export function revisionStatistics(readings: readonly SetReading[]): { rows: Rev
   }
   return { rows, unmeasured };
 }
+
+/** The variants a trend's captures carry, sorted, the unlabelled ('') first. */
+export function trendVariants(trend: Pick<Trend, 'revisions'>): string[] {
+  const set = new Set<string>();
+  for (const r of trend.revisions) for (const p of r.points) set.add(p.variant);
+  return [...set].sort((a, b) => (a === '' ? -1 : b === '' ? 1 : a.localeCompare(b)));
+}
+
+/**
+ * One line per variant: for each revision (in the trend's order) the statistics of that variant's
+ * captures alone, never blended with another variant's. `stats[i][j]` is revision i, variant j.
+ */
+export function trendByVariant(trend: Pick<Trend, 'revisions'>): { variants: string[]; stats: GroupStats[][] } {
+  const variants = trendVariants(trend);
+  const stats = trend.revisions.map((r) => variants.map((v) => groupStats(r.points.filter((p) => p.variant === v).map((p) => p.value))));
+  return { variants, stats };
+}
+
+/**
+ * Colours told apart with the common forms of colour blindness (Okabe & Ito, "Color Universal
+ * Design", 2008), one per variant in the order of `trendVariants`.
+ */
+export const VARIANT_COLOURS = ['#0072B2', '#E69F00', '#009E73', '#CC79A7', '#56B4E9', '#D55E00', '#999999'] as const;
+
+export function variantColour(index: number): string {
+  return VARIANT_COLOURS[index % VARIANT_COLOURS.length]!;
+}
+
+export function variantLabel(v: string): string {
+  return v || 'no variant label';
+}

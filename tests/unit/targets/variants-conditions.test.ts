@@ -79,3 +79,15 @@ describe('structured conditions', () => {
     expect(describeCondition({})).toBe('');
   });
 });
+
+describe('trend per variant', () => {
+  it('gives each variant its own statistics per revision, never the blend', async () => {
+    const { buildTrends, trendByVariant } = await import('../../../lib/targets/series');
+    const rs = [reading('no polarizer', 2.2), reading('no polarizer', 2.4), reading('with polarizer', 3.0), reading('with polarizer', 3.2)];
+    const trends = buildTrends([{ id: 'rev', label: 'VX-B', position: 1 }], rs);
+    const t = trendByVariant(trends.ambientContrastRatio);
+    expect(t.variants).toEqual(['no polarizer', 'with polarizer']);
+    expect(t.stats[0]!.map((s) => s.mean)).toEqual([2.3, 3.1]);
+    expect(trends.ambientContrastRatio.revisions[0]!.stats.mean).toBeCloseTo(2.7, 12); // the blend the chart no longer draws
+  });
+});
