@@ -10,7 +10,10 @@ type Metric = { key: string; label: string; value: string; unit: string; definit
 const f = (v: number | null | undefined, digits = 3) => (typeof v === 'number' && Number.isFinite(v) ? v.toFixed(digits) : '—');
 const pct = (v: number | null | undefined, digits = 2) => (typeof v === 'number' && Number.isFinite(v) ? (v * 100).toFixed(digits) : '—');
 
-const ADVICE: Record<WarningCode, string> = {
+const fmt1 = (v: number) => (Number.isInteger(v) ? String(v) : v.toFixed(1));
+
+// What to do about each warning; a code this panel does not know yet shows the engine's message alone.
+const ADVICE: Partial<Record<WarningCode | string, string>> = {
   clipped: 'Lower the exposure (or bracket) and shoot again: clipped pixels make the contrast look lower than it is.',
   shifted: 'The camera moved a little between photos; the photos were aligned, but a firmer tripod gives cleaner numbers.',
   'exposure-unknown': 'Use a camera that writes exposure time, f-number and ISO, and keep them fixed; otherwise exposures are assumed equal.',
@@ -19,6 +22,15 @@ const ADVICE: Record<WarningCode, string> = {
   'low-signal': 'The display light is weak against the noise: raise the display level or the exposure.',
   'ghost-band-clipped': 'The ghost band reaches the photo edge: centre the view or mark the ghost by hand.',
   'calibration-needs-exposure': 'Absolute luminance needs EXIF exposure data in every photo.',
+  rotated: 'The camera turned between photos: lock the tripod head, switch the display without touching the camera (a remote release helps) and shoot the set again.',
+  'registration-uncertain': 'The photos could not be matched with confidence: keep the camera still, let the room show some texture beside the display, and shoot again.',
+  'screen-fills-frame': 'The screen covers most of the photo: step back or zoom out so the room shows around it, or mark the screen by hand.',
+  'multi-page': 'Only the first page of the TIFF was measured: export the view you mean as a single-page TIFF if that was not it.',
+  'ratio-near-one': 'On and off look the same within the noise: check that the display was lit in the on photo and dark in the off photo.',
+  'uniformity-invalid': 'The display light is not above the background across the screen: check the screen region and that the display was lit.',
+  'transmission-above-one': 'More light arrived through the optics than without them: stray light (a veil) from the optics adds to the view. Mark a background region away from the screen and its glow, and shade the optics from lamps.',
+  'both-clipped': 'The on and off photos are both clipped: lower the exposure, or bracket, and shoot again.',
+  'ghost-weak': 'The ghost is barely above the noise: raise the display level or the exposure, or mark the ghost by hand if you know where it is.',
 };
 
 function metrics(r: Reading): Metric[] {
@@ -36,8 +48,27 @@ function metrics(r: Reading): Metric[] {
     { key: 'loff', label: 'Luminance, display off', value: f(res.luminance.off, 4), unit: 'relative', definition: 'The see-through background behind the screen.' },
     { key: 'lamb', label: 'Luminance, without optics', value: f(res.luminance.ambient, 4), unit: 'relative', definition: 'The same area with the optics out of the path.' },
     { key: 'clip', label: 'Clipped pixels', value: pct(res.clippedFraction, 3), unit: '%', definition: 'Share of pixels with a channel at ≥ 98 % of full scale inside the analysed regions.' },
-    { key: 'reg', label: 'Registration, off photo', value: `${res.registration.off.dx}, ${res.registration.off.dy}`, unit: 'px', definition: 'Shift of the off photo against the on photo, found by phase correlation.' },
+    { key: 'reg', label: 'Registration, off photo', value: `${fmt1(res.registration.off.dx)}, ${fmt1(res.registration.off.dy)}`, unit: 'px', definition: 'Shift of the off photo against the on photo, found by phase correlation.' },
   ];
+  // fields of newer engines, shown only where the reading has them
+  if (res.ghost && res.ghost.snr !== null && res.ghost.snr !== undefined) {
+    out.push({ key: 'ghost-snr', label: 'Ghost SNR', value: f(res.ghost.snr, 1), unit: 'standard errors', definition: 'How far the light at the ghost offset stands above the noise, against the same band mirrored to the other side (light spread by blur falls on both sides alike).' });
+  }
+  const edge = res.edge ?? (res.ghost?.edgeZone !== undefined ? { zone: res.ghost.edgeZone, spread: null } : null);
+  if (edge) {
+    out.push({ key: 'edge-zone', label: 'Screen edge zone', value: f(edge.zone, 1), unit: edge.spread === null ? 'px' : `px · edge spread ${f(edge.spread, 1)} px`, definition: 'Band around the screen’s edge left out of the ghost search and measurement, from the edge’s 10–90 % rise in the photo.' });
+  }
+  for (const role of ['off', 'ambient', 'dark'] as const) {
+    const a = res.alignment?.[role];
+    if (!a) continue;
+    out.push({
+      key: `align-${role}`,
+      label: `Alignment, ${role} photo`,
+      value: `${a.dx.toFixed(1)}, ${a.dy.toFixed(1)}`,
+      unit: `px · rotation ${a.rotationDeg.toFixed(2)}°`,
+      definition: `Shift (to 0.1 px) and turn of the ${role} photo against the on photo, the display left out of the match; peak ${f(a.peakRatio, 2)}× the runner-up over ${a.windows} window${a.windows === 1 ? '' : 's'}${a.residual === null ? '' : `, residual ${pct(a.residual, 1)} %`}.`,
+    });
+  }
   // the worker adds the profile it converted with; readings from before camera profiles lack it
   const extra = res as typeof res & { cameraProfile?: { name: string }; brackets?: Partial<Record<string, { count: number; dynamicRange: number | null; stops: number | null }>> };
   if (abs) {
@@ -47,6 +78,14 @@ function metrics(r: Reading): Metric[] {
     out.push({ key: 'abs-off', label: calibrated ? 'Background luminance' : 'Background luminance (rough estimate)', value: f(abs.off, 1), unit: `cd/m² · ${source}`, definition: 'The see-through background behind the screen, display dark.' });
   } else {
     out.push({ key: 'abs', label: 'Display luminance', value: '—', unit: 'uncalibrated', definition: 'No camera profile and no exposure EXIF: results are relative only.' });
+  }
+  // how the worker read the photos (readings from before linear photos on the web lack it: all sRGB)
+  const decodedAs = (res as typeof res & { decodedAs?: Partial<Record<string, 'linear' | 'srgb' | 'mixed'>> }).decodedAs;
+  if (decodedAs && Object.values(decodedAs).some((v) => v !== 'srgb')) {
+    const text = Object.entries(decodedAs)
+      .map(([role, v]) => `${role} ${v === 'srgb' ? 'sRGB' : v}`)
+      .join(' · ');
+    out.push({ key: 'decoded-as', label: 'Photos read as', value: text, unit: '', definition: 'Linear: 16-bit TIFF values taken as proportional to light; sRGB: decoded through the sRGB curve (capture set and photo settings).' });
   }
   for (const [role, b] of Object.entries(extra.brackets ?? {})) {
     if (b) out.push({ key: `bracket-${role}`, label: `Bracket, ${role} photo`, value: b.dynamicRange === null ? '—' : `${f(b.dynamicRange, 0)}:1`, unit: `${b.count} exposures${b.stops === null ? '' : ` · ${f(b.stops, 1)} stops`}`, definition: 'Photos of one role at different exposures merged into one linear plane; the range spans the brightest to the darkest measured pixels.' });
@@ -77,7 +116,7 @@ export function ReadingsPanel({ reading, analyses, captureSetId, selectedId }: {
                 <Notice key={w.code}>
                   <strong className="mr-1">{w.code}:</strong>
                   {w.message}
-                  <span className="block text-xs text-muted">{ADVICE[w.code] ?? ''}</span>
+                  {ADVICE[w.code] ? <span className="block text-xs text-muted">{ADVICE[w.code]}</span> : null}
                 </Notice>
               ))}
             </div>

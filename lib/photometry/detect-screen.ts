@@ -13,10 +13,17 @@ export function strided(values: ArrayLike<number>, limit: number): ArrayLike<num
 
 /** Components below this share of the largest are specks (noise, JPEG ringing, highlights that moved). */
 const SMALL_COMPONENT = 0.05;
+/**
+ * A display fills its box (a checkerboard half of it); scattered room objects that brightened
+ * between the photos (the exposure or the light changed, the display stayed off) fill little of theirs.
+ */
+const MIN_FILL = 0.25;
 
 /**
  * The display's bounding box in a difference plane D = on − off: threshold at half of the 99.5th
- * percentile, drop small components, box what remains. Null when D holds no display light.
+ * percentile, drop small components, box what remains. Null when D holds no display light: its
+ * 99.5th percentile is within 5 noise sigmas of zero, or what stands out fills less than a quarter
+ * of its box (scattered room objects, not a lit display).
  */
 export function detectScreen(diff: Plane, noiseSigma = 0): Rect | null {
   const { width, height, data } = diff;
@@ -40,5 +47,8 @@ export function detectScreen(diff: Plane, noiseSigma = 0): Rect | null {
     x1 = Math.max(x1, c.box.x + c.box.w);
     y1 = Math.max(y1, c.box.y + c.box.h);
   }
-  return kept.length === 0 ? null : { x: x0, y: y0, w: x1 - x0, h: y1 - y0 };
+  if (kept.length === 0) return null;
+  const filled = kept.reduce((a, c) => a + c.area, 0);
+  if (filled < MIN_FILL * (x1 - x0) * (y1 - y0)) return null;
+  return { x: x0, y: y0, w: x1 - x0, h: y1 - y0 };
 }

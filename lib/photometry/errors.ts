@@ -12,6 +12,7 @@ export type EngineInputErrorCode =
   | 'region-too-small'
   | 'camera-moved'
   | 'no-screen-found'
+  | 'no-display-light'
   | 'bad-argument';
 
 /** An error caused by the input (files, regions, options), carrying a one-line human message. */

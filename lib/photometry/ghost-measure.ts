@@ -1,4 +1,4 @@
-import { bandRects, forEachBandPixel } from './band';
+import { bandRects, forEachBandPixel, ghostBandRects } from './band';
 import { solveGhostRatio } from './ghost-ratio';
 import type { Offset, Plane, Rect } from './types';
 
@@ -143,4 +143,104 @@ function copyRow(out: Float64Array, c: BandStrip | null, x0: number, y: number):
   } else {
     for (let t = t0; t < t1; t++) out[t] = data[base + t] as number;
   }
+}
+
+/** The ghost measured on its band's plateau against the mirrored band (see `measureGhostOneSided`). */
+export interface OneSidedGhost extends GhostMeasurement {
+  /** Mean D over the band at the offset and over the mirrored band (offset −d). */
+  band: number;
+  mirror: number;
+  /** Mirrored-band pixels used. */
+  nMirror: number;
+  /** (band − mirror) over its standard error, from the scatter of 16 × 16 px block means. */
+  snr: number;
+  /** Share of the band's light that is one-sided: (band − mirror) / band. */
+  oneSided: number;
+}
+
+const BLOCK = 16;
+
+/** Mean and scatter of the block means of a crop (blocks of BLOCK × BLOCK px, NaN skipped). */
+function addBlocks(data: Float32Array, w: number, h: number, out: number[]): void {
+  for (let by = 0; by < h; by += BLOCK) {
+    for (let bx = 0; bx < w; bx += BLOCK) {
+      let s = 0;
+      let n = 0;
+      for (let y = by; y < Math.min(h, by + BLOCK); y++) {
+        for (let x = bx; x < Math.min(w, bx + BLOCK); x++) {
+          const v = data[y * w + x] as number;
+          if (v === v) { s += v; n++; }
+        }
+      }
+      // blocks cut to a sliver by the band's border say little about the scatter
+      if (n >= (BLOCK * BLOCK) / 4) out.push(s / n);
+    }
+  }
+}
+
+function variance(xs: number[]): number {
+  if (xs.length < 2) return Number.NaN;
+  const m = xs.reduce((a, b) => a + b, 0) / xs.length;
+  return xs.reduce((a, b) => a + (b - m) ** 2, 0) / (xs.length - 1);
+}
+
+/**
+ * Second-order ghost ratio on the band's plateau, against the mirrored band (docs/method.md §5.8).
+ * `read(rect)` gives the difference D (on − off, or the dark photo) over a rectangle in on-photo
+ * coordinates, NaN where there is no data. The band is `ghostBandRects(screen, offset, zone)`: the
+ * displaced screen shrunk by the edge zone, minus the screen grown by it, so neither the screen's
+ * spill nor the ghost's own soft edge is in it. B is the mean of D there minus the mean over the
+ * mirrored band (offset −d), which carries the light blur and stray light put on every side alike;
+ * S1, S2 are the means over the band moved back by one and two offsets, pixel for pixel, and
+ * B = g·S1 − g²·S2 gives g. Null when the band or the screen has no data or no light.
+ */
+export function measureGhostOneSided(read: (r: Rect) => Float32Array, screen: Rect, offset: Offset, zone: number): OneSidedGhost | null {
+  checkOffset(offset);
+  const { dx, dy } = offset;
+  const rects = ghostBandRects(screen, offset, zone);
+  const mirrorRects = ghostBandRects(screen, { dx: -dx, dy: -dy }, zone);
+  if (rects.length === 0 || mirrorRects.length === 0) return null;
+  const sums = new BandSums();
+  let bandSum = 0;
+  let bandN = 0;
+  const bandBlocks: number[] = [];
+  for (const r of rects) {
+    const b = read(r);
+    const s1 = read({ x: r.x - dx, y: r.y - dy, w: r.w, h: r.h });
+    const s2 = read({ x: r.x - 2 * dx, y: r.y - 2 * dy, w: r.w, h: r.h });
+    for (let i = 0; i < b.length; i++) {
+      const v = b[i] as number;
+      sums.add(v, s1[i] as number, s2[i] as number);
+      if (v === v) { bandSum += v; bandN++; }
+    }
+    addBlocks(b, r.w, r.h, bandBlocks);
+  }
+  let mirrorSum = 0;
+  let mirrorN = 0;
+  const mirrorBlocks: number[] = [];
+  for (const r of mirrorRects) {
+    const m = read(r);
+    for (let i = 0; i < m.length; i++) {
+      const v = m[i] as number;
+      if (v === v) { mirrorSum += v; mirrorN++; }
+    }
+    addBlocks(m, r.w, r.h, mirrorBlocks);
+  }
+  if (bandN === 0 || mirrorN === 0) return null;
+  const band = bandSum / bandN;
+  const mirror = mirrorSum / mirrorN;
+  // the band's and the mirror's means move together with the light the screen spreads alike on every side
+  const raw = sums.result();
+  if (!raw) return null;
+  const excess = band - mirror;
+  // B is taken over the pixels with data one (and two) offsets back; the mirror's mean comes off it
+  const b = raw.b - mirror;
+  const ratio = Number.isFinite(raw.s2) ? solveGhostRatio(b, raw.s1, raw.s2) : b / raw.s1;
+  const blocks = [...bandBlocks, ...mirrorBlocks];
+  // block scatter about each side's own mean, pooled
+  const pooled = bandBlocks.length > 1 && mirrorBlocks.length > 1 ? ((bandBlocks.length - 1) * variance(bandBlocks) + (mirrorBlocks.length - 1) * variance(mirrorBlocks)) / (blocks.length - 2) : Number.NaN;
+  const se = Math.sqrt(pooled * (1 / Math.max(1, bandBlocks.length) + 1 / Math.max(1, mirrorBlocks.length)));
+  // a band too thin for blocks gives no scatter: no ghost can be told apart there
+  const snr = se > 0 ? excess / se : 0;
+  return { ratio, firstOrder: b / raw.s1, b, s1: raw.s1, s2: raw.s2, n: raw.n, band, mirror, nMirror: mirrorN, snr, oneSided: band > 0 ? excess / band : 0 };
 }

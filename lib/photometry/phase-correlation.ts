@@ -14,15 +14,20 @@ function mean(data: ArrayLike<number>): number {
   return sum / data.length;
 }
 
-/** A plane with its mean removed, under a Hann window. */
-function windowed(p: Plane): Float64Array {
+/** A plane with its mean removed, under a Hann window; pixels the mask leaves out (0) are zero after the mean's removal. */
+function windowed(p: Plane, mask?: Uint8Array | null): Float64Array {
   const { width: w, height: h, data } = p;
-  const m = mean(data);
+  let m = 0;
+  if (mask) {
+    let n = 0;
+    for (let i = 0; i < data.length; i++) if (mask[i]) { m += data[i] as number; n++; }
+    m = n > 0 ? m / n : 0;
+  } else m = mean(data);
   const wx = hann(w);
   const wy = hann(h);
   const out = new Float64Array(w * h);
   for (let y = 0; y < h; y++) {
-    for (let x = 0; x < w; x++) out[y * w + x] = ((data[y * w + x] as number) - m) * ((wx[x] as number) * (wy[y] as number));
+    for (let x = 0; x < w; x++) out[y * w + x] = mask && !mask[y * w + x] ? 0 : ((data[y * w + x] as number) - m) * ((wx[x] as number) * (wy[y] as number));
   }
   return out;
 }
@@ -30,9 +35,12 @@ function windowed(p: Plane): Float64Array {
 /**
  * Integer translation of `moving` relative to `reference` (a feature at p in reference sits at
  * p + offset in moving) by phase correlation, searching |dx|, |dy| ≤ maxShift.
- * `peak` is the normalised correlation peak height (1 = identical up to translation).
+ * `peak` is the normalised correlation peak height (1 = identical up to translation); `runnerUp` is
+ * the highest value more than 2 px from it (a peak that barely beats it is not a reliable match).
+ * `mask` (1 = use) leaves pixels out of both planes, e.g. the display's own light, which differs
+ * between the photos by design.
  */
-export function phaseCorrelate(reference: Plane, moving: Plane, maxShift: number): Offset & { peak: number } {
+export function phaseCorrelate(reference: Plane, moving: Plane, maxShift: number, mask?: Uint8Array | null): Offset & { peak: number; runnerUp: number } {
   if (reference.width !== moving.width || reference.height !== moving.height) throw new RangeError('planes must have the same size');
   if (!Number.isInteger(maxShift) || maxShift < 0) throw new RangeError('maxShift must be a non-negative integer');
   const { width: w, height: h } = reference;
@@ -40,7 +48,7 @@ export function phaseCorrelate(reference: Plane, moving: Plane, maxShift: number
   const pw = nextPow2(w + Math.min(maxShift, w));
   const ph = nextPow2(h + Math.min(maxShift, h));
   // reference as the real part, moving as the imaginary part: one transform serves both
-  const z = packPair(windowed(reference), windowed(moving), w, h, pw, ph);
+  const z = packPair(windowed(reference, mask), windowed(moving, mask), w, h, pw, ph);
   fft2d(z, pw, ph, false, h);
   // the cross-power spectrum M·conj(R) of reference R and moving M
   const cross = pairCrossPower(z, pw, ph);
@@ -79,5 +87,14 @@ export function phaseCorrelate(reference: Plane, moving: Plane, maxShift: number
       }
     }
   }
-  return { dx: bx, dy: by, peak: best };
+  let second = -Infinity;
+  for (let dy = -ry; dy <= ry; dy++) {
+    const iy = (dy + ph) % ph;
+    for (let dx = -rx; dx <= rx; dx++) {
+      if (Math.abs(dx - bx) <= 2 && Math.abs(dy - by) <= 2) continue;
+      const v = cross[2 * (iy * pw + (dx + pw) % pw)] as number;
+      if (v > second) second = v;
+    }
+  }
+  return { dx: bx, dy: by, peak: best, runnerUp: Number.isFinite(second) ? second : 0 };
 }

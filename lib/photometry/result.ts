@@ -11,6 +11,14 @@ export const WARNING_CODES = [
   'low-signal',
   'ghost-band-clipped',
   'calibration-needs-exposure',
+  'rotated',
+  'registration-uncertain',
+  'screen-fills-frame',
+  'multi-page',
+  'ratio-near-one',
+  'uniformity-invalid',
+  'transmission-above-one',
+  'both-clipped',
 ] as const;
 
 export type WarningCode = (typeof WARNING_CODES)[number];
@@ -29,8 +37,34 @@ export interface GhostResult {
   source: 'marked' | 'detected';
   /** B/S1, the uncorrected first-order estimate. */
   firstOrder: number;
-  /** Detection strength in standard errors; null when the offset was marked. */
+  /**
+   * The ghost's one-sided excess (band at the offset minus the mirrored band) in standard errors of
+   * block means, measured at full resolution; a marked ghost carries it too (older readings: null
+   * when marked).
+   */
   snr: number | null;
+  /** Pixels around the screen and inside the ghost's border left out of the band (the edge zone). */
+  edgeZone?: number;
+  /** Mean D over the mirrored band (offset −d) over mean D over the screen: light spread on every side alike. */
+  mirrorRatio?: number;
+  /** Share of the band's light that is one-sided, (band − mirror)/band. */
+  oneSided?: number;
+}
+
+/** How one photo was aligned onto the on photo (docs/method.md §5.6). */
+export interface AlignmentDetail {
+  /** Translation at the frame's centre, px, to 0.1 px. */
+  dx: number;
+  dy: number;
+  /** Camera turn, degrees (positive: clockwise on screen), to 0.01°. */
+  rotationDeg: number;
+  /** Correlation peak over the highest value away from it (above ~1.25 the match is unambiguous). */
+  peakRatio: number;
+  /** Full-resolution windows that agreed, and how far apart at most (px). */
+  windows: number;
+  spread: number;
+  /** RMS residual after alignment over the RMS signal (median over windows). */
+  residual: number | null;
 }
 
 export interface GhostAndUniformity {
@@ -65,6 +99,10 @@ export interface CaptureResult {
   clippedByPhoto: Partial<Record<PhotoRole, number>>;
   exposure: { known: boolean; scales: Partial<Record<PhotoRole, number>> };
   warnings: EngineWarning[];
+  /** Sub-pixel alignment, rotation and its quality per photo (engine 1.1.0 on). */
+  alignment?: Partial<Record<'off' | 'ambient' | 'dark', AlignmentDetail>>;
+  /** The screen's edge spread (10–90% rise, px) and the edge zone left out of ghost bands (px). */
+  edge?: { spread: number; zone: number };
 }
 
 /** Downsampled planes behind the artifacts. */
