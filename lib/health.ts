@@ -1,4 +1,4 @@
-import { getDb } from '../db/index';
+import { pingDatabase } from '../db/queries/connection';
 import { pingRedis } from './queue/connection';
 
 type Part = 'up' | 'down';
@@ -7,7 +7,7 @@ type Part = 'up' | 'down';
 export async function checkHealth(): Promise<{ db: Part; redis: Part }> {
   const timeout = <T,>(p: Promise<T>, ms: number) => Promise.race([p, new Promise<never>((_, rej) => setTimeout(() => rej(new Error('timeout')), ms))]);
   const [db, redis] = await Promise.all([
-    timeout(getDb().raw('select 1'), 2000).then(() => 'up' as const, () => 'down' as const),
+    timeout(pingDatabase(), 2000).then(() => 'up' as const, () => 'down' as const),
     timeout(pingRedis(), 2000).then(() => 'up' as const, () => 'down' as const),
   ]);
   return { db, redis };

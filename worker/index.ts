@@ -2,7 +2,7 @@
 // Options (for tests and tuning): --sweep-every=SECONDS (default 15), --sweep-grace=SECONDS (default 10).
 import { fileURLToPath } from 'node:url';
 import { Queue, Worker } from 'bullmq';
-import { closeDb, getDb } from '../db/index';
+import { closeDatabase, pingDatabase } from '../db/queries/connection';
 import { getEnv } from '../lib/env';
 import { workerConnection } from '../lib/queue/connection';
 import { ANALYSIS_QUEUE } from '../lib/queue/names';
@@ -21,7 +21,7 @@ async function main(): Promise<void> {
   const env = getEnv();
   const sweepEvery = numberArg('sweep-every', 15);
   const sweepGrace = numberArg('sweep-grace', 10);
-  await getDb().raw('select 1');
+  await pingDatabase();
 
   const workerRedis = workerConnection();
   const queueRedis = workerConnection();
@@ -72,7 +72,7 @@ async function main(): Promise<void> {
     await queue.close().catch(() => undefined);
     workerRedis.disconnect();
     queueRedis.disconnect();
-    await closeDb();
+    await closeDatabase();
     process.exit(0);
   };
   process.on('SIGTERM', () => void shutdown('SIGTERM'));

@@ -80,6 +80,12 @@ export async function getProject(labId: string, id: string): Promise<Project | n
   return row ? toProject(row) : null;
 }
 
+/** A project's id and name only (report headings), or null for another lab's or a missing one. */
+export async function getProjectName(labId: string, id: string): Promise<{ id: string; name: string } | null> {
+  const row = await getDb()('projects').where({ lab_id: labId, id }).first<{ id: string; name: string } | undefined>('id', 'name');
+  return row ?? null;
+}
+
 export async function createProject(labId: string, userId: string, input: { name: string; description?: string }): Promise<Project> {
   return getDb().transaction(async (trx) => {
     const [row] = await trx('projects')

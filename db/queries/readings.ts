@@ -1,7 +1,7 @@
 import type { Knex } from 'knex';
 import { getDb } from '../index';
 import type { CaptureResult } from '../../lib/photometry/result';
-import { toAnalysis, type Analysis } from './analyses';
+import { markAnalysisDone, toAnalysis, type Analysis } from './analyses';
 
 export type ReadingArtifacts = {
   logContrastKey?: string;
@@ -100,6 +100,18 @@ const finite = (v: number | null | undefined): number | null => (typeof v === 'n
  * Writes the reading of one analysis. Keyed on the analysis, so a job that runs twice (a worker
  * killed after writing, a redelivered job) leaves one row with the last result.
  */
+/**
+ * Saves an analysis's reading and marks the analysis done, both or neither: the worker's last step.
+ * Returns the reading's id.
+ */
+export async function saveReadingAndFinish(input: { labId: string; analysisId: string; backgroundCdm2: number | null; result: CaptureResult; artifacts: ReadingArtifacts }): Promise<string> {
+  return getDb().transaction(async (trx) => {
+    const id = await upsertReading(trx, input);
+    await markAnalysisDone(input.labId, input.analysisId, input.result.engineVersion, trx);
+    return id;
+  });
+}
+
 export async function upsertReading(
   trx: Knex | Knex.Transaction,
   input: { labId: string; analysisId: string; backgroundCdm2: number | null; result: CaptureResult; artifacts: ReadingArtifacts },

@@ -2,20 +2,23 @@ import { getComparisonGroup } from '../../db/queries/comparisons';
 import { listExportRows, type ExportRow } from '../../db/queries/exports';
 import { getRevision } from '../../db/queries/revision-edits';
 import { checkRevisionTargets, listTargets } from '../../db/queries/targets';
-import { getProjectTrend } from '../../db/queries/trends';
-import { getDb } from '../../db/index';
+import { getProjectTrend, listNewestReadings } from '../../db/queries/trends';
+import { getProjectName } from '../../db/queries/projects';
 import { notFound } from '../errors';
-import { compareGroups, formatChange, testFigures, type GroupKey } from '../targets/compare';
+import { formatLimit, formatMetricDifference, formatMetricMeanCi, formatMetricSpread, formatMetricValue, metricHeading, TABLE_METRICS } from '../format';
+import { compareGroups, formatChange, summariseComparison, testFigures, type GroupKey } from '../targets/compare';
+import { describeCondition } from '../targets/conditions';
 import { DEFAULTS_CAVEAT } from '../targets/defaults';
-import { comparatorWords, STATUS_WORDS, type Target, type TargetCheck } from '../targets/evaluate';
-import { formatMetric, metricLabelWithUnit, METRIC_LIST, METRICS, type MetricKey } from '../targets/metrics';
-import { formatMeanCi, type Trend } from '../targets/series';
+import { comparatorWords, revisionVerdictText, STATUS_WORDS, type Target, type TargetCheck } from '../targets/evaluate';
+import { METRICS, type MetricKey } from '../targets/metrics';
+import { revisionStatistics, trendByVariant, variantLabel, type Trend } from '../targets/series';
 import { REPORT_CAUTIONS } from './cautions';
 import { ReportWriter, type ChartGroup } from './pdf';
 
 export type ReportOptions = { labName: string; compress?: boolean; now?: Date };
 
-const targetText = (t: Target) => `${METRICS[t.metric].label} ${comparatorWords(t.comparator)} ${formatMetric(t.metric, t.value)}`;
+const targetText = (t: Target) => `${METRICS[t.metric].label} ${comparatorWords(t.comparator)} ${formatLimit(t.metric, t.value)}`;
+const conditionText = (t: Target) => [describeCondition(t.condition ?? {}), t.conditionNote].filter(Boolean).join(' · ') || 'any';
 
 function writeTargets(w: ReportWriter, checks: TargetCheck[], scope: string): void {
   w.heading(`Targets on ${scope}`);
@@ -23,37 +26,51 @@ function writeTargets(w: ReportWriter, checks: TargetCheck[], scope: string): vo
     w.paragraph('No targets are set for this project.', { muted: true });
     return;
   }
+  w.paragraph(`${scope} ${revisionVerdictText(checks)}.`);
   w.table(
     [
-      { header: 'Target', width: 4 },
-      { header: 'Condition', width: 4 },
-      { header: 'Mean (n)', width: 2, align: 'right' },
-      { header: 'Status', width: 1.4 },
+      { header: 'Variant', width: 2 },
+      { header: 'Target', width: 3.6 },
+      { header: 'Condition', width: 3.4 },
+      { header: 'Mean (n)', width: 2.2, align: 'right' },
+      { header: 'Status', width: 1.3 },
     ],
     checks.map((c) => ({
-      cells: [`${targetText(c.target)}${c.target.isDefault ? ' (default)' : ''}`, c.target.conditionNote || '—', c.mean === null ? '—' : `${formatMetric(c.target.metric, c.mean, false)} (${c.n})`, STATUS_WORDS[c.status].toUpperCase()],
-      tone: [undefined, undefined, undefined, c.status === 'no-data' ? undefined : c.status],
+      cells: [
+        c.variant === undefined ? 'all' : variantLabel(c.variant),
+        `${targetText(c.target)}${c.target.isDefault ? ' (default)' : ''}`,
+        conditionText(c.target),
+        c.mean === null ? '—' : `${formatMetricValue(c.target.metric, c.mean)} (${c.n}${c.excluded ? `; ${c.excluded} left out` : ''})`,
+        STATUS_WORDS[c.status].toUpperCase(),
+      ],
+      tone: [undefined, undefined, undefined, undefined, c.status === 'no-data' ? undefined : c.status],
     })),
   );
-  w.paragraph('Each target is judged on the mean of the newest reading of every capture set.', { muted: true, size: 8 });
+  w.paragraph('Each target is judged per variant, on the mean of the newest reading of every capture set whose stated conditions meet the target’s; the others are left out.', { muted: true, size: 8 });
   if (checks.some((c) => c.target.isDefault)) w.paragraph(DEFAULTS_CAVEAT, { muted: true, size: 8 });
 }
 
 function writeReadings(w: ReportWriter, rows: ExportRow[], withRevision: boolean): void {
-  const keys: MetricKey[] = ['ambientContrastRatio', 'michelson', 'ghostRatio', 'transmission', 'uniformity', 'tintDeltaE00'];
+  const keys = TABLE_METRICS;
   w.table(
-    [...(withRevision ? [{ header: 'Revision', width: 1.6 }] : []), { header: 'Capture set', width: 3 }, { header: 'Variant', width: 2 }, ...keys.map((k) => ({ header: METRICS[k].short, width: 1.5, align: 'right' as const }))],
-    rows.map((r) => ({ cells: [...(withRevision ? [r.revisionLabel] : []), r.captureLabel, r.variant || '—', ...keys.map((k) => formatMetric(k, r[k], false))] })),
+    [...(withRevision ? [{ header: 'Revision', width: 1.6 }] : []), { header: 'Capture set', width: 3 }, { header: 'Variant', width: 2 }, ...keys.map((k) => ({ header: metricHeading(k), width: 1.7, align: 'right' as const }))],
+    rows.map((r) => ({ cells: [...(withRevision ? [r.revisionLabel] : []), r.captureLabel, r.variant || '—', ...keys.map((k) => formatMetricValue(k, r[k]))] })),
   );
 }
 
 function trendChart(trend: Trend, targets: Target[], highlight: string | null, checks: TargetCheck[]): { title: string; unit: string; groups: ChartGroup[]; targets: { value: number; label: string; failing?: boolean }[] } {
-  const m = METRICS[trend.metric];
+  const { variants, stats } = trendByVariant(trend);
+  // a revision with several variants gets one group per variant: the chart never draws a blend
+  const groups: ChartGroup[] = trend.revisions.flatMap((r, i) => {
+    const own = variants.map((v, j) => ({ v, s: stats[i]![j]! })).filter((x) => x.s.n > 0);
+    if (own.length <= 1) return [{ label: own[0]?.v ? `${r.label} · ${own[0].v}` : r.label, mean: r.stats.mean, low: r.stats.low, high: r.stats.high, points: r.points.map((p) => p.value), highlight: r.id === highlight }];
+    return own.map(({ v, s }) => ({ label: `${r.label} · ${variantLabel(v)}`, mean: s.mean, low: s.low, high: s.high, points: r.points.filter((p) => p.variant === v).map((p) => p.value), highlight: r.id === highlight }));
+  });
   return {
-    title: `${m.label} across revisions`,
-    unit: m.unit === ':1' ? 'ratio' : m.unit,
-    groups: trend.revisions.map((r) => ({ label: r.label, mean: r.stats.mean, low: r.stats.low, high: r.stats.high, points: r.points.map((p) => p.value), highlight: r.id === highlight })),
-    targets: targets.filter((t) => t.metric === trend.metric).map((t) => ({ value: t.value, label: `target ${t.comparator} ${formatMetric(t.metric, t.value)}`, failing: checks.find((c) => c.target.id === t.id)?.status === 'fail' })),
+    title: `${metricHeading(trend.metric)} across revisions`,
+    unit: METRICS[trend.metric].unit.trim(),
+    groups,
+    targets: targets.filter((t) => t.metric === trend.metric).map((t) => ({ value: t.value, label: `target ${t.comparator} ${formatLimit(t.metric, t.value)}`, failing: checks.some((c) => c.target.id === t.id && c.status === 'fail') })),
   };
 }
 
@@ -61,11 +78,12 @@ function trendChart(trend: Trend, targets: Target[], highlight: string | null, c
 export async function revisionReport(labId: string, revisionId: string, opts: ReportOptions): Promise<{ bytes: Buffer; name: string }> {
   const revision = await getRevision(labId, revisionId);
   if (!revision) throw notFound('No such revision');
-  const [checks, trend, rows, targets] = await Promise.all([
+  const [checks, trend, rows, targets, readings] = await Promise.all([
     checkRevisionTargets(labId, revision.projectId, revision.id),
     getProjectTrend(labId, revision.projectId),
     listExportRows(labId, { projectId: revision.projectId, revisionId: revision.id }),
     listTargets(labId, revision.projectId),
+    listNewestReadings(labId, { projectId: revision.projectId, revisionId: revision.id }),
   ]);
   if (!trend) throw notFound('No such revision');
   const now = opts.now ?? new Date();
@@ -74,13 +92,15 @@ export async function revisionReport(labId: string, revisionId: string, opts: Re
   if (revision.notes) w.paragraph(revision.notes, { muted: true });
   writeTargets(w, checks, revision.label);
   w.heading(`Statistics of ${revision.label}`);
+  // over all capture sets, then each variant on its own (the same rows as the revision page)
+  const statistics = revisionStatistics(readings);
   w.table(
-    [{ header: 'Metric', width: 3 }, { header: 'n', width: 0.8, align: 'right' }, { header: 'Mean ± 95% CI', width: 3, align: 'right' }, { header: 'SD', width: 1.6, align: 'right' }],
-    METRIC_LIST.map((m) => {
-      const s = trend.trends[m.key].revisions.find((r) => r.id === revision.id)?.stats;
-      return { cells: [metricLabelWithUnit(m), String(s?.n ?? 0), s ? formatMeanCi(m.key, s) : '—', formatMetric(m.key, s?.sd, false)] };
-    }),
+    [{ header: 'Metric', width: 3 }, { header: 'Captures', width: 2.2 }, { header: 'n', width: 0.7, align: 'right' }, { header: 'Mean ± 95% CI', width: 3, align: 'right' }, { header: 'SD', width: 1.6, align: 'right' }],
+    statistics.rows.map((r) => ({
+      cells: [metricHeading(r.metric), r.variant === null ? 'all' : variantLabel(r.variant), String(r.stats.n), formatMetricMeanCi(r.metric, r.stats), formatMetricSpread(r.metric, r.stats.sd)],
+    })),
   );
+  if (statistics.unmeasured.length) w.paragraph(`No readings yet of: ${statistics.unmeasured.map((k) => METRICS[k].label.toLowerCase()).join(', ')}.`, { muted: true, size: 8 });
   const charted = new Set<MetricKey>(['ambientContrastRatio', ...targets.map((t) => t.metric)]);
   for (const key of charted) w.chart(trendChart(trend.trends[key], targets, revision.id, checks));
   w.heading('Readings');
@@ -94,7 +114,7 @@ export async function revisionReport(labId: string, revisionId: string, opts: Re
 
 /** The PDF of a whole project: each revision's target status, the trend charts, readings, cautions. */
 export async function projectReport(labId: string, projectId: string, opts: ReportOptions): Promise<{ bytes: Buffer; name: string }> {
-  const project = await getDb()('projects').where({ lab_id: labId, id: projectId }).first<{ id: string; name: string } | undefined>('id', 'name');
+  const project = await getProjectName(labId, projectId);
   if (!project) throw notFound('No such project');
   const [trend, targets, rows] = await Promise.all([getProjectTrend(labId, project.id), listTargets(labId, project.id), listExportRows(labId, { projectId: project.id })]);
   if (!trend) throw notFound('No such project');
@@ -129,7 +149,7 @@ export async function loadComparison(labId: string, projectId: string, a: GroupK
 
 /** The PDF of a comparison: B against A per metric with CI, the change as a share of A, Welch t, df, p and the verdict. */
 export async function comparisonReport(labId: string, projectId: string, a: GroupKey, b: GroupKey, opts: ReportOptions): Promise<{ bytes: Buffer; name: string }> {
-  const project = await getDb()('projects').where({ lab_id: labId, id: projectId }).first<{ id: string; name: string } | undefined>('id', 'name');
+  const project = await getProjectName(labId, projectId);
   if (!project) throw notFound('No such project');
   const cmp = await loadComparison(labId, project.id, a, b);
   const targets = await listTargets(labId, project.id);
@@ -150,16 +170,17 @@ export async function comparisonReport(labId: string, projectId: string, a: Grou
     ],
     cmp.metrics.map((c) => ({
       cells: [
-        METRICS[c.metric].label,
-        `${formatMeanCi(c.metric, c.a)} (n ${c.a.n})`,
-        `${formatMeanCi(c.metric, c.b)} (n ${c.b.n})`,
-        c.test ? `${formatMetric(c.metric, c.test.difference, false)} ± ${formatMetric(c.metric, c.test.ci.halfWidth, false)}` : '—',
+        metricHeading(c.metric),
+        `${formatMetricMeanCi(c.metric, c.a)} (n ${c.a.n})`,
+        `${formatMetricMeanCi(c.metric, c.b)} (n ${c.b.n})`,
+        c.test ? formatMetricDifference(c.metric, c.test.difference, c.test.ci.halfWidth) : '—',
         formatChange(c),
         ...testFigures(c),
       ],
     })),
   );
   w.heading('In plain words');
+  w.paragraph(summariseComparison(cmp.a.label, cmp.b.label, cmp.metrics, targets).text);
   w.bullets(cmp.metrics.filter((c) => c.level !== 'no-data').map((c) => c.verdict));
   w.paragraph('Welch’s t test (unequal variances, Welch–Satterthwaite degrees of freedom), two-sided. Fewer than 3 captures in a group: too few to tell.', { muted: true, size: 8 });
   const charted = new Set<MetricKey>(['ambientContrastRatio', ...targets.map((t) => t.metric)]);
@@ -168,13 +189,13 @@ export async function comparisonReport(labId: string, projectId: string, a: Grou
     const c = cmp.metrics.find((x) => x.metric === key);
     if (!c) continue;
     w.chart({
-      title: m.label,
-      unit: m.unit === ':1' ? 'ratio' : m.unit,
+      title: metricHeading(key),
+      unit: m.unit.trim(),
       groups: [
         { label: `A: ${cmp.a.label}`, mean: c.a.mean, low: c.a.low, high: c.a.high, points: cmp.a.readings.map((r) => r.values[key]).filter((v): v is number => v !== null) },
         { label: `B: ${cmp.b.label}`, mean: c.b.mean, low: c.b.low, high: c.b.high, points: cmp.b.readings.map((r) => r.values[key]).filter((v): v is number => v !== null) },
       ],
-      targets: targets.filter((t) => t.metric === key).map((t) => ({ value: t.value, label: `target ${t.comparator} ${formatMetric(key, t.value)}` })),
+      targets: targets.filter((t) => t.metric === key).map((t) => ({ value: t.value, label: `target ${t.comparator} ${formatLimit(key, t.value)}` })),
     });
   }
   w.heading('Readings');

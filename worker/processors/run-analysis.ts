@@ -1,10 +1,9 @@
-import { getDb } from '../../db/index';
-import { markAnalysisDone, setAnalysisProgress, startAnalysisRun } from '../../db/queries/analyses';
+import { setAnalysisProgress, startAnalysisRun } from '../../db/queries/analyses';
 import { findCameraProfile } from '../../db/queries/camera-profiles';
 import { getCaptureSet } from '../../db/queries/capture-sets';
 import { listPhotos, type Photo } from '../../db/queries/photos';
 import { listRegions } from '../../db/queries/regions';
-import { upsertReading, type ReadingArtifacts } from '../../db/queries/readings';
+import { saveReadingAndFinish, type ReadingArtifacts } from '../../db/queries/readings';
 import { analyzeFiles, type PhotoSource } from '../../lib/image';
 import { EngineInputError } from '../../lib/photometry/errors';
 import { photoEncoding } from '../../lib/schemas/capture-set';
@@ -119,11 +118,7 @@ export async function runAnalysis(labId: string, analysisId: string, onProgress?
 
   report('saving', 96, true);
   await pending;
-  const readingId = await getDb().transaction(async (trx) => {
-    const id = await upsertReading(trx, { labId, analysisId, backgroundCdm2: set.conditions.backgroundCdm2 ?? null, result, artifacts: stored });
-    await markAnalysisDone(labId, analysisId, result.engineVersion, trx);
-    return id;
-  });
+  const readingId = await saveReadingAndFinish({ labId, analysisId, backgroundCdm2: set.conditions.backgroundCdm2 ?? null, result, artifacts: stored });
   // the reading is saved: a failed target check or mail must never turn the analysis into a failure
   try {
     await notifyTargetFailures(labId, set.revisionId);
