@@ -5,7 +5,7 @@ import { checkRevisionTargets, listTargets } from '../../db/queries/targets';
 import { getProjectTrend, listNewestReadings } from '../../db/queries/trends';
 import { getProjectName } from '../../db/queries/projects';
 import { notFound } from '../errors';
-import { formatLimit, formatMetricDifference, formatMetricMeanCi, formatMetricSpread, formatMetricValue, metricHeading, TABLE_METRICS } from '../format';
+import { formatLimit, formatMetricDifference, formatMetricMeanCi, formatMetricSpread, formatMetricValue, formatTick, metricHeading, TABLE_METRICS } from '../format';
 import { compareGroups, formatChange, summariseComparison, testFigures, type GroupKey } from '../targets/compare';
 import { describeCondition } from '../targets/conditions';
 import { DEFAULTS_CAVEAT } from '../targets/defaults';
@@ -13,7 +13,7 @@ import { comparatorWords, revisionVerdictText, STATUS_WORDS, type Target, type T
 import { METRICS, type MetricKey } from '../targets/metrics';
 import { revisionStatistics, trendByVariant, variantLabel, type Trend } from '../targets/series';
 import { REPORT_CAUTIONS } from './cautions';
-import { ReportWriter, type ChartGroup } from './pdf';
+import { ReportWriter, type ChartGroup, type ChartSpec } from './pdf';
 
 export type ReportOptions = { labName: string; compress?: boolean; now?: Date };
 
@@ -58,7 +58,7 @@ function writeReadings(w: ReportWriter, rows: ExportRow[], withRevision: boolean
   );
 }
 
-function trendChart(trend: Trend, targets: Target[], highlight: string | null, checks: TargetCheck[]): { title: string; unit: string; groups: ChartGroup[]; targets: { value: number; label: string; failing?: boolean }[] } {
+function trendChart(trend: Trend, targets: Target[], highlight: string | null, checks: TargetCheck[]): ChartSpec {
   const { variants, stats } = trendByVariant(trend);
   // a revision with several variants gets one group per variant: the chart never draws a blend
   const groups: ChartGroup[] = trend.revisions.flatMap((r, i) => {
@@ -69,6 +69,7 @@ function trendChart(trend: Trend, targets: Target[], highlight: string | null, c
   return {
     title: `${metricHeading(trend.metric)} across revisions`,
     unit: METRICS[trend.metric].unit.trim(),
+    tick: (v) => formatTick(trend.metric, v),
     groups,
     targets: targets.filter((t) => t.metric === trend.metric).map((t) => ({ value: t.value, label: `target ${t.comparator} ${formatLimit(t.metric, t.value)}`, failing: checks.some((c) => c.target.id === t.id && c.status === 'fail') })),
   };
@@ -191,6 +192,7 @@ export async function comparisonReport(labId: string, projectId: string, a: Grou
     w.chart({
       title: metricHeading(key),
       unit: m.unit.trim(),
+      tick: (v) => formatTick(key, v),
       groups: [
         { label: `A: ${cmp.a.label}`, mean: c.a.mean, low: c.a.low, high: c.a.high, points: cmp.a.readings.map((r) => r.values[key]).filter((v): v is number => v !== null) },
         { label: `B: ${cmp.b.label}`, mean: c.b.mean, low: c.b.low, high: c.b.high, points: cmp.b.readings.map((r) => r.values[key]).filter((v): v is number => v !== null) },

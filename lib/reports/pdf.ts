@@ -1,10 +1,23 @@
+import { existsSync } from 'node:fs';
 import PDFDocument from 'pdfkit';
 
 /** One column of a PDF table: share of the width and alignment. */
 export type PdfColumn = { header: string; width: number; align?: 'left' | 'right' };
 
 export type ChartGroup = { label: string; mean: number | null; low: number | null; high: number | null; points: number[]; highlight?: boolean };
-export type ChartSpec = { title: string; unit: string; groups: ChartGroup[]; targets: { value: number; label: string; failing?: boolean }[] };
+export type ChartSpec = { title: string; unit: string; groups: ChartGroup[]; targets: { value: number; label: string; failing?: boolean }[]; tick?: (v: number) => string };
+
+// A Unicode font prints ΔE00, ≥ and accented or Greek names as they are; without one the built-in
+// Helvetica (WinAnsi only) is used and pdfText spells those symbols out.
+const FONT_DIRS = [process.env.VEILMETER_PDF_FONT_DIR, '/usr/share/fonts/truetype/dejavu'].filter((d): d is string => !!d);
+function unicodeFonts(): { regular: string; bold: string } | null {
+  for (const dir of FONT_DIRS) {
+    const regular = `${dir}/DejaVuSans.ttf`;
+    const bold = `${dir}/DejaVuSans-Bold.ttf`;
+    if (existsSync(regular) && existsSync(bold)) return { regular, bold };
+  }
+  return null;
+}
 
 const INK = '#18202c';
 const MUTED = '#5c687a';
@@ -15,10 +28,11 @@ const FAIL = '#c02c2c';
 const PASS = '#1e8449';
 
 // The built-in Helvetica speaks WinAnsi only: symbols outside it become plain-text equivalents.
-const REPLACE: Record<string, string> = { '≥': '>=', '≤': '<=', 'Δ': 'd', '−': '-', '≈': '~', '×': 'x', '√': 'sqrt', '…': '...', '→': '->', '·': '·', '²': '²', '±': '±' };
+const REPLACE: Record<string, string> = { '≥': '>=', '≤': '<=', 'Δ': 'Delta ', '−': '-', '≈': '~', '×': 'x', '√': 'sqrt', '…': '...', '→': '->', '·': '·', '²': '²', '±': '±' };
 
 /** Text that Helvetica can set: known symbols spelled out, anything else outside Latin-1 dropped to '?'. */
-export function pdfText(s: string): string {
+export function pdfText(s: string, unicode = false): string {
+  if (unicode) return s;
   let out = '';
   for (const ch of s) {
     const r = REPLACE[ch];
@@ -35,14 +49,29 @@ export class ReportWriter {
   readonly doc: PDFKit.PDFDocument;
   private readonly chunks: Buffer[] = [];
   private readonly done: Promise<Buffer>;
+  private readonly fr: string;
+  private readonly fb: string;
+  private readonly unicode: boolean;
 
   constructor(title: string, opts: { compress?: boolean } = {}) {
     this.doc = new PDFDocument({ size: 'A4', margin: 48, bufferPages: true, compress: opts.compress ?? true, info: { Title: pdfText(title), Author: 'Veilmeter', Creator: 'Veilmeter' } });
+    const fonts = unicodeFonts();
+    this.unicode = fonts !== null;
+    if (fonts) {
+      this.doc.registerFont('Body', fonts.regular);
+      this.doc.registerFont('Body-Bold', fonts.bold);
+    }
+    this.fr = fonts ? 'Body' : 'Helvetica';
+    this.fb = fonts ? 'Body-Bold' : 'Helvetica-Bold';
     this.doc.on('data', (c: Buffer) => this.chunks.push(c));
     this.done = new Promise((resolve, reject) => {
       this.doc.on('end', () => resolve(Buffer.concat(this.chunks)));
       this.doc.on('error', reject);
     });
+  }
+
+  private t(s: string): string {
+    return pdfText(s, this.unicode);
   }
 
   private get width(): number {
@@ -55,23 +84,23 @@ export class ReportWriter {
 
   title(kicker: string, title: string, sub: string): this {
     const d = this.doc;
-    d.font('Helvetica').fontSize(9).fillColor(BEAM).text(pdfText(kicker.toUpperCase()), { characterSpacing: 1.2 });
-    d.moveDown(0.2).font('Helvetica-Bold').fontSize(20).fillColor(INK).text(pdfText(title));
-    d.moveDown(0.2).font('Helvetica').fontSize(9).fillColor(MUTED).text(pdfText(sub));
+    d.font(this.fr).fontSize(9).fillColor(BEAM).text(this.t(kicker.toUpperCase()), { characterSpacing: 1.2 });
+    d.moveDown(0.2).font(this.fb).fontSize(20).fillColor(INK).text(this.t(title));
+    d.moveDown(0.2).font(this.fr).fontSize(9).fillColor(MUTED).text(this.t(sub));
     d.moveDown(0.8);
     return this;
   }
 
   heading(text: string): this {
     this.ensure(60);
-    this.doc.moveDown(0.6).font('Helvetica-Bold').fontSize(12).fillColor(INK).text(pdfText(text), this.doc.page.margins.left);
+    this.doc.moveDown(0.6).font(this.fb).fontSize(12).fillColor(INK).text(this.t(text), this.doc.page.margins.left);
     this.doc.moveDown(0.3);
     return this;
   }
 
   paragraph(text: string, opts: { muted?: boolean; size?: number } = {}): this {
     this.ensure(30);
-    this.doc.font('Helvetica').fontSize(opts.size ?? 9.5).fillColor(opts.muted ? MUTED : INK).text(pdfText(text), this.doc.page.margins.left, undefined, { width: this.width });
+    this.doc.font(this.fr).fontSize(opts.size ?? 9.5).fillColor(opts.muted ? MUTED : INK).text(this.t(text), this.doc.page.margins.left, undefined, { width: this.width });
     this.doc.moveDown(0.4);
     return this;
   }
@@ -88,8 +117,8 @@ export class ReportWriter {
     const widths = columns.map((c) => (c.width / total) * this.width);
     const left = d.page.margins.left;
     const rowHeight = (cells: string[], bold: boolean) => {
-      d.font(bold ? 'Helvetica-Bold' : 'Helvetica').fontSize(8.5);
-      return Math.max(...cells.map((c, i) => d.heightOfString(pdfText(c), { width: (widths[i] ?? 40) - 6 }))) + 6;
+      d.font(bold ? this.fb : this.fr).fontSize(8.5);
+      return Math.max(...cells.map((c, i) => d.heightOfString(this.t(c), { width: (widths[i] ?? 40) - 6 }))) + 6;
     };
     const drawRow = (cells: string[], bold: boolean, tone?: (string | undefined)[]) => {
       const h = rowHeight(cells, bold);
@@ -98,8 +127,8 @@ export class ReportWriter {
       let x = left;
       cells.forEach((c, i) => {
         const w = widths[i] ?? 40;
-        d.font(bold ? 'Helvetica-Bold' : 'Helvetica').fontSize(8.5).fillColor(tone?.[i] === 'fail' ? FAIL : tone?.[i] === 'pass' ? PASS : bold ? MUTED : INK);
-        d.text(pdfText(c), x + 3, y + 3, { width: w - 6, align: columns[i]?.align ?? 'left' });
+        d.font(bold ? this.fb : this.fr).fontSize(8.5).fillColor(tone?.[i] === 'fail' ? FAIL : tone?.[i] === 'pass' ? PASS : bold ? MUTED : INK);
+        d.text(this.t(c), x + 3, y + 3, { width: w - 6, align: columns[i]?.align ?? 'left' });
         x += w;
       });
       d.moveTo(left, y + h).lineTo(left + this.width, y + h).lineWidth(0.5).strokeColor(LINE).stroke();
@@ -116,7 +145,7 @@ export class ReportWriter {
   chart(spec: ChartSpec, height = 200): this {
     const d = this.doc;
     this.ensure(height + 50);
-    d.font('Helvetica-Bold').fontSize(9.5).fillColor(INK).text(pdfText(spec.title), d.page.margins.left);
+    d.font(this.fb).fontSize(9.5).fillColor(INK).text(this.t(spec.title), d.page.margins.left);
     const top = d.y + 6;
     const left = d.page.margins.left + 44;
     const right = d.page.margins.left + this.width - 8;
@@ -134,14 +163,15 @@ export class ReportWriter {
       hi += Math.abs(hi) * 0.1 || 0.5;
     }
     const pad = (hi - lo) * 0.08;
-    lo -= pad;
+    // no negative axis for quantities that cannot be negative (ratios, fractions)
+    lo = lo >= 0 ? Math.max(0, lo - pad) : lo - pad;
     hi += pad;
     const y = (v: number) => bottom - ((v - lo) / (hi - lo)) * height;
     d.lineWidth(0.5).strokeColor(LINE);
     for (let i = 0; i <= 4; i++) {
       const v = lo + ((hi - lo) * i) / 4;
       d.moveTo(left, y(v)).lineTo(right, y(v)).stroke();
-      d.font('Helvetica').fontSize(7).fillColor(MUTED).text(v.toPrecision(3), left - 42, y(v) - 3, { width: 38, align: 'right' });
+      d.font(this.fr).fontSize(7).fillColor(MUTED).text(spec.tick ? spec.tick(v) : v.toPrecision(3), left - 42, y(v) - 3, { width: 38, align: 'right' });
     }
     d.moveTo(left, top).lineTo(left, bottom).lineTo(right, bottom).lineWidth(0.8).strokeColor(MUTED).stroke();
     const n = Math.max(spec.groups.length, 1);
@@ -158,15 +188,15 @@ export class ReportWriter {
         for (const v of [g.low, g.high]) d.moveTo(cx - 5, y(v)).lineTo(cx + 5, y(v)).stroke();
       }
       if (g.mean !== null) d.moveTo(cx - 10, y(g.mean)).lineTo(cx + 10, y(g.mean)).lineWidth(2.2).strokeColor(BEAM).stroke();
-      d.font('Helvetica').fontSize(7.5).fillColor(INK).text(pdfText(g.label), cx - step / 2, bottom + 4, { width: step, align: 'center' });
+      d.font(this.fr).fontSize(7.5).fillColor(INK).text(this.t(g.label), cx - step / 2, bottom + 4, { width: step, align: 'center' });
     });
     for (const t of spec.targets) {
       d.moveTo(left, y(t.value)).lineTo(right, y(t.value)).dash(4, { space: 3 }).lineWidth(1).strokeColor(t.failing ? FAIL : PASS).stroke().undash();
-      d.font('Helvetica').fontSize(7).fillColor(t.failing ? FAIL : PASS).text(pdfText(t.label), right - 200, y(t.value) - 9, { width: 198, align: 'right' });
+      d.font(this.fr).fontSize(7).fillColor(t.failing ? FAIL : PASS).text(this.t(t.label), right - 200, y(t.value) - 9, { width: 198, align: 'right' });
     }
     d.x = d.page.margins.left;
     d.y = bottom + 22;
-    d.font('Helvetica').fontSize(7.5).fillColor(MUTED).text(pdfText(`Dots: captures (newest reading each). Bar: mean. Whiskers: 95% CI of the mean (Student's t). Dashed: targets.${spec.unit ? ` Unit: ${spec.unit}.` : ''}`));
+    d.font(this.fr).fontSize(7.5).fillColor(MUTED).text(this.t(`Dots: captures (newest reading each). Bar: mean. Whiskers: 95% CI of the mean (Student's t). Dashed: targets.${spec.unit ? ` Unit: ${spec.unit}.` : ''}`));
     d.moveDown(0.6);
     return this;
   }
@@ -179,7 +209,7 @@ export class ReportWriter {
       const bottom = this.doc.page.height - 30;
       const m = this.doc.page.margins.bottom;
       this.doc.page.margins.bottom = 0;
-      this.doc.font('Helvetica').fontSize(7).fillColor(MUTED).text(pdfText(`${footer} · page ${i + 1} of ${range.count}`), this.doc.page.margins.left, bottom, { width: this.width, align: 'center', lineBreak: false });
+      this.doc.font(this.fr).fontSize(7).fillColor(MUTED).text(this.t(`${footer} · page ${i + 1} of ${range.count}`), this.doc.page.margins.left, bottom, { width: this.width, align: 'center', lineBreak: false });
       this.doc.page.margins.bottom = m;
     }
     this.doc.end();
