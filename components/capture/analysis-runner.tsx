@@ -7,7 +7,22 @@ import { Button } from '@/components/ui/button';
 import { useAnalysisStatus, useStartAnalysis } from '@/lib/hooks/use-analysis';
 
 /** "Analyse" and the live progress of the newest analysis; the page reloads its readings when it ends. */
-export function AnalysisRunner({ captureSetId, current, canRun, ready, readyHint }: { captureSetId: string; current: string | null; canRun: boolean; ready: boolean; readyHint: string }) {
+export function AnalysisRunner({
+  captureSetId,
+  current,
+  canRun,
+  ready,
+  readyHint,
+  outdated = null,
+}: {
+  captureSetId: string;
+  current: string | null;
+  canRun: boolean;
+  ready: boolean;
+  readyHint: string;
+  /** Set when the reading shown was made by an older engine than the current one. */
+  outdated?: { readingEngine: string; currentEngine: string } | null;
+}) {
   const router = useRouter();
   const [analysisId, setAnalysisId] = useState<string | null>(current);
   const [notice, setNotice] = useState<string | null>(null);
@@ -27,25 +42,39 @@ export function AnalysisRunner({ captureSetId, current, canRun, ready, readyHint
   const busy = a?.status === 'queued' || a?.status === 'running';
   const percent = a ? (a.status === 'done' ? 100 : a.progress) : 0;
 
+  const run = async () => {
+    setError(null);
+    setNotice(null);
+    try {
+      const out = await start.mutateAsync();
+      finished.current = null;
+      setAnalysisId(out.analysis.id);
+      if (!out.enqueued) setNotice(out.message);
+    } catch (e) {
+      setError((e as Error).message);
+    }
+  };
+
   return (
     <div className="space-y-3">
+      {outdated ? (
+        <div className="flex flex-wrap items-center gap-3 rounded-md border border-warn/50 bg-warn/10 px-3 py-2 text-sm text-ink" data-testid="outdated-engine">
+          <span>
+            Measured with engine {outdated.readingEngine} — the current engine is {outdated.currentEngine}. Its numbers may differ from a new analysis of the same photos.
+          </span>
+          {canRun ? (
+            <Button type="button" tone="quiet" disabled={!ready || start.isPending || busy} onClick={run}>
+              {busy ? 'Re-analysing…' : `Re-analyse with engine ${outdated.currentEngine}`}
+            </Button>
+          ) : null}
+        </div>
+      ) : null}
       {canRun ? (
         <div className="flex flex-wrap items-center gap-3">
           <Button
             type="button"
             disabled={!ready || start.isPending || busy}
-            onClick={async () => {
-              setError(null);
-              setNotice(null);
-              try {
-                const out = await start.mutateAsync();
-                finished.current = null;
-                setAnalysisId(out.analysis.id);
-                if (!out.enqueued) setNotice(out.message);
-              } catch (e) {
-                setError((e as Error).message);
-              }
-            }}
+            onClick={run}
           >
             {start.isPending ? 'Queuing…' : busy ? 'Analysing…' : current ? 'Analyse again' : 'Analyse'}
           </Button>

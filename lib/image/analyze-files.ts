@@ -40,6 +40,9 @@ export interface FileAnalysis {
   artifacts: Artifacts | null;
 }
 
+// a file of several pages (a multi-page TIFF): the decoder measured the first, and the reading says so
+const pagesOf = (count: number): CapturePhoto['pages'] => (count > 1 ? { count, measured: 0 } : null);
+
 async function load(source: PhotoSource, role: PhotoRole): Promise<{ name: string; bytes: Uint8Array }> {
   if (typeof source !== 'string') return source;
   try {
@@ -73,7 +76,7 @@ async function analyzeBrackets(options: AnalyzeFilesOptions): Promise<FileAnalys
     const decoded = await Promise.all(
       files.map(async (f, i) => {
         const d = await decodePhoto(f.bytes, { name: sources.length > 1 ? `the ${role} photo ${f.name} (bracket ${i + 1} of ${sources.length})` : `the ${role} photo ${f.name}`, linear16: linearOf(sources[i] as PhotoSource, options) });
-        return { raster: d.raster, exposure: d.exposure } satisfies CapturePhoto;
+        return { raster: d.raster, exposure: d.exposure, pages: pagesOf(d.pages) } satisfies CapturePhoto;
       }),
     );
     const merged = resolveRolePhoto(decoded, role);
@@ -111,7 +114,7 @@ async function analyzeSingles(options: AnalyzeFilesOptions & { on: PhotoSource; 
     const f = files[k] as { name: string; bytes: Uint8Array };
     const role = (sources[k] as [PhotoRole, PhotoSource])[0];
     const decoded = await decodePhoto(f.bytes, { name: `the ${role} photo ${f.name}`, linear16: linearOf((sources[k] as [PhotoRole, PhotoSource])[1], options), onDecodeStarted });
-    const photo: CapturePhoto = { raster: decoded.raster, exposure: decoded.exposure, small: preparePhoto(decoded.raster) };
+    const photo: CapturePhoto = { raster: decoded.raster, exposure: decoded.exposure, small: preparePhoto(decoded.raster), pages: pagesOf(decoded.pages) };
     return [role, photo] as const;
   };
   const common = {

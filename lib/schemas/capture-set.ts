@@ -77,8 +77,14 @@ export function photoEncoding(setting: TiffEncodingSetting, p: PhotoEncodingFact
     return {
       linear: false,
       by: 'set',
-      conflict: `The capture set is declared linear 16-bit, but the ${p.role} photo ${p.originalName} is a ${what}: upload its 16-bit TIFF, or set “16-bit TIFF encoding” to “as each file says”`,
+      conflict: `The capture set is declared linear 16-bit, but the ${p.role} photo ${p.originalName} is ${p.bitDepth === 8 ? 'an' : 'a'} ${what}: upload its 16-bit TIFF, or set “16-bit TIFF encoding” to “as each file says”`,
     };
   }
   return { linear: p.encodingFile === 'linear' && isSixteenBitTiff(p), by: 'file', conflict: null };
 }
+
+/** Re-analyse a whole project, or one of its revisions, with the current engine. */
+export const reanalyseSchema = z.object({
+  projectId: z.string({ message: 'Say which project' }).uuid({ message: 'Say which project' }),
+  revisionId: z.string().uuid({ message: 'That is not a revision' }).nullable().default(null),
+});

@@ -34,7 +34,7 @@ export async function ingestPhoto(input: { labId: string; userId: string; captur
 
   // only a 16-bit TIFF can hold linear values (the engine refuses the rest, as the CLI's --linear16 does)
   if (input.encoding === 'linear' && !(probed.format === 'tiff' && probed.bitDepth === 16)) {
-    throw refuse(`${name} is a ${probed.bitDepth}-bit ${probed.format.toUpperCase()}, so it cannot be declared linear: only 16-bit TIFFs can.`, 'not_linear');
+    throw refuse(`${name} is ${probed.bitDepth === 8 ? 'an' : 'a'} ${probed.bitDepth}-bit ${probed.format === 'jpeg' ? 'JPEG' : probed.format.toUpperCase()}, so it cannot be declared linear: only 16-bit TIFFs can.`, 'not_linear');
   }
 
   const sha256 = createHash('sha256').update(bytes).digest('hex');

@@ -39,6 +39,8 @@ const ROUTES: { method: string; path: string; access: Access; query?: string }[]
   { method: 'GET', path: '/api/revisions/[revisionId]/readings.csv', access: 'export.create' },
   { method: 'GET', path: '/api/revisions/[revisionId]/report.pdf', access: 'export.create' },
   { method: 'POST', path: '/api/captures', access: 'capture.write' },
+  { method: 'POST', path: '/api/captures/reanalyses', access: 'analysis.run' },
+  { method: 'GET', path: '/api/captures/reanalyses/[batchId]', access: 'capture.read' },
   { method: 'GET', path: '/api/captures/[captureId]', access: 'capture.read' },
   { method: 'PATCH', path: '/api/captures/[captureId]', access: 'capture.write' },
   { method: 'DELETE', path: '/api/captures/[captureId]', access: 'capture.delete' },

@@ -12,7 +12,9 @@ import { listAnalyses } from '@/db/queries/analyses';
 import { getCaptureSet } from '@/db/queries/capture-sets';
 import { listPhotos } from '@/db/queries/photos';
 import { getLatestReading, getReadingForAnalysis } from '@/db/queries/readings';
+import { compareVersions } from '@/db/queries/reanalyses';
 import { listRegions } from '@/db/queries/regions';
+import { ENGINE_VERSION } from '@/lib/photometry/version';
 import { can } from '@/lib/auth/permissions';
 import { requireActor } from '@/lib/auth/session';
 import { uuidSchema } from '@/lib/schemas/common';
@@ -104,6 +106,7 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
               canRun={can(actor.role, 'analysis.run')}
               ready={!!on && hasOff}
               readyHint="Upload the on and off photos first."
+              outdated={reading && compareVersions(reading.engineVersion, ENGINE_VERSION) < 0 ? { readingEngine: reading.engineVersion, currentEngine: ENGINE_VERSION } : null}
             />
             <ReadingsPanel reading={reading} analyses={analyses} captureSetId={set.id} selectedId={reading?.analysisId ?? null} />
           </div>

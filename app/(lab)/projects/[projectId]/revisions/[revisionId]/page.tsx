@@ -1,16 +1,20 @@
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { CreateCaptureSetForm } from '@/components/capture/capture-set-form';
+import { QueryProvider } from '@/components/capture/query-provider';
+import { ReanalysePanel } from '@/components/capture/reanalyse-panel';
 import { TargetChecks } from '@/components/targets/targets-panel';
 import { EditRevisionForm } from '@/components/revisions/revision-forms';
 import { DataTable } from '@/components/ui/data-table';
 import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
 import { listCaptureSets } from '@/db/queries/capture-sets';
+import { batchView, findOpenBatch, listOutdatedSets } from '@/db/queries/reanalyses';
 import { getRevision } from '@/db/queries/revision-edits';
 import { listTargets } from '@/db/queries/targets';
 import { listNewestReadings } from '@/db/queries/trends';
 import { can } from '@/lib/auth/permissions';
 import { requireActor } from '@/lib/auth/session';
+import { ENGINE_VERSION } from '@/lib/photometry/version';
 import { uuidSchema } from '@/lib/schemas/common';
 import { formatIlluminance, formatMetricMeanCi, formatMetricSpread, formatMetricValue, metricHeading, TABLE_METRICS } from '@/lib/format';
 import { checkTargetsOn, revisionVerdictText } from '@/lib/targets/evaluate';
@@ -31,6 +35,13 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
     listTargets(actor.labId, revision.projectId),
     listNewestReadings(actor.labId, { projectId: revision.projectId, revisionId: revision.id }),
   ]);
+  // readings an older engine made, and a re-analysis of this revision or the project still running
+  const [outdatedSets, openBatch] = await Promise.all([listOutdatedSets(actor.labId, { projectId: revision.projectId }, ENGINE_VERSION), findOpenBatch(actor.labId, revision.projectId, revision.id)]);
+  const outdated = {
+    revision: outdatedSets.filter((s) => s.revisionId === revision.id).length,
+    project: outdatedSets.length,
+    versions: [...new Set(outdatedSets.map((s) => s.engineVersion))].sort(),
+  };
   const checks = checkTargetsOn(targets, readings);
   const statistics = revisionStatistics(readings);
   const variants = [...new Set(sets.filter((s) => s.latestAcr !== null || s.latestStatus === 'done').map((s) => s.variant))];
@@ -117,6 +128,20 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
             </p>
           ) : null}
         </Panel>
+        {outdated.project > 0 || openBatch ? (
+          <Panel title="Engine version">
+            <QueryProvider>
+              <ReanalysePanel
+                projectId={revision.projectId}
+                revisionId={revision.id}
+                currentEngine={ENGINE_VERSION}
+                outdated={outdated}
+                canRun={can(actor.role, 'analysis.run')}
+                openBatch={openBatch ? batchView(openBatch) : null}
+              />
+            </QueryProvider>
+          </Panel>
+        ) : null}
         <Panel title="Capture sets">
           <DataTable
             csvName={`${revision.label}-capture-sets`}

@@ -1,0 +1,40 @@
+import 'server-only';
+import { getProject } from '@/db/queries/projects';
+import { attachBatchAnalyses, createReanalysisBatch, getBatchProgress, listOutdatedSets, type BatchProgress } from '@/db/queries/reanalyses';
+import { getRevision } from '@/db/queries/revision-edits';
+import { notFound } from '@/lib/errors';
+import { ENGINE_VERSION } from '@/lib/photometry/version';
+import { requestAnalyses } from '@/lib/queue/producer';
+
+/**
+ * Queues through the producer the batch's capture sets that are not queued yet. The lab's limit of
+ * analyses in flight may refuse some: they stay waiting and are asked for again on the next call.
+ */
+export async function queueWaiting(labId: string, userId: string, batch: BatchProgress): Promise<BatchProgress> {
+  if (batch.waitingSetIds.length === 0) return batch;
+  const outcomes = await requestAnalyses(labId, userId, batch.waitingSetIds);
+  const queued = outcomes.flatMap((o) => (o.kind === 'refused' ? [] : [{ captureSetId: o.captureSetId, analysisId: o.analysis.id }]));
+  if (queued.length === 0) return batch;
+  await attachBatchAnalyses(labId, batch.id, queued);
+  return (await getBatchProgress(labId, batch.id)) ?? batch;
+}
+
+/**
+ * Re-analyses with the current engine every capture set of the project (or of one of its
+ * revisions) whose newest reading an older engine made. Null when there is none to re-analyse.
+ * A project or revision of another lab answers 404.
+ */
+export async function startReanalysis(labId: string, userId: string, scope: { projectId: string; revisionId: string | null }): Promise<BatchProgress | null> {
+  const project = await getProject(labId, scope.projectId);
+  if (!project) throw notFound('No such project');
+  if (scope.revisionId) {
+    const revision = await getRevision(labId, scope.revisionId);
+    if (!revision || revision.projectId !== scope.projectId) throw notFound('No such revision');
+  }
+  const sets = await listOutdatedSets(labId, scope, ENGINE_VERSION);
+  if (sets.length === 0) return null;
+  const id = await createReanalysisBatch(labId, userId, scope, ENGINE_VERSION, sets.map((s) => s.captureSetId));
+  const batch = await getBatchProgress(labId, id);
+  if (!batch) throw new Error('the batch just recorded is missing');
+  return queueWaiting(labId, userId, batch);
+}

@@ -1,0 +1,1 @@
+export { GET, PUT } from '../../../../captures/[captureId]/regions/route';
