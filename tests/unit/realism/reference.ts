@@ -29,7 +29,7 @@ const SRGB_LUT = Float64Array.from({ length: 256 }, (_, k) => {
 /** Decodes with EXIF orientation applied; values linear relative to full scale, Y with BT.709 weights. */
 export async function decodeLinear(buf: Buffer, linear16: boolean, keepRgb = true): Promise<LinearPhoto> {
   const img = sharp(buf, { limitInputPixels: false }).rotate();
-  const { data, info } = linear16 ? await img.raw({ depth: 'ushort' }).toBuffer({ resolveWithObject: true }) : await img.raw().toBuffer({ resolveWithObject: true });
+  const { data, info } = linear16 ? await img.toColourspace('rgb16').raw({ depth: 'ushort' }).toBuffer({ resolveWithObject: true }) : await img.raw().toBuffer({ resolveWithObject: true });
   if (info.channels !== 3) throw new Error(`expected 3 channels, got ${info.channels}`);
   const n = info.width * info.height;
   const src = linear16 ? new Uint16Array(data.buffer, data.byteOffset, data.byteLength / 2) : data;
