@@ -4,21 +4,19 @@ import clsx from 'clsx';
 import { useMemo, useState } from 'react';
 import { downloadCsv, ExportCsvBar } from '@/components/ui/csv-download';
 import { SortButton } from '@/components/ui/sort-header';
-import { formatChange, orderComparisons, testFigures, type ComparisonOrder, type MetricComparison } from '@/lib/targets/compare';
-import { formatMetric, METRICS } from '@/lib/targets/metrics';
-import { formatMeanCi } from '@/lib/targets/series';
+import { formatMetricDifference, formatMetricMeanCi, metricHeading } from '@/lib/format';
+import { formatChange, orderComparisons, testFigures, type ChangeTone, type ComparisonOrder, type MetricComparison } from '@/lib/targets/compare';
+import { TONE_CLASS } from './comparison-chart';
 
-const LEVEL_TONE: Record<MetricComparison['level'], string> = {
-  'unlikely-noise': 'text-pass',
-  'probably-real': 'text-beam',
-  'could-be-noise': 'text-muted',
-  'too-few': 'text-warn',
-  'no-data': 'text-muted',
-};
+// colour says whether the change is good for the team's targets, not only whether it is significant
+function verdictTone(r: MetricComparison, tone: ChangeTone | undefined): string {
+  if (r.level === 'too-few') return 'text-warn';
+  return TONE_CLASS[tone ?? 'unclear'];
+}
 
 function differenceText(r: MetricComparison): string {
   const t = r.test;
-  return t ? `${t.difference >= 0 ? '+' : '−'}${formatMetric(r.metric, Math.abs(t.difference), false)} ± ${formatMetric(r.metric, t.ci.halfWidth, false)}` : '—';
+  return t ? formatMetricDifference(r.metric, t.difference, t.ci.halfWidth) : '—';
 }
 
 
@@ -29,7 +27,7 @@ const NUM = 'px-2 pt-2 whitespace-nowrap text-right font-mono tabular-nums';
  * Welch t, df, p and the verdict. Sorts by metric (the catalogue's order), by the size of the
  * change or by p; each verdict stays under its metric.
  */
-export function ComparisonTable({ rows, aLabel, bLabel, csvName }: { rows: MetricComparison[]; aLabel: string; bLabel: string; csvName: string }) {
+export function ComparisonTable({ rows, aLabel, bLabel, csvName, tones = {} }: { rows: MetricComparison[]; aLabel: string; bLabel: string; csvName: string; tones?: Record<string, ChangeTone> }) {
   const [order, setOrder] = useState<ComparisonOrder>('metric');
   const [reverse, setReverse] = useState(false);
   const sorted = useMemo(() => orderComparisons(rows, order, reverse), [rows, order, reverse]);
@@ -44,7 +42,7 @@ export function ComparisonTable({ rows, aLabel, bLabel, csvName }: { rows: Metri
     downloadCsv(
       csvName,
       ['Metric', 'n A', `A mean ± CI (${aLabel})`, 'n B', `B mean ± CI (${bLabel})`, 'B − A ± CI', 'Change', 'Welch t', 'df', 'p', 'Verdict'],
-      sorted.map((r) => [METRICS[r.metric].label, String(r.a.n), formatMeanCi(r.metric, r.a), String(r.b.n), formatMeanCi(r.metric, r.b), differenceText(r), formatChange(r), ...testFigures(r), r.verdict]),
+      sorted.map((r) => [metricHeading(r.metric), String(r.a.n), formatMetricMeanCi(r.metric, r.a), String(r.b.n), formatMetricMeanCi(r.metric, r.b), differenceText(r), formatChange(r), ...testFigures(r), r.verdict]),
     );
   const ariaSort = (o: ComparisonOrder) => (o === order ? (reverse ? 'descending' : 'ascending') : 'none');
   return (
@@ -74,18 +72,16 @@ export function ComparisonTable({ rows, aLabel, bLabel, csvName }: { rows: Metri
           </thead>
           <tbody>
             {sorted.map((r) => {
-              const m = METRICS[r.metric];
               return [
-                <tr key={r.metric} className="border-t border-line" data-metric={r.metric}>
+                <tr key={r.metric} className="border-t border-line" data-metric={r.metric} data-tone={tones[r.metric] ?? 'unclear'}>
                   <th scope="row" className="px-3 pt-2 text-left font-medium text-ink">
-                    {m.label}
-                    {m.unit && m.unit !== ':1' ? <span className="ml-1 text-xs text-muted">({m.unit})</span> : null}
+                    {metricHeading(r.metric)}
                   </th>
                   <td className={NUM}>{r.a.n}</td>
-                  <td className={NUM}>{formatMeanCi(r.metric, r.a)}</td>
+                  <td className={NUM}>{formatMetricMeanCi(r.metric, r.a)}</td>
                   <td className={NUM}>{r.b.n}</td>
-                  <td className={NUM}>{formatMeanCi(r.metric, r.b)}</td>
-                  <td className={NUM} data-testid={`difference-${r.metric}`}>
+                  <td className={NUM}>{formatMetricMeanCi(r.metric, r.b)}</td>
+                  <td className={clsx(NUM, r.test ? TONE_CLASS[tones[r.metric] ?? 'unclear'] : undefined)} data-testid={`difference-${r.metric}`}>
                     {differenceText(r)}
                   </td>
                   <td className={NUM} data-testid={`change-${r.metric}`}>
@@ -98,7 +94,7 @@ export function ComparisonTable({ rows, aLabel, bLabel, csvName }: { rows: Metri
                   ))}
                 </tr>,
                 <tr key={`${r.metric}-v`}>
-                  <td colSpan={10} className={clsx('px-3 pb-2 text-xs', LEVEL_TONE[r.level])} data-testid={`verdict-${r.metric}`}>
+                  <td colSpan={10} className={clsx('px-3 pb-2 text-xs', verdictTone(r, tones[r.metric]))} data-testid={`verdict-${r.metric}`}>
                     {r.verdict}
                   </td>
                 </tr>,

@@ -1,15 +1,19 @@
 import Link from 'next/link';
 import { notFound, redirect } from 'next/navigation';
+import { ComparisonChart, TONE_CLASS } from '@/components/compare/comparison-chart';
 import { ComparisonTable } from '@/components/compare/comparison-table';
 import { GroupPicker } from '@/components/compare/group-picker';
 import { PreviewStrip } from '@/components/compare/preview-strip';
 import { EmptyState, Notice, PageTitle, Panel } from '@/components/ui/panel';
 import { getComparisonGroup, listGroupOptions, type GroupOption } from '@/db/queries/comparisons';
 import { getProject } from '@/db/queries/projects';
+import { listTargets } from '@/db/queries/targets';
 import { can } from '@/lib/auth/permissions';
 import { requireActor } from '@/lib/auth/session';
 import { uuidSchema } from '@/lib/schemas/common';
-import { compareGroups, decodeGroup, encodeGroup } from '@/lib/targets/compare';
+import { changeTone, compareGroups, decodeGroup, encodeGroup, summariseComparison, type ChangeTone } from '@/lib/targets/compare';
+import { METRIC_KEYS, METRICS } from '@/lib/targets/metrics';
+import { values } from '@/lib/targets/series';
 
 export const metadata = { title: 'Compare' };
 
@@ -49,8 +53,12 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
   const keyB = decodeGroup(rawB);
   const [ga, gb] = await Promise.all([keyA ? getComparisonGroup(actor.labId, project.id, keyA) : null, keyB ? getComparisonGroup(actor.labId, project.id, keyB) : null]);
   const rows = ga && gb ? compareGroups(ga, gb) : null;
+  // which way is good comes from the team's targets (else each metric's own direction)
+  const targets = rows ? await listTargets(actor.labId, project.id) : [];
+  const tones: Record<string, ChangeTone> = Object.fromEntries((rows ?? []).map((r) => [r.metric, changeTone(r, targets)]));
+  const summary = ga && gb && rows ? summariseComparison(ga.label, gb.label, rows, targets) : null;
+  const points = ga && gb ? Object.fromEntries(METRIC_KEYS.map((k) => [k, { a: values(ga.readings, k), b: values(gb.readings, k) }])) : {};
   const query = ga && gb ? `a=${encodeURIComponent(encodeGroup(ga))}&b=${encodeURIComponent(encodeGroup(gb))}` : '';
-  const acr = rows?.find((r) => r.metric === 'ambientContrastRatio');
 
   return (
     <>
@@ -96,19 +104,31 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
         </Panel>
         {ga && gb && rows ? (
           <>
-            {acr ? (
+            {summary ? (
               <Panel title="In plain words">
                 <p className="text-sm text-ink" data-testid="headline-verdict">
-                  {acr.verdict}
+                  {summary.text}
                 </p>
+                {summary.gains.length || summary.losses.length ? (
+                  <ul className="mt-2 flex flex-wrap gap-2 text-xs" data-testid="summary-moves">
+                    {[...summary.gains.map((k) => ['good', k] as const), ...summary.losses.map((k) => ['bad', k] as const)].map(([tone, k]) => (
+                      <li key={k} className={`rounded border border-current px-1.5 py-0.5 ${TONE_CLASS[tone]}`} data-tone={tone}>
+                        {tone === 'good' ? '▲ gain' : '▼ loss'}: {METRICS[k].label.toLowerCase()}
+                      </li>
+                    ))}
+                  </ul>
+                ) : null}
                 <p className="mt-2 text-xs text-muted">
                   Each capture set counts once, with its newest reading. Welch’s t test (unequal variances, Welch–Satterthwaite df), two-sided, 95% intervals; below 3 captures in a group
                   Veilmeter does not call a difference.
                 </p>
               </Panel>
             ) : null}
+            <Panel title="Chart">
+              <ComparisonChart rows={rows} points={points} tones={tones} aLabel={ga.label} bLabel={gb.label} />
+            </Panel>
             <Panel title="Per metric">
-              <ComparisonTable rows={rows} aLabel={ga.label} bLabel={gb.label} csvName={`${project.name}-${gb.label}-vs-${ga.label}-per-metric`} />
+              <ComparisonTable rows={rows} aLabel={ga.label} bLabel={gb.label} csvName={`${project.name}-${gb.label}-vs-${ga.label}-per-metric`} tones={tones} />
             </Panel>
             <Panel title="Captures side by side">
               <div className="grid gap-6 md:grid-cols-2">
