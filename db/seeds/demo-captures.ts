@@ -29,11 +29,18 @@ export const DEMO_PLANS: Record<string, Plan[]> = {
       revision: 'VX-B',
       template: 'birdbath-polariser',
       variants: [
-        { variant: 'no polarizer', count: 5, scene: { transmission: 0.3, displayLevel: 0.14, backgroundLevel: 0.4, ghost: { gain: 0.006, dx: 14, dy: 9 } } },
+        { variant: 'without polarizer', count: 5, scene: { transmission: 0.3, displayLevel: 0.14, backgroundLevel: 0.4, ghost: { gain: 0.006, dx: 14, dy: 9 } } },
         { variant: 'with polarizer', count: 5, scene: { transmission: 0.16, displayLevel: 0.13, backgroundLevel: 0.4, ghost: { gain: 0.006, dx: 14, dy: 9 } } },
       ],
     },
-    { revision: 'VX-C', template: 'birdbath', variants: [{ variant: '', count: 4, scene: { transmission: 0.35, displayLevel: 0.22, backgroundLevel: 0.4, ghost: { gain: 0.004, dx: 14, dy: 9 } } }] },
+    {
+      revision: 'VX-C',
+      template: 'birdbath-polariser',
+      variants: [
+        { variant: 'without polarizer', count: 3, scene: { transmission: 0.35, displayLevel: 0.22, backgroundLevel: 0.4, ghost: { gain: 0.004, dx: 14, dy: 9 } } },
+        { variant: 'with polarizer', count: 3, scene: { transmission: 0.19, displayLevel: 0.21, backgroundLevel: 0.4, ghost: { gain: 0.004, dx: 14, dy: 9 } } },
+      ],
+    },
   ],
   'Ridgeline M2 helmet HUD': [
     { revision: 'M2-P1', template: 'single-combiner', variants: [{ variant: '', count: 4, scene: { transmission: 0.78, displayLevel: 0.2, backgroundLevel: 0.38, ghost: { gain: 0.04, dx: 22, dy: 0 } } }] },
@@ -84,7 +91,7 @@ export async function seedDemoCaptures(labId: string, testerId: string, log: (li
             pattern: 'full',
             notes: 'Demo capture rendered from an invented scene.',
             backgroundCdm2: Math.round(jitter(1500, 0.3)),
-            ambientLux: Math.round(jitter(5000, 0.3)),
+            ambientLux: i === v.count - 1 && v.variant ? Math.round(jitter(20000, 0.1)) : Math.round(jitter(500, 0.3)),
             displayLevel: 'full white, 100%',
           });
           if (!set) throw new Error(`could not create ${label}`);

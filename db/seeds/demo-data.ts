@@ -15,14 +15,14 @@ export const DEMO_PROJECTS = [
     description: 'Indoor AR visor: 45° plate splitter, curved combiner, micro-OLED. Goal: readable at office and window light.',
     revisions: [
       { label: 'VX-A', builtOn: '2026-08-04', status: 'measured', notes: '50/50 splitter, bare back face.' },
-      { label: 'VX-B', builtOn: '2026-09-15', status: 'measured', notes: '40/60 splitter, AR back face, optional polarizer.' },
-      { label: 'VX-C', builtOn: '2026-11-02', status: 'built', notes: '30/70 splitter, brighter panel.' },
+      { label: 'VX-B', builtOn: '2026-09-15', status: 'measured', notes: '40/60 splitter, AR back face, measured with and without the polarizer.' },
+      { label: 'VX-C', builtOn: '2026-11-02', status: 'built', notes: '30/70 splitter, brighter panel, with and without the polarizer.' },
     ],
     // the team's own targets (invented for the demo, like every value here)
     targets: [
-      { metric: 'ambientContrastRatio', comparator: '>=', value: 2.5, conditionNote: 'office desk, about 500 lx on the background' },
-      { metric: 'ghostRatio', comparator: '<=', value: 0.01, conditionNote: 'full-white pattern' },
-      { metric: 'transmission', comparator: '>=', value: 0.3, conditionNote: 'see-through, window light' },
+      { metric: 'ambientContrastRatio', comparator: '>=', value: 2.5, conditionNote: 'office desk', condition: { ambientLuxMin: 200, ambientLuxMax: 1000 } },
+      { metric: 'ghostRatio', comparator: '<=', value: 0.01, conditionNote: '', condition: { pattern: 'full' } },
+      { metric: 'transmission', comparator: '>=', value: 0.3, conditionNote: 'see-through', condition: {} },
     ],
   },
   {

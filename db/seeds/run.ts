@@ -25,7 +25,7 @@ export async function seedDemo(): Promise<{ labId: string }> {
         await trx('revisions').insert({ lab_id: lab.id, project_id: row.id, label: r.label, position: position++, built_on: r.builtOn, status: r.status, notes: r.notes });
       }
       for (const t of proj.targets) {
-        await trx('targets').insert({ lab_id: lab.id, project_id: row.id, metric: t.metric, comparator: t.comparator, value: t.value, condition_note: t.conditionNote, is_default: false });
+        await trx('targets').insert({ lab_id: lab.id, project_id: row.id, metric: t.metric, comparator: t.comparator, value: t.value, condition_note: t.conditionNote, condition: JSON.stringify(t.condition), is_default: false });
       }
     }
     return { labId: lab.id };
