@@ -1,22 +1,10 @@
 import { fileURLToPath } from 'node:url';
 
-// Next's own inline bootstrap scripts need 'unsafe-inline' without nonces; everything else is
-// limited to this origin, and no one may frame the app.
-const csp = [
-  "default-src 'self'",
-  "script-src 'self' 'unsafe-inline'",
-  "style-src 'self' 'unsafe-inline'",
-  "img-src 'self' data: blob:",
-  "font-src 'self'",
-  "connect-src 'self'",
-  "object-src 'none'",
-  "base-uri 'self'",
-  "form-action 'self'",
-  "frame-ancestors 'none'",
-].join('; ');
+// Pages get their Content-Security-Policy from proxy.ts, with a fresh script nonce per request
+// (lib/security/headers.ts); API answers are data: they run no script and embed nothing foreign.
+const apiCsp = "default-src 'self'; script-src 'none'; object-src 'none'; base-uri 'none'; form-action 'none'; frame-ancestors 'none'";
 
 const securityHeaders = [
-  { key: 'Content-Security-Policy', value: csp },
   { key: 'X-Content-Type-Options', value: 'nosniff' },
   { key: 'Referrer-Policy', value: 'strict-origin-when-cross-origin' },
   { key: 'X-Frame-Options', value: 'DENY' },
@@ -37,9 +25,13 @@ const nextConfig = {
   serverExternalPackages: ['knex', 'bullmq', 'sharp', 'pg', 'ioredis', 'exifr', 'pdfkit'],
   turbopack: { root: fileURLToPath(new URL('.', import.meta.url)) },
   // Photos of up to 60 MB pass through proxy.ts on their way to the upload route.
-  experimental: { serverActions: { bodySizeLimit: '2mb' }, proxyClientMaxBodySize: '61mb' },
+  // authInterrupts: forbidden() answers 403 for a page of the person's own lab that their role may not see
+  experimental: { serverActions: { bodySizeLimit: '2mb' }, proxyClientMaxBodySize: '61mb', authInterrupts: true },
   async headers() {
-    return [{ source: '/:path*', headers: securityHeaders }];
+    return [
+      { source: '/:path*', headers: securityHeaders },
+      { source: '/api/:path*', headers: [{ key: 'Content-Security-Policy', value: apiCsp }] },
+    ];
   },
 };
 

@@ -1,6 +1,8 @@
 import { NextResponse, type NextRequest } from 'next/server';
 import { sessionUserId } from './lib/auth/session-token';
 import { getEnv } from './lib/env';
+import { servedOverHttps } from './lib/security/client-ip';
+import { HSTS, newNonce, pageCsp } from './lib/security/headers';
 
 // The first gate for pages only: visitors without a session go to sign-in. Every page and action
 // still checks the role itself against the database. API routes are not matched: each handler
@@ -10,14 +12,30 @@ const PUBLIC = [/^\/sign-in/, /^\/sign-up/, /^\/invite\//, /^\/reset/, /^\/verif
 
 export async function proxy(req: NextRequest) {
   const { pathname } = req.nextUrl;
-  if (PUBLIC.some((re) => re.test(pathname))) return NextResponse.next();
   const env = getEnv();
+  // every page gets a policy with its own nonce (lib/security/headers.ts); the request carries it
+  // to the renderer, which stamps it on Next's scripts, and the answer carries it to the browser
+  const nonce = newNonce();
+  const csp = pageCsp(nonce, env.NODE_ENV === 'development');
+  const https = servedOverHttps(req);
+  const secure = (res: NextResponse): NextResponse => {
+    res.headers.set('Content-Security-Policy', csp);
+    if (https) res.headers.set('Strict-Transport-Security', HSTS);
+    return res;
+  };
+  const next = () => {
+    const headers = new Headers(req.headers);
+    headers.set('x-nonce', nonce);
+    headers.set('content-security-policy', csp);
+    return secure(NextResponse.next({ request: { headers } }));
+  };
+  if (PUBLIC.some((re) => re.test(pathname))) return next();
   // the same decode (and memo) the handlers use; a token that decodes to no user is no session
-  if (await sessionUserId(req.cookies, env.NEXTAUTH_URL.startsWith('https://'), env.NEXTAUTH_SECRET)) return NextResponse.next();
+  if (await sessionUserId(req.cookies, env.NEXTAUTH_URL.startsWith('https://'), env.NEXTAUTH_SECRET)) return next();
   const url = req.nextUrl.clone();
   url.pathname = '/sign-in';
   url.search = pathname === '/' ? '' : `?next=${encodeURIComponent(pathname + req.nextUrl.search)}`;
-  return NextResponse.redirect(url);
+  return secure(NextResponse.redirect(url));
 }
 
 export const config = {

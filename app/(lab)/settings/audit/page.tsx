@@ -1,4 +1,4 @@
-import { notFound } from 'next/navigation';
+import { forbidden } from 'next/navigation';
 import { DataTable } from '@/components/ui/data-table';
 import { EmptyState, Panel } from '@/components/ui/panel';
 import { listAuditEvents } from '@/db/queries/audit';
@@ -10,7 +10,7 @@ export const metadata = { title: 'Audit trail' };
 
 export default async function AuditPage() {
   const actor = await requireActor();
-  if (!can(actor.role, 'audit.read')) notFound();
+  if (!can(actor.role, 'audit.read')) forbidden();
   const events = await listAuditEvents(actor.labId, 500);
   return (
     <Panel title="Audit trail (newest 500)">

@@ -1,4 +1,4 @@
-import { notFound } from 'next/navigation';
+import { forbidden } from 'next/navigation';
 import { CalibrationForm, DeleteProfileButton, LinearityForm } from '@/components/cameras/camera-forms';
 import { EmptyState, Notice, Panel } from '@/components/ui/panel';
 import { listCameraProfiles } from '@/db/queries/camera-profiles';
@@ -11,7 +11,7 @@ export const metadata = { title: 'Camera profiles' };
 
 export default async function CameraProfilesPage() {
   const actor = await requireActor();
-  if (!can(actor.role, 'capture.read')) notFound();
+  if (!can(actor.role, 'capture.read')) forbidden();
   const write = can(actor.role, 'camera.write');
   const profiles = await listCameraProfiles(actor.labId);
   const rough = roughCalibrationFactor();

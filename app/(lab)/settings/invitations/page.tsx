@@ -1,4 +1,4 @@
-import { notFound } from 'next/navigation';
+import { forbidden } from 'next/navigation';
 import { InviteForm, RevokeInvitationButton } from '@/components/settings/forms';
 import { EmptyState, Panel } from '@/components/ui/panel';
 import { listPendingInvitations } from '@/db/queries/invitations';
@@ -10,7 +10,7 @@ export const metadata = { title: 'Invitations' };
 
 export default async function InvitationsPage() {
   const actor = await requireActor();
-  if (!can(actor.role, 'invitation.manage')) notFound();
+  if (!can(actor.role, 'invitation.manage')) forbidden();
   const pending = await listPendingInvitations(actor.labId);
   return (
     <div className="space-y-6">

@@ -1,4 +1,4 @@
-import { notFound } from 'next/navigation';
+import { forbidden } from 'next/navigation';
 import { CreateTokenForm, RevokeTokenButton } from '@/components/settings/forms';
 import { EmptyState, Panel } from '@/components/ui/panel';
 import { listApiTokens } from '@/db/queries/api-tokens';
@@ -10,7 +10,7 @@ export const metadata = { title: 'API tokens' };
 
 export default async function TokensPage() {
   const actor = await requireActor();
-  if (!can(actor.role, 'token.self')) notFound();
+  if (!can(actor.role, 'token.self')) forbidden();
   const all = can(actor.role, 'token.manage');
   const tokens = await listApiTokens(actor.labId, actor.user.id, all);
   return (

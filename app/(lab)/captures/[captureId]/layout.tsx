@@ -1,0 +1,13 @@
+import { notFound } from 'next/navigation';
+import { getCaptureSet } from '@/db/queries/capture-sets';
+import { requireActor } from '@/lib/auth/session';
+import { uuidSchema } from '@/lib/schemas/common';
+
+// 404 decided before the capture page's loading skeleton streams: once it is sent the status is
+// 200 whatever the page finds. A layout sits outside its own segment's loading boundary.
+export default async function CaptureLayout({ children, params }: { children: React.ReactNode; params: Promise<{ captureId: string }> }) {
+  const { captureId } = await params;
+  const actor = await requireActor();
+  if (!uuidSchema.safeParse(captureId).success || !(await getCaptureSet(actor.labId, captureId))) notFound();
+  return children;
+}

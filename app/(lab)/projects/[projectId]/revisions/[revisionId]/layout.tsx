@@ -1,0 +1,15 @@
+import { notFound } from 'next/navigation';
+import { getRevision } from '@/db/queries/revision-edits';
+import { requireActor } from '@/lib/auth/session';
+import { uuidSchema } from '@/lib/schemas/common';
+
+// 404 decided before the revision's loading skeleton streams (see ../../layout.tsx): a revision of
+// another lab, or of another project than the one in the address, is not found.
+export default async function RevisionLayout({ children, params }: { children: React.ReactNode; params: Promise<{ projectId: string; revisionId: string }> }) {
+  const { projectId, revisionId } = await params;
+  const actor = await requireActor();
+  if (!uuidSchema.safeParse(revisionId).success) notFound();
+  const revision = await getRevision(actor.labId, revisionId);
+  if (!revision || revision.projectId !== projectId) notFound();
+  return children;
+}
