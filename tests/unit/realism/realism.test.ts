@@ -230,8 +230,11 @@ function standardChecks(r: SceneRun, o: CheckOptions = {}): void {
       checkOffset(name, `${label} offset`, { dx: g.dx, dy: g.dy }, { dx: g.dx, dy: g.dy }, ghost ?? null, 1.5);
     } else {
       // no ghost drawn: the reference finds no light displaced one way at the usual offset nor just past the edge zone
-      const probes = [ghostRatioAt(plane, truth.screen, GHOST.dx, GHOST.dy, edge).ratio, ghostRatioAt(plane, truth.screen, edge + 12, 0, edge).ratio, ghostRatioAt(plane, truth.screen, 0, edge + 12, edge).ratio];
-      const refWorst = Math.max(...probes.map(Math.abs));
+      // (a probe at 2·edge + 12 px leaves a band 12 px wide between the two edge zones)
+      const near = 2 * edge + 12;
+      const probes = [ghostRatioAt(plane, truth.screen, GHOST.dx, GHOST.dy, edge), ghostRatioAt(plane, truth.screen, near, 0, edge), ghostRatioAt(plane, truth.screen, 0, near, edge), ghostRatioAt(plane, truth.screen, -near, -near, edge)];
+      expect(probes.every((p) => p.pixels > 1000), `${name}: reference probes need band pixels`).toBe(true);
+      const refWorst = Math.max(...probes.map((p) => Math.abs(p.ratio)));
       const engine = ghost ? ghost.ratio : null;
       const engOk = engine === null || engine <= 0.005;
       rows.push({ scene: name, metric: `${label}: none`, truth: 'none', reference: `max |g| ${fmt(refWorst, 2)}`, engine: ghost ? `${fmt(ghost.ratio)} at (${ghost.dx}, ${ghost.dy})` : 'none', tolerance: '≤ 0.5% or none', verdict: engOk ? 'pass' : 'FAIL', referenceOk: refWorst <= 0.005 });
@@ -314,11 +317,15 @@ describe('realism: one camera condition at a time', { timeout: 240_000 }, () => 
   });
 
   it('textured room with a bright screen, the camera crept by (2.3, −1.8) px', async () => {
-    standardChecks(await runScene('bright screen, textured room', { ...BASE, displayLevel: 0.85, roomLevel: 0.12, pose: { off: { dx: 2.3, dy: -1.8 }, ambient: { dx: -2.6, dy: 1.4 } } }));
+    standardChecks(await runScene('bright screen, textured room', { ...BASE, displayLevel: 0.72, roomLevel: 0.1, pose: { off: { dx: 2.3, dy: -1.8 }, ambient: { dx: -2.6, dy: 1.4 } } }));
   });
 
-  it('visible display pixel grid (R, G, B stripes, 3.4 px pitch)', async () => {
-    standardChecks(await runScene('display pixel grid', { ...BASE, pixelGrid: { pitch: 3.4, fillX: 0.8, fillY: 0.85 }, lensBlur: 0.6, pose: CREEP }));
+  it('visible display pixel grid (R, G, B stripes, 3.4 px pitch), JPEG at 4:4:4', async () => {
+    // Resolved colour stripes in a 4:2:0 JPEG lose 1–3% of their light (the chroma is averaged
+    // gamma-encoded; measured with the reference here), which nothing downstream can restore: a
+    // grid this sharp is shot at full chroma resolution or as a 16-bit TIFF.
+    const options: RealisticSceneOptions = { ...BASE, pixelGrid: { pitch: 3.4, fillX: 0.8, fillY: 0.85 }, displayLevel: 0.16, lensBlur: 0.6, pose: CREEP, chromaSubsampling: '4:4:4', quality: 95 };
+    standardChecks(await runScene('display pixel grid', options));
   });
 
   it('checkerboard pattern through a soft lens, vignetting and noise', async () => {
@@ -354,12 +361,12 @@ describe('realism: files as cameras write them', { timeout: 240_000 }, () => {
   });
 
   it('portrait camera JPEG: EXIF orientation 6, 4:2:0 chroma, quality 90', async () => {
-    const r = await runScene('portrait JPEG', { ...BASE, width: 1200, height: 1600, orientation: 6, quality: 90, chromaSubsampling: '4:2:0', lensBlur: 1.0, noise: ISO800, pose: CREEP });
+    const r = await runScene('portrait JPEG', { ...BASE, width: 1080, height: 1440, orientation: 6, quality: 90, chromaSubsampling: '4:2:0', lensBlur: 1.0, noise: ISO800, pose: CREEP });
     const meta = await sharp((r.capture.photos.on as Buffer[])[0] as Buffer).metadata();
-    expect([meta.width, meta.height, meta.orientation, meta.chromaSubsampling]).toEqual([1600, 1200, 6, '4:2:0']);
+    expect([meta.width, meta.height, meta.orientation, meta.chromaSubsampling]).toEqual([1440, 1080, 6, '4:2:0']);
     const size = r.reading ? `${r.reading.image.width} × ${r.reading.image.height}` : 'no reading';
-    rows.push({ scene: r.name, metric: 'image as displayed', truth: '1200 × 1600', reference: `${r.photos.on?.width} × ${r.photos.on?.height}`, engine: size, tolerance: 'exact', verdict: size === '1200 × 1600' ? 'pass' : 'FAIL', referenceOk: true });
-    expect.soft(size).toBe('1200 × 1600');
+    rows.push({ scene: r.name, metric: 'image as displayed', truth: '1080 × 1440', reference: `${r.photos.on?.width} × ${r.photos.on?.height}`, engine: size, tolerance: 'exact', verdict: size === '1080 × 1440' ? 'pass' : 'FAIL', referenceOk: true });
+    expect.soft(size).toBe('1080 × 1440');
     standardChecks(r);
   });
 
