@@ -152,7 +152,7 @@ export interface OneSidedGhost extends GhostMeasurement {
   mirror: number;
   /** Mirrored-band pixels used. */
   nMirror: number;
-  /** (band − mirror) over its standard error, from the scatter of 16 × 16 px block means. */
+  /** (band − mirror) over its standard error, from the scatter of the mirrored band's 16 × 16 px block means. */
   snr: number;
   /** Share of the band's light that is one-sided: (band − mirror) / band. */
   oneSided: number;
@@ -236,10 +236,9 @@ export function measureGhostOneSided(read: (r: Rect) => Float32Array, screen: Re
   // B is taken over the pixels with data one (and two) offsets back; the mirror's mean comes off it
   const b = raw.b - mirror;
   const ratio = Number.isFinite(raw.s2) ? solveGhostRatio(b, raw.s1, raw.s2) : b / raw.s1;
-  const blocks = [...bandBlocks, ...mirrorBlocks];
-  // block scatter about each side's own mean, pooled
-  const pooled = bandBlocks.length > 1 && mirrorBlocks.length > 1 ? ((bandBlocks.length - 1) * variance(bandBlocks) + (mirrorBlocks.length - 1) * variance(mirrorBlocks)) / (blocks.length - 2) : Number.NaN;
-  const se = Math.sqrt(pooled * (1 / Math.max(1, bandBlocks.length) + 1 / Math.max(1, mirrorBlocks.length)));
+  // the scatter of the mirrored band's block means (noise, the room's residue, no ghost) stands for
+  // both sides: the band's own blocks also vary with the ghost's pattern, which is signal
+  const se = Math.sqrt(variance(mirrorBlocks) * (1 / Math.max(1, bandBlocks.length) + 1 / Math.max(1, mirrorBlocks.length)));
   // a band too thin for blocks gives no scatter: no ghost can be told apart there
   const snr = se > 0 ? excess / se : 0;
   return { ratio, firstOrder: b / raw.s1, b, s1: raw.s1, s2: raw.s2, n: raw.n, band, mirror, nMirror: mirrorN, snr, oneSided: band > 0 ? excess / band : 0 };

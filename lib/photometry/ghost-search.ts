@@ -25,7 +25,7 @@ function inside(r: Rect, x: number, y: number): boolean {
   return x >= r.x && x < r.x + r.w && y >= r.y && y < r.y + r.h;
 }
 
-/** Σ D(x)·D(x − o) and Σ D(x − o)² over the band's plateau (screen moved by o and shrunk by the zone, minus the screen grown by it). */
+/** Σ D(x)·D(x − o) and Σ D(x − o)² over the band (the screen moved by o, minus the screen grown by the zone). */
 function bandFit(d: Plane, inner: Rect, outer: Rect, o: Offset): { c: number; e: number; n: number } {
   const { width: W, height: H, data } = d;
   let c = 0;
@@ -59,18 +59,18 @@ function bandFit(d: Plane, inner: Rect, outer: Rect, o: Offset): { c: number; e:
  * §5.8). Blur and a defocused image spread the screen's light on every side of its edge alike; a
  * ghost is light displaced one way. So for each offset d the least-squares gain of the displaced
  * screen over the band at d is compared with the same over the mirrored band at −d, and only the
- * excess counts. The band leaves out the edge zone: `zone` pixels around the screen (its own spill)
- * and inside the displaced screen's border (the ghost's own soft edge). Offsets reach a quarter of
- * the screen's size beyond the zone on each axis.
+ * excess counts. The band leaves out the edge zone, `zone` pixels around the screen (its own
+ * spill). Offsets reach a quarter of the screen's size beyond the zone on each axis.
  */
 export function searchGhost(d: Plane, screen: Rect, zone: number): GhostCandidate | null {
   if (!Number.isInteger(zone) || zone < 0) throw new RangeError('the edge zone must be a whole number of pixels ≥ 0');
   const { width: W, height: H } = d;
-  const inner = growRect(screen, -zone);
+  // the template is the whole screen: a copy displaced past the true offset then leaves ghost-free
+  // pixels in the band and loses gain (a template shrunk by the zone would not)
+  const inner = { ...screen };
   const outer = growRect(screen, zone) as Rect;
-  if (!inner) return null;
-  const rx = 2 * zone + Math.ceil(screen.w / 4);
-  const ry = 2 * zone + Math.ceil(screen.h / 4);
+  const rx = zone + Math.ceil(screen.w / 4);
+  const ry = zone + Math.ceil(screen.h / 4);
   const dom: Rect = { x: Math.max(0, screen.x - rx), y: Math.max(0, screen.y - ry), w: 0, h: 0 };
   dom.w = Math.min(W, screen.x + screen.w + rx) - dom.x;
   dom.h = Math.min(H, screen.y + screen.h + ry) - dom.y;

@@ -41,6 +41,8 @@ export interface Registration extends Motion {
 // small enough that the frame plus a 10% search reach fits a 256-point transform
 const COARSE_SIZE = 200;
 const FINE_SIZE = 256;
+// Lucas–Kanade window: 128² pixels of texture put a shift to a few hundredths of a pixel
+const LK_SIZE = 128;
 
 // a fine peak this low means the window held no shared structure: keep the coarse answer
 const MIN_FINE_PEAK = 0.05;
@@ -299,38 +301,32 @@ export function refineWindowShift(ref: Float32Array, readMoving: (shift: Offset)
   let residual = Number.NaN;
   for (let iter = 0; iter < 8; iter++) {
     const m = readMoving(cur);
-    const A = [[0, 0, 0, 0], [0, 0, 0, 0], [0, 0, 0, 0], [0, 0, 0, 0]];
-    const bv = [0, 0, 0, 0];
+    // normal equations of the regressors (r, 1, −gx, −gy) against m, summed in scalars
+    let srr = 0, sr = 0, srx = 0, sry = 0, s1 = 0, sx = 0, sy = 0, sxx = 0, sxy = 0, syy = 0;
+    let brv = 0, b1v = 0, bxv = 0, byv = 0;
     let n = 0;
     let sm = 0;
     let smm = 0;
-    const row = [0, 0, 0, 0];
     for (let y = 1; y < h - 1; y++) {
-      for (let x = 1; x < w - 1; x++) {
-        const i = y * w + x;
+      for (let x = 1, i = y * w + 1; x < w - 1; x++, i++) {
         if (use && !use[i]) continue;
         const r = ref[i] as number;
         const v = m[i] as number;
-        const gx = ((m[i + 1] as number) - (m[i - 1] as number)) / 2;
-        const gy = ((m[i + w] as number) - (m[i - w] as number)) / 2;
+        const gx = -((m[i + 1] as number) - (m[i - 1] as number)) / 2;
+        const gy = -((m[i + w] as number) - (m[i - w] as number)) / 2;
         if (!(r === r && v === v && gx === gx && gy === gy)) continue;
-        row[0] = r;
-        row[1] = 1;
-        row[2] = -gx;
-        row[3] = -gy;
-        for (let a = 0; a < 4; a++) {
-          const ra = row[a] as number;
-          bv[a] = (bv[a] as number) + ra * v;
-          const Aa = A[a] as number[];
-          for (let b = a; b < 4; b++) Aa[b] = (Aa[b] as number) + ra * (row[b] as number);
-        }
+        srr += r * r; sr += r; srx += r * gx; sry += r * gy;
+        s1 += 1; sx += gx; sy += gy;
+        sxx += gx * gx; sxy += gx * gy; syy += gy * gy;
+        brv += r * v; b1v += v; bxv += gx * v; byv += gy * v;
         n++;
         sm += v;
         smm += v * v;
       }
     }
+    const A = [[srr, sr, srx, sry], [sr, s1, sx, sy], [srx, sx, sxx, sxy], [sry, sy, sxy, syy]];
+    const bv = [brv, b1v, bxv, byv];
     if (n < 64) return null;
-    for (let a = 0; a < 4; a++) for (let b = 0; b < a; b++) (A[a] as number[])[b] = (A[b] as number[])[a] as number;
     const p = solve(A, bv);
     if (!p || !p.every(Number.isFinite)) return null;
     const [alpha, beta, ddx, ddy] = p as [number, number, number, number];
@@ -433,7 +429,11 @@ export function registerPhotos(input: RegistrationInput): Registration {
     const fb = logGradient(fillNaN(luminanceCrop(moving, rect, d0, 1).plane));
     const fine = phaseCorrelate(fa, fb, Math.min(reach, size - 1), use);
     const start = fine.peak >= MIN_FINE_PEAK ? { dx: d0.dx + fine.dx, dy: d0.dy + fine.dy } : d0;
-    const lk = refineWindowShift(refCrop.data, (o) => warpedCrop(moving, rect, { ...o, angle: 0, cx: 0, cy: 0 }, 1).data, rect, start, use);
+    // Lucas–Kanade needs fewer pixels than the correlation's reach: the window's central part
+    const lkSize = Math.min(size, LK_SIZE);
+    const lkRect: Rect = { x: rect.x + Math.floor((size - lkSize) / 2), y: rect.y + Math.floor((size - lkSize) / 2), w: lkSize, h: lkSize };
+    const lkRef = lkSize === size ? refCrop.data : luminanceCrop(reference, lkRect, { dx: 0, dy: 0 }, 1).plane.data;
+    const lk = refineWindowShift(lkRef, (o) => warpedCrop(moving, lkRect, { ...o, angle: 0, cx: 0, cy: 0 }, 1).data, lkRect, start, windowMask(lkRect, mask));
     if (lk && lk.residual < 0.9) shifts.push(lk);
     else if (fine.peak >= MIN_FINE_PEAK) shifts.push({ ...start, x: rect.x + (size - 1) / 2, y: rect.y + (size - 1) / 2, residual: Number.NaN });
   }

@@ -228,27 +228,39 @@ export function refineGhostOffsetWith(screen: Rect, offset: Offset, read: DiffRe
   const rows = middle(Math.max(screen.y, screen.y + Math.round(offset.dy)), Math.min(screen.y + screen.h, screen.y + screen.h + Math.round(offset.dy)));
   const cols = middle(Math.max(screen.x, screen.x + Math.round(offset.dx)), Math.min(screen.x + screen.w, screen.x + screen.w + Math.round(offset.dx)));
   const plateau = Math.max(2, Math.floor(reach / 2));
-  const component = (d: number, start: number, end: number, alongX: boolean, span: [number, number] | null): number => {
-    if (!span || Math.abs(d) <= reach + zone + 2) return d;
-    const strip = (at: number): Edge => {
-      const s0 = Math.round(at) - reach;
-      const rect: Rect = alongX ? { x: span[0], y: s0, w: span[1], h: 2 * reach } : { x: s0, y: span[0], w: 2 * reach, h: span[1] };
-      return { strip: rect, alongX, reversed: d > 0 };
-    };
+  const strip = (at: number, alongX: boolean, span: [number, number], reversed: boolean): Edge => {
+    const s0 = Math.round(at) - reach;
+    const rect: Rect = alongX ? { x: span[0], y: s0, w: span[1], h: 2 * reach } : { x: s0, y: span[0], w: 2 * reach, h: span[1] };
+    return { strip: rect, alongX, reversed };
+  };
+  const edgeAt = (e: Edge): number | null => {
+    const k = stepAt(read, size, e, plateau);
+    return k === null ? null : (e.alongX ? e.strip.y : e.strip.x) + k;
+  };
+  // The ghost's far edge along one axis is read where nothing else is: in the ghost's part beside
+  // the screen (past the screen's side and its edge zone) when there is one at least 4 px wide,
+  // else over the screen's span when the edge is far enough from the screen's own edge.
+  const beside = (d: number, otherD: number, otherStart: number, otherEnd: number): [number, number] | null => {
+    const o = Math.round(otherD);
+    const a = o > 0 ? otherEnd + zone : otherStart + o;
+    const b = o > 0 ? otherEnd + o : otherStart - zone;
+    return middle(a, b) ?? (b - a >= 4 ? [a, b - a] : null);
+  };
+  const component = (d: number, start: number, end: number, alongX: boolean, span: [number, number] | null, side: [number, number] | null): number => {
+    if (Math.abs(d) < 1) return d;
+    const reversed = d > 0;
     // beyond a positive offset the ghost's far edge falls out of it, as the screen's own edge on that side
     const screenEdge = d > 0 ? end : start;
-    const se = strip(screenEdge);
-    const ge = strip(screenEdge + d);
-    const a = stepAt(read, size, se, plateau);
-    const b = stepAt(read, size, ge, plateau);
-    if (a === null || b === null) return d;
-    const sAt = (alongX ? se.strip.y : se.strip.x) + a;
-    const gAt = (alongX ? ge.strip.y : ge.strip.x) + b;
+    const useSide = side !== null && span !== null;
+    if (!useSide && (!span || Math.abs(d) <= reach + zone + 2)) return d;
+    const sAt = span ? edgeAt(strip(screenEdge, alongX, span, reversed)) : null;
+    const gAt = edgeAt(strip(screenEdge + d, alongX, (useSide ? side : span) as [number, number], reversed));
+    if (sAt === null || gAt === null) return d;
     const found = gAt - sAt;
     return Math.abs(found - d) <= reach ? found : d;
   };
-  const dx = component(offset.dx, screen.x, screen.x + screen.w, false, rows);
-  const dy = component(offset.dy, screen.y, screen.y + screen.h, true, cols);
+  const dx = component(offset.dx, screen.x, screen.x + screen.w, false, rows, beside(offset.dx, offset.dy, screen.y, screen.y + screen.h));
+  const dy = component(offset.dy, screen.y, screen.y + screen.h, true, cols, beside(offset.dy, offset.dx, screen.x, screen.x + screen.w));
   return { dx, dy };
 }
 

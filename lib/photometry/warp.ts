@@ -3,28 +3,6 @@ import { offsetAt, type Motion } from './motion';
 import type { Plane, PhotoRaster, Rect } from './types';
 
 /**
- * Bilinear sample of `p` at (x, y) (pixel centres at integers); NaN outside or next to NaN.
- * Used to bring a photo that moved by a fraction of a pixel, or turned a little, onto the on
- * photo's grid instead of rounding its shift.
- */
-function sample(p: Plane, x: number, y: number): number {
-  const x0 = Math.floor(x);
-  const y0 = Math.floor(y);
-  const fx = x - x0;
-  const fy = y - y0;
-  const { width: w, height: h, data } = p;
-  // a weight of zero lets the sample sit on the last row or column
-  const x1 = fx > 0 ? x0 + 1 : x0;
-  const y1 = fy > 0 ? y0 + 1 : y0;
-  if (x0 < 0 || y0 < 0 || x1 >= w || y1 >= h) return Number.NaN;
-  const a = data[y0 * w + x0] as number;
-  const b = data[y0 * w + x1] as number;
-  const c = data[y1 * w + x0] as number;
-  const d = data[y1 * w + x1] as number;
-  return (1 - fy) * ((1 - fx) * a + fx * b) + fy * ((1 - fx) * c + fx * d);
-}
-
-/**
  * out(p) = plane(position of p's feature in the plane under `m`): the plane brought onto the
  * reference grid, NaN where that falls outside. Whole-pixel translations copy values exactly.
  */
@@ -42,12 +20,7 @@ export function warpPlane(plane: Plane, m: Motion): Plane {
     }
     return { data: out, width: w, height: h };
   }
-  for (let y = 0; y < h; y++) {
-    for (let x = 0; x < w; x++) {
-      const o = offsetAt(m, x, y);
-      out[y * w + x] = sample(plane, x + o.dx, y + o.dy);
-    }
-  }
+  fillWarped(out, plane, { x: 0, y: 0, w, h }, m, 0, 0);
   return { data: out, width: w, height: h };
 }
 
@@ -73,13 +46,46 @@ export function warpedCrop(raster: PhotoRaster, rect: Rect, m: Motion, scale: nu
   const src: Rect = { x: rect.x + minDx, y: rect.y + minDy, w: rect.w + maxDx - minDx + 1, h: rect.h + maxDy - minDy + 1 };
   const window = luminanceCrop(raster, src, { dx: 0, dy: 0 }, scale).plane;
   const out = new Float32Array(rect.w * rect.h);
+  fillWarped(out, window, rect, m, src.x, src.y);
+  return { data: out, width: rect.w, height: rect.h };
+}
+
+/**
+ * out[j·w + i] = bilinear sample of `p` at the position, in p's own pixels (p's pixel (0, 0) sits at
+ * (ox, oy) in reference coordinates), of reference pixel (rect.x + i, rect.y + j) under `m`. The
+ * motion is affine, so the source position moves by a constant step along a row.
+ */
+function fillWarped(out: Float32Array, p: Plane, rect: Rect, m: Motion, ox: number, oy: number): void {
+  const c = Math.cos(m.angle);
+  const s = Math.sin(m.angle);
+  const { width: pw, height: ph, data } = p;
   for (let j = 0; j < rect.h; j++) {
     const y = rect.y + j;
-    for (let i = 0; i < rect.w; i++) {
-      const x = rect.x + i;
-      const o = offsetAt(m, x, y);
-      out[j * rect.w + i] = sample(window, x + o.dx - src.x, y + o.dy - src.y);
+    const o = offsetAt(m, rect.x, y);
+    // source position of the row's first pixel, and its step per pixel along the row
+    let sx = rect.x + o.dx - ox;
+    let sy = y + o.dy - oy;
+    const stepX = m.angle === 0 ? 1 : c;
+    const stepY = m.angle === 0 ? 0 : s;
+    let k = j * rect.w;
+    for (let i = 0; i < rect.w; i++, k++, sx += stepX, sy += stepY) {
+      const x0 = Math.floor(sx);
+      const y0 = Math.floor(sy);
+      const fx = sx - x0;
+      const fy = sy - y0;
+      const x1 = fx > 0 ? x0 + 1 : x0;
+      const y1 = fy > 0 ? y0 + 1 : y0;
+      if (x0 < 0 || y0 < 0 || x1 >= pw || y1 >= ph) {
+        out[k] = Number.NaN;
+        continue;
+      }
+      const r0 = y0 * pw;
+      const r1 = y1 * pw;
+      const a = data[r0 + x0] as number;
+      const b = data[r0 + x1] as number;
+      const cc = data[r1 + x0] as number;
+      const d = data[r1 + x1] as number;
+      out[k] = (1 - fy) * (a + fx * (b - a)) + fy * (cc + fx * (d - cc));
     }
   }
-  return { data: out, width: rect.w, height: rect.h };
 }

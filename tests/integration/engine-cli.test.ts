@@ -48,7 +48,7 @@ describe('analyze CLI', () => {
     for (const k of ['engineVersion', 'image', 'pattern', 'registration', 'screen', 'luminance', 'ambientContrastRatio', 'michelson', 'ansiContrast', 'uniformity', 'ghost', 'transmission', 'tint', 'clippedFraction', 'warnings']) {
       expect(j).toHaveProperty(k);
     }
-    expect(j.engineVersion).toBe('1.0.1');
+    expect(j.engineVersion).toBe('1.1.0');
   });
 
   it('prints a readable table without --json', () => {

@@ -1,18 +1,12 @@
 import jStat from 'jstat';
 import { describe, expect, it } from 'vitest';
 import { percentile, robustSigma } from '../../../lib/photometry/percentile';
+import { seededRandom } from '../../fixtures/seeded-random';
 
 // Oracle: jStat.percentile (inclusive: linear interpolation between order statistics, the
 // definition PERCENTILE.INC and R's type 7 use), on a sorted copy.
 const oraclePercentile = (v: number[], p: number): number => jStat.percentile([...v].sort((a, b) => a - b), p / 100, false);
 
-function lcg(seed: number): () => number {
-  let s = seed;
-  return () => {
-    s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
-    return s / 2 ** 32;
-  };
-}
 
 // planes' sizes and shapes: long, with ties, sorted, constant or periodic
 const shapes: [string, (n: number, r: () => number) => number[]][] = [
@@ -30,7 +24,7 @@ describe('percentile and robustSigma give the exact order statistics (jStat as o
   for (const [name, make] of shapes) {
     for (const n of [19_999, 20_000, 54_321]) {
       it(`${name}, ${n} values`, () => {
-        const v = make(n, lcg(n));
+        const v = make(n, seededRandom(n));
         for (const p of [0, 0.5, 25, 50, 75, 99, 99.5, 100]) expect(percentile(v, p)).toBe(oraclePercentile(v, p));
         const med = oraclePercentile(v, 50);
         const mad = oraclePercentile(v.map((x) => Math.abs(x - med)), 50);
@@ -40,7 +34,7 @@ describe('percentile and robustSigma give the exact order statistics (jStat as o
   }
 
   it('keeps the input as it was and ignores non-finite values', () => {
-    const r = lcg(7);
+    const r = seededRandom(7);
     const v = Float32Array.from({ length: 30_000 }, () => r());
     v[5] = Number.NaN;
     v[6] = Number.POSITIVE_INFINITY;

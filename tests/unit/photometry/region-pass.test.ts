@@ -2,6 +2,7 @@ import { converter } from 'culori';
 import { describe, expect, it } from 'vitest';
 import { measureRects, totalsMean, totalsRgbMean } from '../../../lib/photometry/region-pass';
 import type { Offset, PhotoRaster, Rect } from '../../../lib/photometry/types';
+import { seededRandom } from '../../fixtures/seeded-random';
 
 // Independent oracle: culori's sRGB → linear-light conversion (IEC 61966-2-1 transfer function),
 // then relative luminance with the ITU-R BT.709 weights (published), pixel by pixel in float64.
@@ -9,12 +10,8 @@ const toLinear = converter('lrgb');
 const W709 = { r: 0.2126, g: 0.7152, b: 0.0722 };
 
 function randomRaster(width: number, height: number, channels: 1 | 3, bitDepth: 8 | 16, seed: number): PhotoRaster {
-  let s = seed;
-  const next = (): number => {
-    // a small LCG: the same pixels every run
-    s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
-    return s / 2 ** 32;
-  };
+  // the same pixels every run
+  const next = seededRandom(seed);
   const max = bitDepth === 8 ? 255 : 65535;
   const n = width * height * channels;
   const data = bitDepth === 8 ? new Uint8Array(n) : new Uint16Array(n);

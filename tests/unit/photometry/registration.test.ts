@@ -45,14 +45,18 @@ describe('phase correlation and registration (PRODUCT.md §5.6)', () => {
     const ref = texture(640, 480, 3);
     const mov = texture(640, 480, 3, { dx, dy });
     const r = registerPhotos({ reference: ref, moving: mov, referenceSmall: downsampleLuminance(ref, 1), movingSmall: downsampleLuminance(mov, 1), factor: 1, maxShift: 70 });
-    expect([r.dx, r.dy]).toEqual([dx, dy]);
+    // sub-pixel estimates: a whole-pixel shift comes back within a few hundredths
+    expect(Math.abs(r.dx - dx)).toBeLessThan(0.05);
+    expect(Math.abs(r.dy - dy)).toBeLessThan(0.05);
+    expect(Math.abs(r.angle)).toBeLessThan(1e-4);
   });
 
   it('works through a downsampled plane (factor 3, odd size)', () => {
     const ref = texture(901, 601, 9);
     const mov = texture(901, 601, 9, { dx: -8, dy: 5 });
     const r = registerPhotos({ reference: ref, moving: mov, referenceSmall: downsampleLuminance(ref, 3), movingSmall: downsampleLuminance(mov, 3), factor: 3, maxShift: 60 });
-    expect([r.dx, r.dy]).toEqual([-8, 5]);
+    expect(Math.abs(r.dx + 8)).toBeLessThan(0.05);
+    expect(Math.abs(r.dy - 5)).toBeLessThan(0.05);
   });
 
   it('phaseCorrelate refuses planes of different sizes', () => {

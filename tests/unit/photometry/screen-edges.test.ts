@@ -54,9 +54,10 @@ describe('ghost offset put to the pixel from the ghost’s own edges', () => {
     });
   }
 
-  it('keeps a component too close to the screen for a clean strip', () => {
+  it('reads a component too close to the screen beside it, where the ghost stands alone', () => {
+    // dx = 5 is within the strip's reach of the screen's right edge; below the screen the ghost's right edge is clear
     const { on, off } = photos(1000, 700, screen, { dx: 5, dy: 40 });
     const r = refineGhostOffset(screen, { dx: 6, dy: 42 }, src(on), src(off), 4);
-    expect(r).toEqual({ dx: 6, dy: 40 });
+    expect(r).toEqual({ dx: 5, dy: 40 });
   });
 });
