@@ -65,6 +65,11 @@ const ROUTES: { method: string; path: string; access: Access; query?: string }[]
   { method: 'GET', path: '/api/v1/projects', access: 'project.read' },
   { method: 'GET', path: '/api/v1/projects/[projectId]/readings', access: 'project.read' },
   { method: 'GET', path: '/api/v1/projects/[projectId]/trend', access: 'project.read' },
+  { method: 'GET', path: '/api/v1/projects/[projectId]/readings.csv', access: 'export.create' },
+  { method: 'GET', path: '/api/v1/openapi.json', access: 'public' },
+  { method: 'GET', path: '/api/v1/captures/[captureId]', access: 'capture.read' },
+  { method: 'DELETE', path: '/api/v1/captures/[captureId]', access: 'capture.write' },
+  { method: 'GET', path: '/api/v1/captures/[captureId]/photos', access: 'capture.read' },
   { method: 'POST', path: '/api/v1/captures', access: 'capture.write' },
   { method: 'POST', path: '/api/v1/captures/[captureId]/photos', access: 'capture.write' },
   { method: 'PATCH', path: '/api/v1/captures/[captureId]/photos/[photoId]', access: 'capture.write' },
@@ -123,7 +128,7 @@ function declaredRoutes(): { method: string; path: string; access: string }[] {
   const read = (file: string): { method: string; access: string }[] => {
     const src = readFileSync(file, 'utf8');
     const found: { method: string; access: string }[] = [];
-    for (const m of src.matchAll(/export const (GET|POST|PUT|PATCH|DELETE) = withAuth[\s\S]*?permission: '([\w.]+)'/g)) found.push({ method: m[1]!, access: m[2]! });
+    for (const m of src.matchAll(/export const (GET|POST|PUT|PATCH|DELETE) = (?:withAuth|rigRoute)[\s\S]*?permission: '([\w.]+)'/g)) found.push({ method: m[1]!, access: m[2]! });
     for (const m of src.matchAll(/export (?:async )?function (GET|POST|PUT|PATCH|DELETE)\b/g)) found.push({ method: m[1]!, access: 'public' });
     for (const m of src.matchAll(/export \{([^}]*)\} from '([^']+)'/g)) {
       const target = join(file, '..', `${m[2]}.ts`);
