@@ -51,7 +51,3 @@ export function formatMetric(key: MetricKey, v: number | null | undefined, withU
   return formatMetricValue(key, v, { unit: withUnit });
 }
 
-/** Column header units of the export CSV (from lib/format). */
-export const EXPORT_UNITS: Record<MetricKey, string> = Object.fromEntries(
-  METRIC_KEYS.map((k) => [k, METRIC_FORMATS[k].csvHeader.replace(/^[^(]*\((.*)\)$/, '$1')]),
-) as Record<MetricKey, string>;

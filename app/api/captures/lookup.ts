@@ -1,14 +1,9 @@
 import 'server-only';
 import { getCaptureSet, type CaptureSet } from '@/db/queries/capture-sets';
 import { notFound } from '@/lib/errors';
-import { uuidSchema } from '@/lib/schemas/common';
+import { idOr404 } from '@/lib/ids';
 
-// Malformed ids and other labs' ids answer the same 404.
-export function idOr404(raw: string, what: string): string {
-  const parsed = uuidSchema.safeParse(raw);
-  if (!parsed.success) throw notFound(`No such ${what}`);
-  return parsed.data;
-}
+export { idOr404 };
 
 export async function captureSetOr404(labId: string, raw: string): Promise<CaptureSet> {
   const set = await getCaptureSet(labId, idOr404(raw, 'capture set'));

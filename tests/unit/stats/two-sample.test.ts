@@ -1,6 +1,7 @@
 import ttest2 from '@stdlib/stats-ttest2';
 import { describe, expect, it } from 'vitest';
 import { pooledTest, welchDegreesOfFreedom, welchTest } from '@/lib/stats';
+import { seededRandom } from '../../fixtures/seeded-random';
 
 const auto83a = { n: 249, mean: 20.14458, sd: 6.4147 };
 const auto83b = { n: 79, mean: 30.48101, sd: 6.10771 };
@@ -34,17 +35,6 @@ describe('small-sample Welch (published: NAG Library g07cac example)', () => {
   });
 });
 
-// Deterministic generator so the oracle datasets are the same on every run.
-function seeded(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 function normalSample(rand: () => number, n: number, mu: number, sigma: number): number[] {
   const out: number[] = [];
   for (let i = 0; i < n; i++) {
@@ -65,7 +55,7 @@ describe('Welch and pooled t against @stdlib/stats-ttest2 on seeded random data 
   ];
   for (const c of cases) {
     it(`seed ${c.seed}: ${c.n1} vs ${c.n2} values`, () => {
-      const rand = seeded(c.seed);
+      const rand = seededRandom(c.seed);
       const x = normalSample(rand, c.n1, 1, c.s1);
       const y = normalSample(rand, c.n2, c.mu2, c.s2);
       const ours = welchTest(x, y);

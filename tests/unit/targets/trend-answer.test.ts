@@ -3,15 +3,12 @@ import { gzipSync } from 'node:zlib';
 import { METRIC_KEYS, type MetricKey } from '../../../lib/targets/metrics';
 import { buildTrends, type RevisionRef, type SetReading, type Trend } from '../../../lib/targets/series';
 import { fromTrendAnswer, sig, toTrendAnswer, type ExpandedTrend } from '../../../lib/targets/trend-answer';
+import { seededRandom } from '../../fixtures/seeded-random';
 
 // Invented readings; a seeded generator so a failure can be replayed.
-function lcg(seed: number): () => number {
-  let s = seed >>> 0;
-  return () => ((s = (Math.imul(s, 1664525) + 1013904223) >>> 0) / 2 ** 32);
-}
 
 function project(sets: number, revisions: number, seed = 3): { revs: RevisionRef[]; readings: SetReading[] } {
-  const rnd = lcg(seed);
+  const rnd = seededRandom(seed);
   const revs = Array.from({ length: revisions }, (_, i) => ({ id: `00000000-0000-4000-8000-${String(i).padStart(12, '0')}`, label: `R${i + 1}`, position: i + 1 }));
   const readings: SetReading[] = [];
   for (let k = 0; k < sets; k++) {

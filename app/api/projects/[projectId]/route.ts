@@ -2,21 +2,15 @@ import { NextResponse } from 'next/server';
 import { deleteProject, getProject, updateProject } from '@/db/queries/projects';
 import { readJson, withAuth } from '@/lib/auth/with-auth';
 import { notFound } from '@/lib/errors';
-import { uuidSchema } from '@/lib/schemas/common';
+import { idOr404 } from '@/lib/ids';
 import { projectUpdateSchema } from '@/lib/schemas/project';
 
 type P = { projectId: string };
 
-// An id that is malformed or belongs to another lab answers the same 404.
-const idOr404 = (raw: string) => {
-  const parsed = uuidSchema.safeParse(raw);
-  if (!parsed.success) throw notFound('No such project');
-  return parsed.data;
-};
 
 export const GET = withAuth<P>(
   async (_req, { actor, params }) => {
-    const project = await getProject(actor.labId, idOr404(params.projectId));
+    const project = await getProject(actor.labId, idOr404(params.projectId, 'project'));
     if (!project) throw notFound('No such project');
     return NextResponse.json({ project });
   },
@@ -25,7 +19,7 @@ export const GET = withAuth<P>(
 
 export const PATCH = withAuth<P>(
   async (req, { actor, params }) => {
-    const id = idOr404(params.projectId);
+    const id = idOr404(params.projectId, 'project');
     const input = projectUpdateSchema.parse(await readJson(req));
     const project = await updateProject(actor.labId, actor.user.id, id, input);
     if (!project) throw notFound('No such project');
@@ -36,7 +30,7 @@ export const PATCH = withAuth<P>(
 
 export const DELETE = withAuth<P>(
   async (_req, { actor, params }) => {
-    const ok = await deleteProject(actor.labId, actor.user.id, idOr404(params.projectId));
+    const ok = await deleteProject(actor.labId, actor.user.id, idOr404(params.projectId, 'project'));
     if (!ok) throw notFound('No such project');
     return new NextResponse(null, { status: 204 });
   },
