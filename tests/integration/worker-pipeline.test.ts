@@ -1,5 +1,5 @@
 // The analysis pipeline against real PostgreSQL, a private Redis and real worker processes.
-import { spawnSync, type ChildProcess } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -8,29 +8,13 @@ import { Redis } from 'ioredis';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { renderCapture, type RenderedCapture } from '../fixtures/capture-generator';
 import { freePort } from '../fixtures/free-port';
+import { TestRedis } from '../fixtures/redis-server';
 import { addCaptureSet, createTestLab } from '../fixtures/test-lab';
 import { removeWorkerBuild, spawnReady, workerArgs } from '../fixtures/worker-process';
 
 const tmp = mkdtempSync(join(tmpdir(), 'vm-worker-'));
 const prefix = `vmtest${Math.random().toString(36).slice(2, 8)}`;
-let redisPort = 0;
-
-function startRedis(): void {
-  const r = spawnSync('redis-server', ['--bind', '127.0.0.1', '--port', String(redisPort), '--daemonize', 'yes', '--dir', tmp, '--pidfile', join(tmp, 'redis.pid'), '--logfile', join(tmp, 'redis.log'), '--save', '', '--appendonly', 'no']);
-  if (r.status !== 0) throw new Error(`redis-server did not start: ${r.stderr.toString()}`);
-}
-
-async function waitRedis(): Promise<void> {
-  for (let i = 0; i < 100; i++) {
-    if (spawnSync('redis-cli', ['-p', String(redisPort), 'ping']).stdout?.toString().trim() === 'PONG') return;
-    await sleep(50);
-  }
-  throw new Error('redis did not answer');
-}
-
-function stopRedis(): void {
-  spawnSync('redis-cli', ['-p', String(redisPort), 'shutdown', 'nosave']);
-}
+let redis: TestRedis;
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
@@ -57,7 +41,7 @@ const workers: ChildProcess[] = [];
 const logs: string[] = [];
 
 function spawnWorker(): Promise<ChildProcess> {
-  const env = { ...process.env, REDIS_URL: `redis://127.0.0.1:${redisPort}`, QUEUE_PREFIX: prefix, STORAGE_DIR: join(tmp, 'storage'), WORKER_CONCURRENCY: '2' };
+  const env = { ...process.env, REDIS_URL: redis.url, QUEUE_PREFIX: prefix, STORAGE_DIR: join(tmp, 'storage'), WORKER_CONCURRENCY: '2' };
   return spawnReady(workerArgs('--sweep-every=1', '--sweep-grace=1'), { env, what: 'worker', log: logs, track: workers });
 }
 
@@ -90,10 +74,9 @@ let seed = 100;
 const small = () => renderCapture({ width: 320, height: 240, seed: seed++, ghost: null });
 
 beforeAll(async () => {
-  redisPort = await freePort();
-  startRedis();
-  await waitRedis();
-  process.env.REDIS_URL = `redis://127.0.0.1:${redisPort}`;
+  redis = new TestRedis(tmp, await freePort());
+  redis.start();
+  process.env.REDIS_URL = redis.url;
   m = {
     db: await import('../../db/index'),
     analyses: await import('../../db/queries/analyses'),
@@ -105,7 +88,7 @@ beforeAll(async () => {
   };
   const db = m.db.getDb();
   ({ labId, userId, revisionId } = await createTestLab(db, { tag: prefix, name: 'Worker test', project: 'Bench rig', revision: 'R1' }));
-  queueRedis = new Redis(`redis://127.0.0.1:${redisPort}`, { maxRetriesPerRequest: 1, enableOfflineQueue: false, retryStrategy: (n) => Math.min(n * 100, 500) });
+  queueRedis = new Redis(redis.url, { maxRetriesPerRequest: 1, enableOfflineQueue: false, retryStrategy: (n) => Math.min(n * 100, 500) });
   queueRedis.on('error', () => undefined);
   await new Promise<void>((r) => queueRedis.once('ready', () => r()));
   queue = m.producer.createAnalysisQueue(queueRedis, prefix);
@@ -124,7 +107,7 @@ afterAll(async () => {
     await db('users').where({ id: userId }).delete();
   }
   await m?.db.closeDb();
-  stopRedis();
+  redis?.stop();
   rmSync(tmp, { recursive: true, force: true });
   removeWorkerBuild();
 });
@@ -193,7 +176,7 @@ describe('analysis worker', () => {
 
   it('answers fast with Redis down, keeps the analysis queued and finishes it once Redis is back', async () => {
     const setId = await newCaptureSet('redis down', await small());
-    stopRedis();
+    redis.stop();
     await sleep(300);
     const t0 = Date.now();
     const { analysis, enqueued } = await m.producer.requestAnalysis(labId, userId, setId, queue);
@@ -201,8 +184,7 @@ describe('analysis worker', () => {
     expect(enqueued).toBe(false);
     expect(elapsed).toBeLessThan(2000);
     expect((await m.analyses.getAnalysis(labId, analysis.id))?.status).toBe('queued');
-    startRedis();
-    await waitRedis();
+    redis.start();
     const done = await waitFor(analysis.id, ['done', 'failed'], 45_000);
     expect(done.status).toBe('done');
   }, 60_000);
