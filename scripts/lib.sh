@@ -169,6 +169,24 @@ mail_start() {
   cat "$run/mail.log" >&2; fail "the mail catcher did not start (log above)"
 }
 
+# wait_healthy PORT PID_FILE LOG_FILE [SECONDS (default 60)]: returns once the web app on
+# 127.0.0.1:PORT answers /api/health with 2xx (it does when PostgreSQL and Redis answer it); stops
+# the calling script with the reason and the log's tail when the process exits first or time runs out.
+wait_healthy() {
+  local port="$1" pidf="$2" logf="$3" secs="${4:-60}" url="http://127.0.0.1:$1/api/health" i
+  for i in $(seq 1 $((secs * 5))); do
+    curl -fsS --max-time 5 "$url" >/dev/null 2>&1 && return 0
+    if ! kill -0 "$(cat "$pidf" 2>/dev/null)" 2>/dev/null; then
+      tail -20 "$logf" >&2
+      fail "the web app exited before answering its health check (log above, full log in $logf)"
+    fi
+    sleep 0.2
+  done
+  tail -20 "$logf" >&2
+  echo "health check answer: $(curl -sS --max-time 5 "$url" 2>&1 | head -c 300)" >&2
+  fail "the web app did not answer its health check on $url within $secs s (log above, full log in $logf)"
+}
+
 # worker_spawn LOG_FILE PID_FILE: one worker process, compiled by scripts/build-worker.mjs, on plain Node.
 worker_spawn() {
   setsid node --enable-source-maps "$ROOT/.build/worker/index.mjs" >"$1" 2>&1 & echo $! > "$2"

@@ -61,17 +61,7 @@ done
 setsid node scripts/web.mjs -p "$PORT" -H "${HOST:-127.0.0.1}" >"$RUN/web.log" 2>&1 & echo $! > "$RUN/web.pid"
 
 # "running" only once the app answers its health check (PostgreSQL and Redis reachable from it)
-healthy=0
-for i in $(seq 1 300); do
-  if curl -fsS "http://127.0.0.1:$PORT/api/health" >/dev/null 2>&1; then healthy=1; break; fi
-  kill -0 "$(cat "$RUN/web.pid")" 2>/dev/null || { tail -20 "$RUN/web.log" >&2; fail "the web app exited before answering (log above, full log in $RUN/web.log)"; }
-  sleep 0.2
-done
-if [ "$healthy" != 1 ]; then
-  tail -20 "$RUN/web.log" >&2
-  echo "health check: $(curl -sS "http://127.0.0.1:$PORT/api/health" 2>&1 | head -c 300)" >&2
-  fail "the web app did not answer its health check on http://127.0.0.1:$PORT/api/health within 60 s (log above)"
-fi
+wait_healthy "$PORT" "$RUN/web.pid" "$RUN/web.log" 60
 
 cat <<EOT
 

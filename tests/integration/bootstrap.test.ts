@@ -66,4 +66,47 @@ describe('bootstrap from a private folder', () => {
     // the private folder stayed private
     expect(statSync(home).mode & 0o777).toBe(0o700);
   }, 90_000);
+
+  // start.sh prints "running" only after wait_healthy returns
+  describe('waiting for the web app’s health check', () => {
+    const serve = (status: number) => `require('node:http').createServer((q, r) => { r.writeHead(q.url === '/api/health' ? ${status} : 404); r.end('{"ok":${status === 200}}'); }).listen(Number(process.env.PORT), '127.0.0.1')`;
+    const wait = async (program: string, seconds: number) => {
+      const port = String(await freePort());
+      const started = Date.now();
+      const r = bash(
+        [
+          '. scripts/lib.sh',
+          'node -e "$PROGRAM" > "$HOME_DIR/web.log" 2>&1 & echo $! > "$HOME_DIR/web.pid"',
+          'trap \'kill "$(cat "$HOME_DIR/web.pid")" 2>/dev/null\' EXIT',
+          `wait_healthy "$PORT" "$HOME_DIR/web.pid" "$HOME_DIR/web.log" ${seconds}`,
+          'echo running',
+        ].join('\n'),
+        { PROGRAM: program, PORT: port, HOME_DIR: home },
+      );
+      return { ...r, ms: Date.now() - started };
+    };
+
+    it('goes on once /api/health answers 200', async () => {
+      const r = await wait(serve(200), 20);
+      expect(r.status, r.out).toBe(0);
+      expect(r.out).toContain('running');
+    });
+
+    it('stops with the reason when the app answers 503 until the time runs out', async () => {
+      const r = await wait(serve(503), 2);
+      expect(r.status).toBe(1);
+      expect(r.out).not.toContain('running');
+      expect(r.out).toMatch(/did not answer its health check on http:\/\/127\.0\.0\.1:\d+\/api\/health within 2 s/);
+      expect(r.out).toContain('{"ok":false}');
+    });
+
+    it('stops at once when the app exits', async () => {
+      const r = await wait("console.error('cannot read the build'); process.exit(3)", 20);
+      expect(r.status).toBe(1);
+      expect(r.out).not.toContain('running');
+      expect(r.out).toMatch(/exited before answering its health check/);
+      expect(r.out).toContain('cannot read the build');
+      expect(r.ms).toBeLessThan(10_000);
+    });
+  });
 });
