@@ -95,9 +95,11 @@ export function ReanalysePanel({
           {outdated.revision} capture set{outdated.revision === 1 ? '' : 's'} of this revision ({outdated.project} in the whole project) {outdated.project === 1 && outdated.revision <= 1 ? 'was' : 'were'} measured with an older engine (
           {outdated.versions.join(', ')}); the current engine is {currentEngine}. Their numbers may differ from a new analysis of the same photos.
         </p>
-      ) : !batch ? (
-        <p className="text-sm text-muted">Every reading in this project was made with the current engine, {currentEngine}.</p>
-      ) : null}
+      ) : (
+        <p className="text-sm text-muted" data-testid="outdated-none">
+          Every reading in this project was made with the current engine, {currentEngine}.
+        </p>
+      )}
       {canRun && outdated.project > 0 ? (
         <div className="flex flex-wrap items-center gap-3">
           <Button type="button" disabled={start.isPending || running || outdated.revision === 0} onClick={() => go(revisionId)}>

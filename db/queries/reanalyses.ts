@@ -111,14 +111,18 @@ export async function getBatchProgress(labId: string, batchId: string): Promise<
   };
 }
 
-/** The newest batch over this revision (or, without one, over the whole project) that is not finished, if any. */
-export async function findOpenBatch(labId: string, projectId: string, revisionId: string | null): Promise<BatchProgress | null> {
-  const q = getDb()('reanalysis_batches').where({ lab_id: labId, project_id: projectId }).orderBy('created_at', 'desc').limit(5).select<{ id: string }[]>('id');
+/**
+ * The newest batch over this revision (or the whole project) still running, or finished within
+ * `recentMinutes`, so its page keeps showing how it ended; null when there is none.
+ */
+export async function findRecentBatch(labId: string, projectId: string, revisionId: string | null, recentMinutes = 15): Promise<BatchProgress | null> {
+  const q = getDb()('reanalysis_batches').where({ lab_id: labId, project_id: projectId }).orderBy('created_at', 'desc').limit(5).select<{ id: string; created_at: Date }[]>('id', 'created_at');
   if (revisionId) q.andWhere((w) => w.where('revision_id', revisionId).orWhereNull('revision_id'));
   else q.whereNull('revision_id');
-  for (const { id } of await q) {
-    const p = await getBatchProgress(labId, id);
-    if (p && !p.finished) return p;
+  const since = Date.now() - recentMinutes * 60_000;
+  for (const row of await q) {
+    const p = await getBatchProgress(labId, row.id);
+    if (p && (!p.finished || row.created_at.getTime() >= since)) return p;
   }
   return null;
 }

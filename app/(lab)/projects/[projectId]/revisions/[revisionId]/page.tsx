@@ -8,7 +8,7 @@ import { EditRevisionForm } from '@/components/revisions/revision-forms';
 import { DataTable } from '@/components/ui/data-table';
 import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
 import { listCaptureSets } from '@/db/queries/capture-sets';
-import { batchView, findOpenBatch, listOutdatedSets } from '@/db/queries/reanalyses';
+import { batchView, findRecentBatch, listOutdatedSets } from '@/db/queries/reanalyses';
 import { getRevision } from '@/db/queries/revision-edits';
 import { listTargets } from '@/db/queries/targets';
 import { listNewestReadings } from '@/db/queries/trends';
@@ -35,8 +35,8 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
     listTargets(actor.labId, revision.projectId),
     listNewestReadings(actor.labId, { projectId: revision.projectId, revisionId: revision.id }),
   ]);
-  // readings an older engine made, and a re-analysis of this revision or the project still running
-  const [outdatedSets, openBatch] = await Promise.all([listOutdatedSets(actor.labId, { projectId: revision.projectId }, ENGINE_VERSION), findOpenBatch(actor.labId, revision.projectId, revision.id)]);
+  // readings an older engine made, and a re-analysis of this revision or the project running or just ended
+  const [outdatedSets, recentBatch] = await Promise.all([listOutdatedSets(actor.labId, { projectId: revision.projectId }, ENGINE_VERSION), findRecentBatch(actor.labId, revision.projectId, revision.id)]);
   const outdated = {
     revision: outdatedSets.filter((s) => s.revisionId === revision.id).length,
     project: outdatedSets.length,
@@ -128,7 +128,7 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
             </p>
           ) : null}
         </Panel>
-        {outdated.project > 0 || openBatch ? (
+        {outdated.project > 0 || recentBatch ? (
           <Panel title="Engine version">
             <QueryProvider>
               <ReanalysePanel
@@ -137,7 +137,7 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
                 currentEngine={ENGINE_VERSION}
                 outdated={outdated}
                 canRun={can(actor.role, 'analysis.run')}
-                openBatch={openBatch ? batchView(openBatch) : null}
+                openBatch={recentBatch ? batchView(recentBatch) : null}
               />
             </QueryProvider>
           </Panel>
