@@ -140,10 +140,10 @@ export const analysisAnswer = z.object({
       result: z
         .looseObject({
           engineVersion: z.string(),
-          ambientContrastRatio: nullableNumber,
-          michelson: nullableNumber,
-          transmission: nullableNumber,
-          warnings: z.array(z.looseObject({ code: z.string(), message: z.string() })),
+          ambientContrastRatio: nullableNumber.optional(),
+          michelson: nullableNumber.optional(),
+          transmission: nullableNumber.optional(),
+          warnings: z.array(z.looseObject({ code: z.string(), message: z.string() })).optional(),
         })
         .describe('The engine’s full reading (docs/method.md §5); further fields may be added'),
     })

@@ -13,7 +13,7 @@ export const PATCH = rigRoute(
     if (!photo || photo.captureSetId !== set.id) throw notFound('No such photo');
     const { encoding } = input;
     if (encoding === 'linear' && !(photo.format === 'tiff' && photo.bitDepth === 16)) {
-      throw new AppError(422, `${photo.originalName || 'This photo'} is a ${photo.bitDepth}-bit ${photo.format.toUpperCase()}: only 16-bit TIFFs can be declared linear`, 'not_linear', { encoding: ['Only a 16-bit TIFF can be linear'] });
+      throw new AppError(422, `${photo.originalName || 'This photo'} is ${photo.bitDepth === 8 ? 'an' : 'a'} ${photo.bitDepth}-bit ${photo.format.toUpperCase()}, so it cannot be declared linear: only 16-bit TIFFs can.`, 'not_linear', { encoding: ['Only a 16-bit TIFF can be linear'] });
     }
     const updated = await setPhotoEncoding(actor.labId, actor.user.id, set.id, photo.id, encoding);
     if (!updated) throw notFound('No such photo');
