@@ -14,12 +14,10 @@ function normalise(ip: string): string {
 
 /**
  * The proxies whose X-Forwarded-For and X-Forwarded-Proto are believed: the TRUSTED_PROXIES
- * setting (comma-separated addresses) when the installation has one, else none.
+ * setting (comma-separated addresses; none when unset).
  */
 export function trustedProxies(): Set<string> {
-  const raw = (getEnv() as Record<string, unknown>).TRUSTED_PROXIES;
-  const list = Array.isArray(raw) ? raw : typeof raw === 'string' ? raw.split(',') : [];
-  return new Set(list.map((s) => normalise(String(s))).filter((s) => s !== ''));
+  return new Set(getEnv().TRUSTED_PROXIES.map(normalise).filter((s) => s !== ''));
 }
 
 /** The address of whoever opened the connection to this server. */

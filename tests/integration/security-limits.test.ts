@@ -15,6 +15,8 @@ const tmp = mkdtempSync(join(tmpdir(), 'vm-limits-'));
 process.env.STORAGE_DIR = join(tmp, 'storage');
 // a queue and limiter namespace of this run alone: no other test's jobs or budgets
 process.env.QUEUE_PREFIX = `vmlimits${process.pid}${Date.now().toString(36)}`;
+// one reverse proxy in front of the app, whose X-Forwarded-* headers count (nobody else's do)
+process.env.TRUSTED_PROXIES = '10.0.0.1';
 
 const jar = new Map<string, string>();
 vi.mock('server-only', () => ({}));
@@ -48,6 +50,8 @@ const calibrate = await import('../../app/api/cameras/calibrate/route');
 const patterns = await import('../../app/api/patterns/[kind]/route');
 const { clearPatternCache = () => undefined } = (await import('../../app/api/patterns/[kind]/render-cache').catch(() => ({}))) as { clearPatternCache?: () => void };
 const { createRevisionAction } = await import('../../app/(lab)/projects/[projectId]/revisions/actions');
+const { proxy } = await import('../../proxy');
+const { NextRequest } = await import('next/server');
 
 const APP = new URL(getEnv().NEXTAUTH_URL).origin;
 const tag = `${process.pid}-${Date.now().toString(36)}`;
@@ -386,5 +390,29 @@ describe('public patterns', () => {
     // the sizes already drawn cost no drawing, for this client or another
     expect((await get('white', 8192, 8192, peer)).status).toBe(200);
     expect((await get('checkerboard', 8192, 8192, '198.51.100.8')).status).toBe(200);
+  });
+});
+
+describe('page headers', () => {
+  const page = (headers: Record<string, string>) => proxy(new NextRequest(`${APP}/sign-in`, { headers }));
+
+  it('give every page a script policy with a fresh nonce and no unsafe-inline, handed to the renderer too', async () => {
+    const one = await page({ 'x-veilmeter-peer': '198.51.100.30' });
+    const two = await page({ 'x-veilmeter-peer': '198.51.100.30' });
+    const csp = one.headers.get('content-security-policy') ?? '';
+    const script = csp.split('; ').find((d) => d.startsWith('script-src')) ?? '';
+    const nonce = /'nonce-([^']+)'/.exec(script)?.[1];
+    expect(nonce).toBeTruthy();
+    expect(script).not.toContain("'unsafe-inline'");
+    expect(two.headers.get('content-security-policy')).not.toBe(csp);
+    // what the renderer reads to stamp the nonce on its scripts
+    expect(one.headers.get('x-middleware-request-content-security-policy')).toBe(csp);
+    expect(one.headers.get('x-middleware-request-x-nonce')).toBe(nonce);
+  });
+
+  it('send HSTS only over https: a trusted proxy saying so, never a client saying so', async () => {
+    expect((await page({ 'x-veilmeter-peer': '10.0.0.1', 'x-forwarded-proto': 'https' })).headers.get('strict-transport-security')).toBe('max-age=31536000; includeSubDomains');
+    expect((await page({ 'x-veilmeter-peer': '10.0.0.1', 'x-forwarded-proto': 'http' })).headers.get('strict-transport-security')).toBeNull();
+    expect((await page({ 'x-veilmeter-peer': '198.51.100.31', 'x-forwarded-proto': 'https' })).headers.get('strict-transport-security')).toBeNull();
   });
 });
