@@ -4,7 +4,7 @@ import { CartesianGrid, ComposedChart, Line, ReferenceLine, ResponsiveContainer,
 import { formatLuminance, formatLuminanceTick, formatRatio } from '@/components/stack/format';
 
 export type CurvePoint = { x: number; y: number };
-export type MeasuredChartPoint = { x: number; y: number; label: string };
+export type MeasuredChartPoint = { x: number; y: number; label: string; estimate?: boolean };
 
 export const CURVE_MIN = 10;
 export const CURVE_MAX = 40_000;
@@ -25,9 +25,14 @@ function MeasuredDot(props: unknown) {
   const { cx, cy, payload } = props as { cx?: number; cy?: number; payload?: MeasuredChartPoint };
   if (cx === undefined || cy === undefined || !payload) return <g />;
   return (
-    <g className="vm-measured-point" data-testid="measured-point">
-      <circle cx={cx} cy={cy} r={5} fill="rgb(var(--glow))" stroke="rgb(var(--canvas))" strokeWidth={1.5} />
-      <title>{`${payload.label}: ${formatRatio(payload.y)} at ${formatLuminance(payload.x)}`}</title>
+    <g className="vm-measured-point" data-testid="measured-point" data-estimate={payload.estimate ? 'yes' : 'no'}>
+      {/* a background estimated from EXIF is drawn hollow: the x position is only roughly known */}
+      {payload.estimate ? (
+        <circle cx={cx} cy={cy} r={4.5} fill="none" stroke="rgb(var(--glow))" strokeWidth={2} />
+      ) : (
+        <circle cx={cx} cy={cy} r={5} fill="rgb(var(--glow))" stroke="rgb(var(--canvas))" strokeWidth={1.5} />
+      )}
+      <title>{`${payload.label}: ${formatRatio(payload.y)} at ${formatLuminance(payload.x, { estimate: payload.estimate })}`}</title>
     </g>
   );
 }

@@ -1,63 +1,59 @@
 import type { Column, Row } from '@/components/ui/data-table';
-import { predictedContrastRatio } from '@/lib/optics';
-import { formatLuminance, formatPercent, formatRatio } from './format';
-import { mean, median, safePredict, storedElements } from './planner-model';
+import { formatLuminance, formatPercent, formatRatio } from '@/lib/format';
+import { storedElements, type MeasuredPoint } from './planner-model';
+import { predictedAgainstMeasuredByVariant, readVariantStacks, type PredictedMeasured } from './workbench-model';
 
-type RevisionInput = { revisionId: string; label: string; position: number; stack: unknown };
-type ReadingInput = {
-  revisionId: string;
-  backgroundCdm2: number | null;
-  ambientContrastRatio: number | null;
-  ghostRatio: number | null;
-  transmission: number | null;
-};
+type RevisionInput = { revisionId: string; label: string; position: number; stack: unknown; variantStacks?: unknown };
+type ReadingInput = MeasuredPoint & { revisionId: string };
 
 export const COMPARISON_COLUMNS: Column[] = [
   { key: 'revision', label: 'Revision' },
+  { key: 'variant', label: 'Variant' },
   { key: 'readings', label: 'Readings', numeric: true },
   { key: 'background', label: 'Median background', numeric: true },
-  { key: 'acrPredicted', label: 'ACR predicted', numeric: true },
-  { key: 'acrMeasured', label: 'ACR measured (mean)', numeric: true },
+  { key: 'acrPredicted', label: 'Contrast predicted', numeric: true },
+  { key: 'acrMeasured', label: 'Contrast measured (mean)', numeric: true },
   { key: 'ghostPredicted', label: 'Ghost predicted', numeric: true },
   { key: 'ghostMeasured', label: 'Ghost measured', numeric: true },
   { key: 'tauPredicted', label: 'Transmission predicted', numeric: true },
   { key: 'tauMeasured', label: 'Transmission measured', numeric: true },
 ];
 
-const finite = (xs: (number | null)[]): number[] => xs.filter((x): x is number => x !== null && Number.isFinite(x));
-
 const cell = (v: number | null, fmt: (x: number | null) => string) => ({ text: fmt(v), sort: v });
 
+/** The cells of one predicted-against-measured row (shared by the per-revision table and the workbench). */
+export function predictedMeasuredCells(p: PredictedMeasured) {
+  return {
+    variant: { text: p.variant || '—', sort: p.variant },
+    readings: { text: String(p.readings), sort: p.readings },
+    background: { text: p.background === null ? '—' : `${formatLuminance(p.background, { estimate: p.backgroundSource === 'estimate' })}${p.backgroundSource === 'estimate' ? ' (EXIF estimate)' : ''}`, sort: p.background },
+    acrPredicted: cell(p.acrPredicted, (x) => formatRatio(x)),
+    acrMeasured: cell(p.acrMeasured, (x) => formatRatio(x)),
+    ghostPredicted: cell(p.ghostPredicted, (x) => formatPercent(x)),
+    ghostMeasured: cell(p.ghostMeasured, (x) => formatPercent(x)),
+    tauPredicted: cell(p.tauPredicted, (x) => formatPercent(x)),
+    tauMeasured: cell(p.tauMeasured, (x) => formatPercent(x)),
+  };
+}
+
 /**
- * One row per revision: what its stored stack predicts beside the mean of its newest readings.
- * The predicted contrast is taken at the revision's median measured background, where the two
- * can be compared fairly; without a known background it is left blank.
+ * One row per revision and variant: the variant's own stack (the base stack changed as the variant
+ * says) against that variant's newest readings only. The predicted contrast is taken at the
+ * median background of those readings (typed, else from the photos, estimates marked).
  */
 export function buildComparisonRows(revisions: RevisionInput[], readings: ReadingInput[]): Row[] {
-  return revisions.map((rev) => {
+  return revisions.flatMap((rev) => {
     const mine = readings.filter((r) => r.revisionId === rev.revisionId);
     const { elements, complete } = storedElements(rev.stack);
-    const prediction = complete ? safePredict({ elements }) : null;
-    const display = elements[0];
-    const bg = median(finite(mine.map((r) => r.backgroundCdm2)).filter((x) => x > 0));
-    const acrPredicted =
-      prediction && bg !== null && display?.kind === 'display'
-        ? predictedContrastRatio(prediction.eta, display.luminance, prediction.tau, bg)
-        : null;
-    const label = prediction ? rev.label : `${rev.label} (no stack)`;
-    return {
-      id: rev.revisionId,
+    const base = complete ? { elements } : null;
+    const per = predictedAgainstMeasuredByVariant(base, readVariantStacks(rev.variantStacks), mine);
+    const rows = per.length ? per : predictedAgainstMeasuredByVariant(base, {}, [{ captureSetId: '', variant: '', backgroundCdm2: null, ambientContrastRatio: null, ghostRatio: null, transmission: null }]).map((p) => ({ ...p, readings: 0, acrMeasured: null, ghostMeasured: null, tauMeasured: null }));
+    return rows.map((p) => ({
+      id: `${rev.revisionId}:${p.variant}`,
       cells: {
-        revision: { text: label, sort: rev.position },
-        readings: { text: String(mine.length), sort: mine.length },
-        background: cell(bg, formatLuminance),
-        acrPredicted: cell(acrPredicted, formatRatio),
-        acrMeasured: cell(mean(finite(mine.map((r) => r.ambientContrastRatio))), formatRatio),
-        ghostPredicted: cell(prediction?.ghost?.unpolarised ?? null, formatPercent),
-        ghostMeasured: cell(mean(finite(mine.map((r) => r.ghostRatio))), formatPercent),
-        tauPredicted: cell(prediction?.tau ?? null, formatPercent),
-        tauMeasured: cell(mean(finite(mine.map((r) => r.transmission))), formatPercent),
+        revision: { text: base ? rev.label : `${rev.label} (no stack)`, sort: rev.position },
+        ...predictedMeasuredCells(p),
       },
-    };
+    }));
   });
 }

@@ -236,6 +236,8 @@ export type MeasuredPoint = {
   captureSetId: string;
   variant: string;
   backgroundCdm2: number | null;
+  /** The background from the photos (camera profile or rough EXIF estimate), when they have an absolute scale. */
+  photoBackground?: { cdm2: number; kind: 'calibrated' | 'rough-estimate' } | null;
   ambientContrastRatio: number | null;
   ghostRatio: number | null;
   transmission: number | null;

@@ -3,11 +3,11 @@
 import { useRouter } from 'next/navigation';
 import { useMemo, useState, useTransition } from 'react';
 import { saveStackAction } from '@/app/(lab)/projects/[projectId]/revisions/[revisionId]/stack/actions';
-import { ContrastCurveChart, CURVE_MAX, CURVE_MIN, type MeasuredChartPoint } from '@/components/charts/contrast-curve-chart';
+import { ContrastCurveChart, CURVE_MAX, CURVE_MIN } from '@/components/charts/contrast-curve-chart';
 import { Button } from '@/components/ui/button';
 import { EmptyState, Notice, Panel } from '@/components/ui/panel';
 import { listStackTemplates, type StackPrediction, type StackTemplateId } from '@/lib/optics';
-import type { StackElement, StackElementKind } from '@/lib/schemas/stack';
+import type { StackElement, StackElementKind, VariantStacks } from '@/lib/schemas/stack';
 import { ElementCard } from './element-card';
 import { formatLuminance, formatPercent, formatRatio } from './format';
 import {
@@ -26,7 +26,9 @@ import {
   type StackErrors,
   type WhatIf,
 } from './planner-model';
+import { VariantPredictedMeasured, VariantStacksEditor } from './variant-stacks';
 import { WhatIfSliders } from './what-if-sliders';
+import { fromVariantDrafts, placeMeasured, plannerVariants, predictedAgainstMeasuredByVariant, toVariantDrafts, type VariantDraft } from './workbench-model';
 
 const TEMPLATES = listStackTemplates();
 
@@ -93,6 +95,7 @@ export function StackWorkbench({
   canWrite,
   measured,
   cautions,
+  initialVariantStacks = {},
 }: {
   projectId: string;
   revisionId: string;
@@ -102,12 +105,15 @@ export function StackWorkbench({
   canWrite: boolean;
   measured: MeasuredPoint[];
   cautions: React.ReactNode;
+  initialVariantStacks?: VariantStacks;
 }) {
   const router = useRouter();
   const [drafts, setDrafts] = useState<DraftElement[]>(() => initialElements.map((e, i) => toDraft(e, `stored-${i}`)));
   const [saved, setSaved] = useState<StackElement[]>(initialElements);
   const [savedJson, setSavedJson] = useState<string | null>(() => (storedComplete ? JSON.stringify({ elements: initialElements }) : null));
   const [whatIf, setWhatIf] = useState<WhatIf>(NO_WHAT_IF);
+  const [variantDrafts, setVariantDrafts] = useState<Record<string, VariantDraft>>(() => toVariantDrafts(initialVariantStacks));
+  const [savedVariantJson, setSavedVariantJson] = useState<string>(() => JSON.stringify(initialVariantStacks));
   const [serverErrors, setServerErrors] = useState<StackErrors>({});
   const [status, setStatus] = useState<{ ok: boolean; message: string } | null>(null);
   const [templateId, setTemplateId] = useState<StackTemplateId>('birdbath');
@@ -127,18 +133,16 @@ export function StackWorkbench({
   const whatIfPrediction = useMemo(() => safePredict(whatIfStack), [whatIfStack]);
   const shown = whatIfPrediction ?? prediction;
 
+  const variantState = useMemo(() => fromVariantDrafts(variantDrafts, drafts.length), [variantDrafts, drafts.length]);
+  const variantNames = useMemo(() => [...new Set([...plannerVariants(measured, variantState.value ?? {}), ...Object.keys(variantDrafts)])].sort((a, b) => a.localeCompare(b)), [measured, variantState, variantDrafts]);
   const currentJson = stack ? JSON.stringify(stack) : JSON.stringify({ elements: drafts.map(fromDraft) });
-  const dirty = currentJson !== savedJson && !(savedJson === null && drafts.length === 0);
+  const currentVariantJson = JSON.stringify(variantState.value ?? variantDrafts);
+  const dirty = (currentJson !== savedJson && !(savedJson === null && drafts.length === 0)) || currentVariantJson !== savedVariantJson;
 
-  const plotted: MeasuredChartPoint[] = [];
-  const unplotted: { point: MeasuredPoint; why: string }[] = [];
-  for (const m of measured) {
-    const label = m.variant || 'reading';
-    if (m.ambientContrastRatio === null || !(m.ambientContrastRatio > 0)) unplotted.push({ point: m, why: 'no contrast ratio' });
-    else if (m.backgroundCdm2 === null || !(m.backgroundCdm2 > 0)) unplotted.push({ point: m, why: 'no background luminance recorded' });
-    else if (m.backgroundCdm2 < CURVE_MIN || m.backgroundCdm2 > CURVE_MAX) unplotted.push({ point: m, why: `background ${formatLuminance(m.backgroundCdm2)} is off the chart` });
-    else plotted.push({ x: m.backgroundCdm2, y: m.ambientContrastRatio, label });
-  }
+  // typed backgrounds first, then calibrated ones, then the EXIF estimate (marked on the chart)
+  const { plotted, unplotted } = placeMeasured(measured, CURVE_MIN, CURVE_MAX);
+  const estimated = plotted.filter((p) => p.estimate).length;
+  const perVariant = useMemo(() => predictedAgainstMeasuredByVariant(stack, variantState.value ?? {}, measured), [stack, variantState, measured]);
 
   function edit(next: DraftElement[]) {
     setDrafts(next);
@@ -189,16 +193,23 @@ export function StackWorkbench({
       setStatus({ ok: false, message: 'Fix the highlighted fields first; nothing was saved.' });
       return;
     }
+    if (!variantState.value) {
+      setStatus({ ok: false, message: 'Fix the variants’ parts first; nothing was saved.' });
+      return;
+    }
     const json = JSON.stringify(stack);
+    const variantJson = JSON.stringify(variantState.value);
     const form = new FormData();
     form.set('projectId', projectId);
     form.set('revisionId', revisionId);
     form.set('stack', json);
+    form.set('variantStacks', variantJson);
     const submitted = stack.elements;
     startTransition(async () => {
       const res = await saveStackAction({}, form);
       if (res.ok) {
         setSavedJson(json);
+        setSavedVariantJson(variantJson);
         setSaved(submitted);
         setServerErrors({});
         router.refresh();
@@ -345,8 +356,13 @@ export function StackWorkbench({
                     </span>
                   ) : null}
                   <span>
-                    <span className="mr-1 inline-block h-2.5 w-2.5 rounded-full bg-glow align-middle" /> measured ({plotted.length})
+                    <span className="mr-1 inline-block h-2.5 w-2.5 rounded-full bg-glow align-middle" /> measured ({plotted.length - estimated})
                   </span>
+                  {estimated ? (
+                    <span data-testid="estimated-count">
+                      <span className="mr-1 inline-block h-2.5 w-2.5 rounded-full border-2 border-glow align-middle" /> background estimated from EXIF ({estimated})
+                    </span>
+                  ) : null}
                 </div>
               </div>
               <div className="rounded-md border border-line p-3">
@@ -368,6 +384,10 @@ export function StackWorkbench({
           )}
         </Panel>
 
+        <Panel title="Variants">
+          <VariantStacksEditor names={variantNames} base={drafts} drafts={variantDrafts} errors={variantState.errors} readOnly={readOnly} onChange={(next) => { setVariantDrafts(next); setStatus(null); }} />
+        </Panel>
+
         <Panel title={`Measured on ${revisionLabel}`}>
           {measured.length === 0 ? (
             <p data-testid="no-readings" className="text-sm text-muted">
@@ -375,9 +395,10 @@ export function StackWorkbench({
             </p>
           ) : (
             <div className="space-y-2 text-sm">
-              <p className="text-muted">
-                {plotted.length} of {measured.length} newest readings are on the chart.
+              <p className="text-muted" data-testid="plotted-count">
+                {plotted.length} of {measured.length} newest readings are on the chart{estimated ? `, ${estimated} at a background estimated from the photos’ EXIF (marked as estimates; a typed or calibrated value is used where there is one)` : ''}.
               </p>
+              <VariantPredictedMeasured rows={perVariant} csvName={`${revisionLabel}-predicted-vs-measured-per-variant`} />
               {unplotted.length ? (
                 <ul data-testid="unplotted-readings" className="space-y-1">
                   {unplotted.map(({ point, why }) => (

@@ -1,5 +1,5 @@
 import { getDb } from '../index';
-import type { Stack } from '../../lib/schemas/stack';
+import type { Stack, VariantStacks } from '../../lib/schemas/stack';
 import { recordAudit } from './audit';
 
 /** A revision with its stored stack, as the editor loads it. The stack is raw JSON: validate before use. */
@@ -11,10 +11,12 @@ export type RevisionStack = {
   status: string;
   notes: string;
   stack: unknown;
+  /** Each variant's change to the stack (raw JSON: validate before use). */
+  variantStacks: unknown;
   updatedAt: Date;
 };
 
-type RevRow = { id: string; project_id: string; label: string; position: number; status: string; notes: string; stack: unknown; updated_at: Date };
+type RevRow = { id: string; project_id: string; label: string; position: number; status: string; notes: string; stack: unknown; variant_stacks?: unknown; updated_at: Date };
 
 const toRevisionStack = (r: RevRow): RevisionStack => ({
   revisionId: r.id,
@@ -24,10 +26,11 @@ const toRevisionStack = (r: RevRow): RevisionStack => ({
   status: r.status,
   notes: r.notes,
   stack: r.stack,
+  variantStacks: r.variant_stacks ?? {},
   updatedAt: r.updated_at,
 });
 
-const REV_COLUMNS = ['id', 'project_id', 'label', 'position', 'status', 'notes', 'stack', 'updated_at'] as const;
+const REV_COLUMNS = ['id', 'project_id', 'label', 'position', 'status', 'notes', 'stack', 'variant_stacks', 'updated_at'] as const;
 
 /** The revision's stack, or null when the revision is not in this lab and project. */
 export async function getRevisionStack(labId: string, projectId: string, revisionId: string): Promise<RevisionStack | null> {
@@ -50,11 +53,11 @@ export async function listRevisionsWithStacks(labId: string, projectId: string):
  * Stores a validated stack on a revision and records who did it. Returns null when the revision
  * is not in this lab (the caller answers 404).
  */
-export async function saveRevisionStack(labId: string, userId: string, revisionId: string, stack: Stack): Promise<RevisionStack | null> {
+export async function saveRevisionStack(labId: string, userId: string, revisionId: string, stack: Stack, variantStacks?: VariantStacks): Promise<RevisionStack | null> {
   return getDb().transaction(async (trx) => {
     const [row] = await trx('revisions')
       .where({ lab_id: labId, id: revisionId })
-      .update({ stack: JSON.stringify(stack), updated_at: trx.fn.now() })
+      .update({ stack: JSON.stringify(stack), ...(variantStacks ? { variant_stacks: JSON.stringify(variantStacks) } : {}), updated_at: trx.fn.now() })
       .returning<RevRow[]>([...REV_COLUMNS]);
     if (!row) return null;
     await recordAudit(
@@ -64,7 +67,7 @@ export async function saveRevisionStack(labId: string, userId: string, revisionI
         action: 'stack.save',
         targetType: 'revision',
         targetId: revisionId,
-        details: { elements: stack.elements.map((e) => e.kind) },
+        details: { elements: stack.elements.map((e) => e.kind), ...(variantStacks ? { variants: Object.keys(variantStacks) } : {}) },
       },
       trx,
     );
@@ -79,6 +82,8 @@ export type PlannerReading = {
   revisionLabel: string;
   variant: string;
   backgroundCdm2: number | null;
+  /** The world's luminance behind the screen from the photos: calibrated with a camera profile, or the rough EXIF estimate. */
+  photoBackground: { cdm2: number; kind: 'calibrated' | 'rough-estimate' } | null;
   ambientContrastRatio: number | null;
   ghostRatio: number | null;
   transmission: number | null;
@@ -91,6 +96,7 @@ type ReadingRow = {
   revision_label: string;
   variant: string;
   background_cdm2: number | null;
+  abs: { kind?: unknown; off?: unknown; ambient?: unknown } | null;
   ambient_contrast_ratio: number | null;
   ghost_ratio: number | null;
   transmission: number | null;
@@ -98,6 +104,21 @@ type ReadingRow = {
 };
 
 const num = (v: number | string | null): number | null => (v === null ? null : Number.isFinite(Number(v)) ? Number(v) : null);
+
+/**
+ * The world's luminance behind the screen as the photos give it: the ambient photo (optics out of
+ * the path) where there is one, else the off photo through the optics divided by the measured
+ * transmission. Null without an absolute scale.
+ */
+function photoBackground(r: ReadingRow): PlannerReading['photoBackground'] {
+  const abs = r.abs;
+  if (!abs || (abs.kind !== 'calibrated' && abs.kind !== 'rough-estimate')) return null;
+  const ambient = typeof abs.ambient === 'number' && Number.isFinite(abs.ambient) && abs.ambient > 0 ? abs.ambient : null;
+  const off = typeof abs.off === 'number' && Number.isFinite(abs.off) && abs.off > 0 ? abs.off : null;
+  const tau = num(r.transmission);
+  const cdm2 = ambient ?? (off !== null && tau !== null && tau > 0 ? off / tau : null);
+  return cdm2 === null ? null : { cdm2, kind: abs.kind };
+}
 
 /**
  * The newest reading per capture set of a project: re-analyses replace older readings, so only
@@ -116,6 +137,7 @@ export async function listMeasuredForPlanner(labId: string, projectId: string): 
       'r.label as revision_label',
       'g.variant',
       'g.background_cdm2',
+      getDb().raw(`g.result->'absoluteLuminance' AS abs`),
       'g.ambient_contrast_ratio',
       'g.ghost_ratio',
       'g.transmission',
@@ -132,6 +154,7 @@ export async function listMeasuredForPlanner(labId: string, projectId: string): 
       revisionLabel: r.revision_label,
       variant: r.variant,
       backgroundCdm2: num(r.background_cdm2),
+      photoBackground: photoBackground(r),
       ambientContrastRatio: num(r.ambient_contrast_ratio),
       ghostRatio: num(r.ghost_ratio),
       transmission: num(r.transmission),

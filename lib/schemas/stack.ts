@@ -177,3 +177,20 @@ export type MagnifierElement = z.infer<typeof magnifierElementSchema>;
 export type StackElement = z.infer<typeof stackElementSchema>;
 export type Stack = z.infer<typeof stackSchema>;
 export type StackElementKind = StackElement['kind'];
+
+/**
+ * A variant's stack as a change to the base stack: the base elements it leaves out (their
+ * positions, from 0) and the elements it adds after them (e.g. "with polarizer" adds a polariser).
+ */
+export const variantChangeSchema = z.object({
+  without: z.array(z.number().int().min(0).max(31)).max(32, { message: 'A variant may leave out at most 32 elements' }).default([]),
+  add: z.array(stackElementSchema).max(8, { message: 'A variant may add at most 8 elements' }).default([]),
+});
+
+/** Every variant's change, keyed by the variant's label as the capture sets carry it. */
+export const variantStacksSchema = z
+  .record(z.string().trim().min(1, { message: 'A variant needs a name' }).max(80, { message: 'A variant name has at most 80 characters' }), variantChangeSchema)
+  .refine((r) => Object.keys(r).length <= 20, { message: 'At most 20 variants per revision' });
+
+export type VariantChange = z.infer<typeof variantChangeSchema>;
+export type VariantStacks = z.infer<typeof variantStacksSchema>;

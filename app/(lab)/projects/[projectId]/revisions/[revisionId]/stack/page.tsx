@@ -5,6 +5,7 @@ import { buildComparisonRows, COMPARISON_COLUMNS } from '@/components/stack/comp
 import { PlannerCautions } from '@/components/stack/planner-cautions';
 import { storedElements, type MeasuredPoint } from '@/components/stack/planner-model';
 import { StackWorkbench } from '@/components/stack/stack-workbench';
+import { readVariantStacks } from '@/components/stack/workbench-model';
 import { DataTable } from '@/components/ui/data-table';
 import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
 import { getProject } from '@/db/queries/projects';
@@ -32,6 +33,7 @@ export default async function StackPage({ params }: { params: Promise<Params> })
       captureSetId: r.captureSetId,
       variant: r.variant,
       backgroundCdm2: r.backgroundCdm2,
+      photoBackground: r.photoBackground,
       ambientContrastRatio: r.ambientContrastRatio,
       ghostRatio: r.ghostRatio,
       transmission: r.transmission,
@@ -76,13 +78,15 @@ export default async function StackPage({ params }: { params: Promise<Params> })
           storedComplete={complete}
           canWrite={can(actor.role, 'stack.write')}
           measured={measured}
+          initialVariantStacks={readVariantStacks(revision.variantStacks)}
           cautions={<PlannerCautions />}
         />
 
-        <Panel title="Predicted against measured, per revision">
+        <Panel title="Predicted against measured, per revision and variant">
           <p className="mb-3 text-xs text-muted">
-            Each revision’s saved stack against the mean of its newest readings (one per capture set). The predicted contrast ratio is taken at the revision’s median measured
-            background luminance; the ghost is the unpolarised back-surface ratio.
+            Each variant’s saved stack (the revision’s stack changed as the variant says) against the mean of that variant’s newest readings only (one per capture set). The
+            predicted contrast ratio is taken at the median background luminance of those readings: typed where given, else from the photos (a camera profile, or the rough EXIF
+            estimate, marked). The ghost is the unpolarised back-surface ratio.
           </p>
           {readings.length === 0 ? (
             <EmptyState title="No measurements yet">

@@ -1,0 +1,159 @@
+// The workbench's logic as plain functions (no React): where each reading goes on the chart, the
+// stack of each variant, and predicted against measured per variant. The component only holds
+// state and draws; the tests call these directly.
+import { predictedContrastRatio, type StackPrediction } from '@/lib/optics';
+import { stackElementSchema, stackSchema, variantStacksSchema, type Stack, type StackElement, type VariantChange, type VariantStacks } from '@/lib/schemas/stack';
+import { formatLuminance } from '@/lib/format';
+import { fromDraft, mean, median, safePredict, toDraft, type DraftElement, type MeasuredPoint } from './planner-model';
+
+export const CHART_MIN = 10;
+export const CHART_MAX = 40_000;
+
+/** Where a reading's background luminance comes from: typed by the tester, a camera profile, or the rough EXIF estimate. */
+export type BackgroundSource = 'typed' | 'calibrated' | 'estimate';
+
+/** The background a reading is placed at: a typed value first, then a calibrated one, then the estimate. */
+export function backgroundOf(m: Pick<MeasuredPoint, 'backgroundCdm2' | 'photoBackground'>): { cdm2: number; source: BackgroundSource } | null {
+  if (m.backgroundCdm2 !== null && m.backgroundCdm2 > 0) return { cdm2: m.backgroundCdm2, source: 'typed' };
+  const p = m.photoBackground;
+  if (p && p.cdm2 > 0) return { cdm2: p.cdm2, source: p.kind === 'calibrated' ? 'calibrated' : 'estimate' };
+  return null;
+}
+
+export type PlottedPoint = { x: number; y: number; label: string; estimate: boolean; variant: string; source: BackgroundSource };
+
+/** Splits the readings into those the chart can place and those it cannot, with the reason. */
+export function placeMeasured(measured: readonly MeasuredPoint[], min = CHART_MIN, max = CHART_MAX): { plotted: PlottedPoint[]; unplotted: { point: MeasuredPoint; why: string }[] } {
+  const plotted: PlottedPoint[] = [];
+  const unplotted: { point: MeasuredPoint; why: string }[] = [];
+  for (const m of measured) {
+    const name = m.variant || 'reading';
+    const bg = backgroundOf(m);
+    if (m.ambientContrastRatio === null || !(m.ambientContrastRatio > 0)) unplotted.push({ point: m, why: 'no contrast ratio' });
+    else if (!bg) unplotted.push({ point: m, why: 'no background luminance recorded, and no exposure data to estimate it' });
+    else if (bg.cdm2 < min || bg.cdm2 > max) unplotted.push({ point: m, why: `background ${formatLuminance(bg.cdm2, { estimate: bg.source === 'estimate' })} is off the chart` });
+    else {
+      const estimate = bg.source === 'estimate';
+      plotted.push({ x: bg.cdm2, y: m.ambientContrastRatio, label: estimate ? `${name} (background estimated from EXIF)` : name, estimate, variant: m.variant, source: bg.source });
+    }
+  }
+  return { plotted, unplotted };
+}
+
+/** A stored variant map, keeping only what validates (a broken entry is dropped, not fatal). */
+export function readVariantStacks(raw: unknown): VariantStacks {
+  const whole = variantStacksSchema.safeParse(raw ?? {});
+  if (whole.success) return whole.data;
+  const out: VariantStacks = {};
+  if (raw && typeof raw === 'object') {
+    for (const [k, v] of Object.entries(raw as Record<string, unknown>)) {
+      const one = variantStacksSchema.safeParse({ [k]: v });
+      if (one.success) Object.assign(out, one.data);
+    }
+  }
+  return out;
+}
+
+/** The base stack changed for a variant: its left-out elements dropped, its own added after the rest. */
+export function applyVariantChange(base: Stack, change: VariantChange | undefined): Stack {
+  if (!change) return base;
+  const out = new Set(change.without);
+  return { elements: [...base.elements.filter((_, i) => !out.has(i)), ...change.add] };
+}
+
+/** The variant's stack checked with the stack schema; the first problem in words when it fails. */
+export function variantStack(base: Stack | null, change: VariantChange | undefined): { stack: Stack | null; error: string | null } {
+  if (!base) return { stack: null, error: 'the base stack is not complete' };
+  const parsed = stackSchema.safeParse(applyVariantChange(base, change));
+  if (parsed.success) return { stack: parsed.data, error: null };
+  return { stack: null, error: parsed.error.issues[0]?.message ?? 'the stack is not valid' };
+}
+
+/** The variants the planner offers: those measured on the revision and those with a stored change. */
+export function plannerVariants(measured: readonly Pick<MeasuredPoint, 'variant'>[], stored: VariantStacks): string[] {
+  return [...new Set([...measured.map((m) => m.variant).filter((v) => v !== ''), ...Object.keys(stored)])].sort((a, b) => a.localeCompare(b));
+}
+
+/** A variant's change as the form holds it: positions left out, added elements as drafts. */
+export type VariantDraft = { without: number[]; add: DraftElement[] };
+
+export function toVariantDrafts(stored: VariantStacks): Record<string, VariantDraft> {
+  return Object.fromEntries(Object.entries(stored).map(([k, v]) => [k, { without: [...v.without], add: v.add.map((e) => toDraft(e)) }]));
+}
+
+/**
+ * Form state back to a variant map, unchanged variants (nothing left out, nothing added) dropped;
+ * positions past the end of the base stack (after an element was removed) are dropped too.
+ */
+export function fromVariantDrafts(drafts: Record<string, VariantDraft>, baseCount: number): { value: VariantStacks | null; errors: Record<string, string> } {
+  const value: VariantStacks = {};
+  const errors: Record<string, string> = {};
+  for (const [name, d] of Object.entries(drafts)) {
+    const without = [...new Set(d.without.filter((i) => i >= 0 && i < baseCount))].sort((a, b) => a - b);
+    const add: StackElement[] = [];
+    for (const el of d.add) {
+      const one = stackElementSchema.safeParse(fromDraft(el));
+      if (one.success) add.push(one.data);
+      else errors[name] = one.error.issues[0]?.message ?? 'an added element is not valid';
+    }
+    if (without.length || d.add.length) value[name] = { without, add };
+  }
+  return { value: Object.keys(errors).length ? null : value, errors };
+}
+
+/** Predicted against measured for one group of readings under one stack. */
+export type PredictedMeasured = {
+  variant: string;
+  readings: number;
+  background: number | null;
+  backgroundSource: BackgroundSource | null;
+  acrPredicted: number | null;
+  acrMeasured: number | null;
+  ghostPredicted: number | null;
+  ghostMeasured: number | null;
+  tauPredicted: number | null;
+  tauMeasured: number | null;
+  stackError: string | null;
+};
+
+const finite = (xs: (number | null)[]): number[] => xs.filter((x): x is number => x !== null && Number.isFinite(x));
+
+/**
+ * One variant's stack against its own readings only: the predicted contrast at the median of their
+ * backgrounds (typed, calibrated or estimated, the weakest source named), beside the means.
+ */
+export function predictedAgainstMeasured(variant: string, stack: Stack | null, readings: readonly MeasuredPoint[], stackError: string | null = null): PredictedMeasured {
+  const prediction: StackPrediction | null = safePredict(stack);
+  const bgs = readings.map(backgroundOf).filter((b): b is NonNullable<typeof b> => b !== null);
+  const background = median(bgs.map((b) => b.cdm2));
+  const weakest: BackgroundSource | null = bgs.some((b) => b.source === 'estimate') ? 'estimate' : bgs.some((b) => b.source === 'calibrated') ? 'calibrated' : bgs.length ? 'typed' : null;
+  const display = stack?.elements[0];
+  const acrPredicted = prediction && background !== null && display?.kind === 'display' ? predictedContrastRatio(prediction.eta, display.luminance, prediction.tau, background) : null;
+  return {
+    variant,
+    readings: readings.length,
+    background,
+    backgroundSource: weakest,
+    acrPredicted,
+    acrMeasured: mean(finite(readings.map((r) => r.ambientContrastRatio))),
+    ghostPredicted: prediction?.ghost?.unpolarised ?? null,
+    ghostMeasured: mean(finite(readings.map((r) => r.ghostRatio))),
+    tauPredicted: prediction?.tau ?? null,
+    tauMeasured: mean(finite(readings.map((r) => r.transmission))),
+    stackError,
+  };
+}
+
+/**
+ * Per variant of a revision, its own stack (the base changed as the variant says) against its own
+ * readings; readings without a variant label go with the base stack. Never a blend of variants.
+ */
+export function predictedAgainstMeasuredByVariant(base: Stack | null, stored: VariantStacks, measured: readonly MeasuredPoint[]): PredictedMeasured[] {
+  const names = [...new Set(measured.map((m) => m.variant))];
+  for (const k of Object.keys(stored)) if (!names.includes(k)) names.push(k);
+  names.sort((a, b) => (a === '' ? -1 : b === '' ? 1 : a.localeCompare(b)));
+  return names.map((v) => {
+    const { stack, error } = v === '' ? { stack: base, error: base ? null : 'no stack' } : variantStack(base, stored[v]);
+    return predictedAgainstMeasured(v, stack, measured.filter((m) => m.variant === v), error);
+  });
+}
