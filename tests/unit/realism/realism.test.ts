@@ -31,7 +31,7 @@ import sharp from 'sharp';
 import { afterAll, describe, expect, it } from 'vitest';
 import { analyzeFiles, type AnalyzeFilesOptions, type FileAnalysis } from '../../../lib/image/analyze-files';
 import { ISO800, poseMap, renderRealisticScene, type RealisticCapture, type RealisticSceneOptions, type Role } from '../../fixtures/realistic-scene';
-import { checkerboardOf, decodeLinear, ghostRatioAt, meanOver, sampler, shiftByCorrelation, tintOf, uniformityOf, type LinearPhoto, type Sampler } from './reference';
+import { checkerboardOf, decodeLinear, ghostOffsetFromEdges, ghostRatioAt, meanOver, sampler, shiftByCorrelation, tintOf, uniformityOf, type LinearPhoto, type Sampler } from './reference';
 
 type Reading = FileAnalysis['result'];
 
@@ -227,7 +227,9 @@ function standardChecks(r: SceneRun, o: CheckOptions = {}): void {
       const g = truth.ghost;
       const ref = ghostRatioAt(plane, truth.screen, g.dx, g.dy, edge);
       checkValue(name, `${label} ratio`, g.ratio, ref.ratio, ghost?.ratio ?? null, { kind: 'rel', tol });
-      checkOffset(name, `${label} offset`, { dx: g.dx, dy: g.dy }, { dx: g.dx, dy: g.dy }, ghost ?? null, 1.5);
+      // reference offset from the ghost's own outer edges in the photos (the scene's offset only places the strips)
+      const refOffset = ghostOffsetFromEdges(plane, truth.screen, { dx: Math.round(g.dx), dy: Math.round(g.dy) }, edge);
+      checkOffset(name, `${label} offset`, { dx: g.dx, dy: g.dy }, refOffset, ghost ?? null, 1.5);
     } else {
       // no ghost drawn: the reference finds no light displaced one way at the usual offset nor just past the edge zone
       // (a probe at 2·edge + 12 px leaves a band 12 px wide between the two edge zones)

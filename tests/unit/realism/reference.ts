@@ -201,3 +201,48 @@ export function tintOf(off: [number, number, number], amb: [number, number, numb
   const de = differenceCiede2000()(lab([xo[0] * k, xo[1] * k, xo[2] * k]), lab(xa));
   return { dx: co[0] - ca[0], dy: co[1] - ca[1], deltaE00: de };
 }
+
+/**
+ * The ghost's offset read from its own outer edges, apart from the scene's numbers: along the strip
+ * right of the screen (and the strip below it) the mean profile of D falls from the ghost's plateau to
+ * nothing; a symmetric blur puts its half-height crossing on the edge. `approx` only places the strips.
+ */
+export function ghostOffsetFromEdges(d: Sampler, screen: Rect, approx: { dx: number; dy: number }, edge: number): { dx: number; dy: number } {
+  const crossing = (profile: (t: number) => number, from: number, to: number): number => {
+    const plateau = profile(from);
+    const floor = profile(to);
+    const half = (plateau + floor) / 2;
+    let prev = plateau;
+    for (let t = from + 1; t <= to; t++) {
+      const v = profile(t);
+      if (v <= half) return t - 1 + (prev - half) / (prev - v);
+      prev = v;
+    }
+    return Number.NaN;
+  };
+  const avg = (n0: number, n1: number, f: (k: number) => number): number => {
+    let s = 0;
+    let n = 0;
+    for (let k = Math.ceil(n0); k < n1; k++) {
+      s += f(k);
+      n++;
+    }
+    return s / n;
+  };
+  const sign = (v: number): number => (v < 0 ? -1 : 1);
+  // columns: rows shared by the ghost and clear of the screen's corners; the ghost's far edge in x
+  const y0 = Math.max(screen.y, screen.y + approx.dy) + edge;
+  const y1 = Math.min(screen.y + screen.h, screen.y + screen.h + approx.dy) - edge;
+  const farX = approx.dx > 0 ? screen.x + screen.w + approx.dx : screen.x + approx.dx;
+  const sx = sign(approx.dx);
+  const reachX = Math.round(Math.min(2 * edge, Math.abs(approx.dx) - edge));
+  const xEdge = crossing((t) => avg(y0, y1, (y) => d(farX + sx * t, y)), -reachX, Math.round(2 * edge));
+  const x0 = Math.max(screen.x, screen.x + approx.dx) + edge;
+  const x1 = Math.min(screen.x + screen.w, screen.x + screen.w + approx.dx) - edge;
+  const farY = approx.dy > 0 ? screen.y + screen.h + approx.dy : screen.y + approx.dy;
+  const sy = sign(approx.dy);
+  const reachY = Math.round(Math.min(2 * edge, Math.abs(approx.dy) - edge));
+  const yEdge = crossing((t) => avg(x0, x1, (x) => d(x, farY + sy * t)), -reachY, Math.round(2 * edge));
+  // samples sit at pixel centres (index i stands for [i, i + 1)), so an edge at C crosses half height at C − ½
+  return { dx: approx.dx + sx * xEdge + 0.5, dy: approx.dy + sy * yEdge + 0.5 };
+}
