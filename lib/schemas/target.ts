@@ -2,25 +2,21 @@ import { z } from 'zod';
 import { CAPTURE_PATTERNS } from './capture-set';
 import { METRIC_KEYS } from '../targets/metrics';
 import { fromShown } from '../format/metrics';
+import { optionalStrictNumber, safe, strictNumber } from './common';
 
 const blank = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? undefined : v);
 
+// read strictly: "0x10" is not 16, and blank or null is "no bound", never 0
 const bound = (label: string, max: number) =>
-  z.preprocess(
-    blank,
-    z.coerce
-      .number({ message: `${label} must be a number` })
-      .refine(Number.isFinite, { message: `${label} must be a number` })
-      .min(0, { message: `${label} cannot be negative` })
-      .max(max, { message: `${label} above ${max.toLocaleString('en-US')} is not plausible` })
-      .optional(),
+  optionalStrictNumber(`${label} must be a number`, (n) =>
+    n.min(0, { message: `${label} cannot be negative` }).max(max, { message: `${label} above ${max.toLocaleString('en-US')} is not plausible` }),
   );
 
 /** Variant names, from a JSON body's array or a form's newline-separated field; trimmed, unique. */
 const variantsField = z.preprocess(
   (v) => (typeof v === 'string' ? v.split('\n') : v),
   z
-    .array(z.string().trim().max(80, { message: 'A variant name has at most 80 characters' }))
+    .array(safe(z.string().trim().max(80, { message: 'A variant name has at most 80 characters' })))
     .max(20, { message: 'Name at most 20 variants' })
     .transform((xs) => [...new Set(xs.filter((x) => x !== ''))]),
 );
@@ -30,16 +26,12 @@ const targetFields = z.object({
   metric: z.enum(METRIC_KEYS, { message: 'Pick a metric' }),
   comparator: z.enum(['>=', '<='], { message: 'Pick at least or at most' }),
   value: z.preprocess(
-    blank,
-    z.coerce
-      .number({ message: 'Enter a number' })
-      .refine(Number.isFinite, { message: 'Enter a number' })
-      .min(0, { message: 'A target cannot be negative' })
-      .max(1_000_000, { message: 'Above 1,000,000 is not plausible' }),
+    (v) => (v === null ? undefined : blank(v)),
+    strictNumber('Enter a number', (n) => n.min(0, { message: 'A target cannot be negative' }).max(1_000_000, { message: 'Above 1,000,000 is not plausible' })),
   ),
   /** 'shown': the value is in the unit the screens show (a percentage for ghost and transmission); 'stored' (default): as stored. */
   valueIn: z.enum(['shown', 'stored']).default('stored'),
-  conditionNote: z.string().trim().max(300, { message: 'Use at most 300 characters' }).default(''),
+  conditionNote: safe(z.string().trim().max(300, { message: 'Use at most 300 characters' })).default(''),
   ambientLuxMin: bound('The lowest ambient illuminance', 200_000),
   ambientLuxMax: bound('The highest ambient illuminance', 200_000),
   backgroundCdm2Min: bound('The lowest background luminance', 100_000),

@@ -50,6 +50,7 @@ const calibrate = await import('../../app/api/cameras/calibrate/route');
 const patterns = await import('../../app/api/patterns/[kind]/route');
 const { clearPatternCache = () => undefined } = (await import('../../app/api/patterns/[kind]/render-cache').catch(() => ({}))) as { clearPatternCache?: () => void };
 const { createRevisionAction } = await import('../../app/(lab)/projects/[projectId]/revisions/actions');
+const { createTargetAction } = await import('../../app/(lab)/projects/[projectId]/targets/actions');
 const { proxy } = await import('../../proxy');
 const { NextRequest } = await import('next/server');
 
@@ -227,6 +228,17 @@ describe('strict input', () => {
     const stored = (await getDb()('capture_sets').where({ id: captureSet.id }).first()) as { conditions: Record<string, unknown> };
     expect(stored.conditions.backgroundCdm2).toBeUndefined();
     expect(stored.conditions.ambientLux).toBe(250);
+  });
+
+  it('a target of "0x10" or with a "1e400" bound is a field error of the form, and nothing is stored', async () => {
+    actAs(a);
+    const form = new FormData();
+    for (const [k, v] of Object.entries({ projectId: a.projectId, metric: 'ambientContrastRatio', comparator: '>=', value: '0x10', conditionNote: '', ambientLuxMin: '1e400' })) form.set(k, v);
+    const state = await createTargetAction(form);
+    expect(state.ok).toBe(false);
+    expect(state.fieldErrors?.value).toEqual(['Enter a number']);
+    expect(state.fieldErrors?.ambientLuxMin).toEqual(['The lowest ambient illuminance must be a number']);
+    expect(await getDb()('targets').where({ lab_id: a.labId }).first()).toBeUndefined();
   });
 
   it('a date that does not exist (2026-02-30) is a field error of the form, and nothing is stored', async () => {
