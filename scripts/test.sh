@@ -67,5 +67,10 @@ if [ "$built" = 1 ] && [ -f "$dist/BUILD_ID" ] && [ -f .build/worker/index.mjs ]
   [ "$status" = 0 ] || { echo "--- worker log (tail)"; tail -30 "$RUN/worker.log"; }
 fi
 
+# the production install README describes (npm ci --omit=dev, the build copied in), in a temp folder
+if [ "$built" = 1 ]; then
+  step production-install bash scripts/check-production.sh "$dist" "$(free_port $((PORT + 100)))"
+fi
+
 if [ "$status" = 0 ]; then log "all tests passed"; else log "some tests FAILED"; fi
 exit "$status"
