@@ -108,11 +108,13 @@ export function formatMetricMeanCi(key: MetricKey, s: { mean: number | null; hal
   return o.unit === false ? figure : withUnit(key, figure);
 }
 
-/** A spread (SD) to two significant digits, with the unit. */
+/** A spread (SD) to two significant digits, with the unit (none for a ratio). */
 export function formatMetricSpread(key: MetricKey, sd: number | null | undefined, o: { unit?: boolean } = {}): string {
   if (!isNum(sd)) return DASH;
   const s = significant(toShown(key, sd), 2);
-  return o.unit === false ? s : withUnit(key, s);
+  // a ratio's spread is a plain number, as its difference is ("0.038", not "0.038 : 1")
+  if (o.unit === false || METRIC_FORMATS[key].kind === 'ratio') return s;
+  return withUnit(key, s);
 }
 
 /** The unit of a difference: percentage points for percentages, nothing for a ratio's difference. */

@@ -33,7 +33,7 @@ export async function notifyTargetFailures(labId: string, revisionId: string): P
   const leads = await listLeadEmails(labId);
   const link = `${getEnv().NEXTAUTH_URL.replace(/\/$/, '')}/projects/${rev.project_id}/revisions/${revisionId}`;
   const failures = newlyFailing.map((c) => ({
-    target: `${METRICS[c.target.metric].label} ${comparatorWords(c.target.comparator)} ${formatLimit(c.target.metric, c.target.value)}${c.variant !== undefined ? `, as ${variantName(c.variant)}` : ''}`,
+    target: `${METRICS[c.target.metric].label} ${comparatorWords(c.target.comparator)} ${formatLimit(c.target.metric, c.target.value)}${c.variant ? `, as ${variantName(c.variant)}` : ''}`,
     condition: [describeCondition(c.target.condition ?? {}), c.target.conditionNote].filter(Boolean).join(' · '),
     mean: formatMetricValue(c.target.metric, c.mean),
     n: c.n,

@@ -104,7 +104,7 @@ describe('target failure mail', () => {
     expect(first.mailed).toEqual([leadEmail]);
     const mails = await waitForCount(leadEmail, subject, 1);
     expect(mails).toHaveLength(1);
-    expect(mails[0]?.text).toMatch(/Ambient contrast ratio at least 1\.400:1 \(window light\): mean 1\.300:1 over 3 capture sets/);
+    expect(mails[0]?.text).toMatch(/Ambient contrast ratio at least 1\.4 : 1 \(window light\): mean 1\.30 : 1 over 3 capture sets/);
     expect(mails[0]?.text).toContain(`/projects/${fx.projectId}/revisions/${rev.id}`);
     // still failing after another reading: no second mail
     await insertReading(a.labId, fx.projectId, rev.id, rev.captureSetIds[1]!, { acr: 1.4 }, later());
