@@ -36,7 +36,19 @@ export const captureSetSchema = z.object({
 });
 
 export const captureSetCreateSchema = captureSetSchema;
-export const captureSetUpdateSchema = captureSetSchema.partial();
+// An update names only what changes. (`.partial()` would keep the defaults, and a PATCH of the label
+// alone would put the pattern, variant, notes and TIFF encoding back to them.)
+const shape = captureSetSchema.shape;
+export const captureSetUpdateSchema = z.object({
+  label: shape.label.optional(),
+  variant: shape.variant.unwrap().optional(),
+  pattern: shape.pattern.unwrap().optional(),
+  tiffEncoding: shape.tiffEncoding.unwrap().optional(),
+  notes: shape.notes.unwrap().optional(),
+  ambientLux: shape.ambientLux,
+  backgroundCdm2: shape.backgroundCdm2,
+  displayLevel: shape.displayLevel.unwrap().optional(),
+});
 export type CaptureSetInput = z.infer<typeof captureSetSchema>;
 export type Conditions = z.infer<typeof conditionsSchema>;
 
