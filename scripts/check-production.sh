@@ -57,8 +57,9 @@ log "CLI: $out"
 npx --no-install tsx db/migrate.ts status >"$tmp/migrate.log" 2>&1 || { cat "$tmp/migrate.log" >&2; fail "the migration runner did not run"; }
 log "migrations: $(tail -1 "$tmp/migrate.log")"
 
-# a worker on a queue of its own, so it takes no job of the test stack's
-QUEUE_PREFIX="vmprod$$" setsid node --enable-source-maps .build/worker/index.mjs >"$tmp/worker.log" 2>&1 &
+# a worker on a queue of its own whose sweeper finds nothing old enough to put back, so it takes
+# no analysis of the test stack's
+QUEUE_PREFIX="vmprod$$" setsid node --enable-source-maps .build/worker/index.mjs --sweep-grace=999999999 >"$tmp/worker.log" 2>&1 &
 pids+=($!)
 NEXT_DIST_DIR="$dist" WEB_PROCESSES=1 setsid node scripts/web.mjs -p "$port" -H 127.0.0.1 >"$tmp/web.log" 2>&1 &
 pids+=($!)
