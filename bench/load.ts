@@ -183,7 +183,7 @@ async function uploadBurst(base: string, cookie: string, projectId: string): Pro
   const uploads = await Promise.all(
     sets.flatMap((setId, k) =>
       (['on', 'off', 'ambient'] as const).map((role) =>
-        fetch(`${base}/api/captures/${setId}/photos?role=${role}`, { method: 'POST', headers: { cookie, 'content-type': 'application/octet-stream', 'x-file-name': `burst-${k}-${role}.jpg` }, body: new Uint8Array(captures[k]?.[role] ?? []) }).then((r) => r.status),
+        fetch(`${base}/api/captures/${setId}/photos?role=${role}`, { method: 'POST', headers: { cookie, origin: base, 'content-type': 'application/octet-stream', 'x-file-name': `burst-${k}-${role}.jpg` }, body: new Uint8Array(captures[k]?.[role] ?? []) }).then((r) => r.status),
       ),
     ),
   );
@@ -193,8 +193,8 @@ async function uploadBurst(base: string, cookie: string, projectId: string): Pro
     sets.map(async (setId, k) => {
       const t = captures[k]?.truth;
       if (!t) return;
-      await fetch(`${base}/api/captures/${setId}/regions`, { method: 'PUT', headers: { cookie, 'content-type': 'application/json' }, body: JSON.stringify({ regions: [{ kind: 'screen', ...t.screen, source: 'marked' }, { kind: 'background', ...t.background, source: 'marked' }] }) });
-      const r = await fetch(`${base}/api/captures/${setId}/analyses`, { method: 'POST', headers: { cookie } });
+      await fetch(`${base}/api/captures/${setId}/regions`, { method: 'PUT', headers: { cookie, origin: base, 'content-type': 'application/json' }, body: JSON.stringify({ regions: [{ kind: 'screen', ...t.screen, source: 'marked' }, { kind: 'background', ...t.background, source: 'marked' }] }) });
+      const r = await fetch(`${base}/api/captures/${setId}/analyses`, { method: 'POST', headers: { cookie, origin: base } });
       if (r.status === 202) analyses.push(((await r.json()) as { analysis: { id: string } }).analysis.id);
     }),
   );

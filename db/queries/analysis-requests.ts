@@ -3,8 +3,12 @@ import { getDb } from '../index';
 import { type Analysis, toAnalysis } from './analyses';
 import { recordAudit } from './audit';
 
-/** Analyses a lab may have waiting or running at once; a request beyond answers 429. */
-export const LAB_ANALYSIS_LIMIT = 20;
+/**
+ * Analyses a lab may have waiting or running at once; a request beyond answers 429. Room for a lab's
+ * burst (the load test uploads 30 capture sets at once) while bounding the queue; fairness between
+ * labs comes from the priorities (lib/queue/jobs.ts fairPriority), not from this limit.
+ */
+export const LAB_ANALYSIS_LIMIT = 50;
 
 export type AnalysisRequestOutcome =
   /** a new analysis, the `rank`-th of its lab's waiting ones (1 = next of this lab) */
