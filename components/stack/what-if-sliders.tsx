@@ -1,6 +1,7 @@
 'use client';
 
 import type { Stack } from '@/lib/schemas/stack';
+import { fixed } from '@/lib/format';
 import { formatLuminance } from './format';
 import { hasPolariser, isWhatIfActive, type WhatIf } from './planner-model';
 
@@ -85,7 +86,7 @@ export function WhatIfSliders({
           min={0.02}
           max={0.95}
           step={0.01}
-          readout={(whatIf.splitterR ?? splitter.R).toFixed(2)}
+          readout={fixed(whatIf.splitterR ?? splitter.R, 2)}
           changed={whatIf.splitterR !== null}
           onChange={(v) => onChange({ ...whatIf, splitterR: v })}
         />
@@ -98,7 +99,7 @@ export function WhatIfSliders({
           min={0.02}
           max={0.95}
           step={0.01}
-          readout={(whatIf.combinerR ?? combiner.R).toFixed(2)}
+          readout={fixed(whatIf.combinerR ?? combiner.R, 2)}
           changed={whatIf.combinerR !== null}
           onChange={(v) => onChange({ ...whatIf, combinerR: v })}
         />

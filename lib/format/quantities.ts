@@ -45,6 +45,18 @@ export function formatLuminanceTick(v: number): string {
   return String(v);
 }
 
+/** A relative change as a signed percentage: "+32.9 %", "−4.0 %", "+120 %"; "—" without one. */
+export function formatRelativeChange(c: number | null | undefined): string {
+  if (!isNum(c)) return DASH;
+  const pct = Math.abs(c * 100);
+  return `${c >= 0 ? '+' : '−'}${fixed(pct, pct >= 100 ? 0 : 1)} %`;
+}
+
+/** A test statistic with fixed decimals (t to 2, df to 1); "—" when missing. */
+export function formatStatistic(v: number | null | undefined, decimals: number): string {
+  return isNum(v) ? fixed(v, decimals) : DASH;
+}
+
 /** A plain number to n significant digits ("—" when missing). */
 export function formatSig(v: number | null | undefined, sig = 3): string {
   return isNum(v) ? significant(v, sig) : DASH;

@@ -1,4 +1,5 @@
 import type { ExportRow } from '../../db/queries/exports';
+import { METRIC_FORMATS } from '../format/metrics';
 
 type Col = { header: string; get: (r: ExportRow) => string | number | null };
 
@@ -13,13 +14,13 @@ const COLUMNS: Col[] = [
   { header: 'pattern', get: (r) => r.pattern },
   { header: 'ambient_illuminance (lx)', get: (r) => r.ambientLux },
   { header: 'background_luminance (cd/m²)', get: (r) => r.backgroundCdm2 },
-  { header: 'ambient_contrast_ratio (ratio L_on/L_off)', get: (r) => r.ambientContrastRatio },
-  { header: 'michelson (0..1)', get: (r) => r.michelson },
-  { header: 'checkerboard_contrast (ratio white/black)', get: (r) => r.ansiContrast },
-  { header: 'uniformity (min/max 0..1)', get: (r) => r.uniformity },
-  { header: 'ghost_ratio (ghost/primary 0..1)', get: (r) => r.ghostRatio },
-  { header: 'transmission (L_off/L_ambient 0..1)', get: (r) => r.transmission },
-  { header: 'tint_delta_e00 (CIEDE2000)', get: (r) => r.tintDeltaE00 },
+  { header: METRIC_FORMATS.ambientContrastRatio.csvHeader, get: (r) => r.ambientContrastRatio },
+  { header: METRIC_FORMATS.michelson.csvHeader, get: (r) => r.michelson },
+  { header: METRIC_FORMATS.ansiContrast.csvHeader, get: (r) => r.ansiContrast },
+  { header: METRIC_FORMATS.uniformity.csvHeader, get: (r) => r.uniformity },
+  { header: METRIC_FORMATS.ghostRatio.csvHeader, get: (r) => r.ghostRatio },
+  { header: METRIC_FORMATS.transmission.csvHeader, get: (r) => r.transmission },
+  { header: METRIC_FORMATS.tintDeltaE00.csvHeader, get: (r) => r.tintDeltaE00 },
   { header: 'luminance_on (relative, on-photo scale)', get: (r) => r.luminanceOn },
   { header: 'luminance_off (relative, on-photo scale)', get: (r) => r.luminanceOff },
   { header: 'luminance_ambient (relative, on-photo scale)', get: (r) => r.luminanceAmbient },

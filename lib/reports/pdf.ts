@@ -1,5 +1,6 @@
 import { existsSync } from 'node:fs';
 import PDFDocument from 'pdfkit';
+import { formatSig } from '../format';
 
 /** One column of a PDF table: share of the width and alignment. */
 export type PdfColumn = { header: string; width: number; align?: 'left' | 'right' };
@@ -171,7 +172,7 @@ export class ReportWriter {
     for (let i = 0; i <= 4; i++) {
       const v = lo + ((hi - lo) * i) / 4;
       d.moveTo(left, y(v)).lineTo(right, y(v)).stroke();
-      d.font(this.fr).fontSize(7).fillColor(MUTED).text(spec.tick ? spec.tick(v) : v.toPrecision(3), left - 42, y(v) - 3, { width: 38, align: 'right' });
+      d.font(this.fr).fontSize(7).fillColor(MUTED).text(spec.tick ? spec.tick(v) : formatSig(v, 3), left - 42, y(v) - 3, { width: 38, align: 'right' });
     }
     d.moveTo(left, top).lineTo(left, bottom).lineTo(right, bottom).lineWidth(0.8).strokeColor(MUTED).stroke();
     const n = Math.max(spec.groups.length, 1);

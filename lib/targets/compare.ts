@@ -1,5 +1,5 @@
 import { uuidSchema } from '../schemas/common';
-import { formatMetricDifference, MINUS } from '../format';
+import { formatMetricDifference, formatRelativeChange, formatStatistic } from '../format';
 import { compareVerdict, formatPValue, levelFromP, type TwoSampleResult, type VerdictLevel } from '../stats';
 import { METRIC_LIST, METRICS, type MetricKey } from './metrics';
 import { groupStats, values, type GroupStats, type SetReading } from './series';
@@ -129,17 +129,14 @@ export function relativeChange(r: Pick<MetricComparison, 'a' | 'b'>): number | n
 
 /** The relative change as shown: "+32.9 %", "−4.0 %", "+120 %", or "—" without one. */
 export function formatChange(r: Pick<MetricComparison, 'a' | 'b'>): string {
-  const c = relativeChange(r);
-  if (c === null) return '—';
-  const pct = Math.abs(c * 100);
-  return `${c >= 0 ? '+' : MINUS}${pct >= 100 ? pct.toFixed(0) : pct.toFixed(1)} %`;
+  return formatRelativeChange(relativeChange(r));
 }
 
 /** Welch t, df and p as the table and the PDF show them ("—" each without a test; p without its "p ="). */
 export function testFigures(r: Pick<MetricComparison, 'test'>): [t: string, df: string, p: string] {
   const t = r.test;
   if (!t) return ['—', '—', '—'];
-  return [Number.isFinite(t.t) ? t.t.toFixed(2) : '—', t.df.toFixed(1), formatPValue(t.p).replace(/^p = /, '').replace(/^p < /, '< ')];
+  return [formatStatistic(t.t, 2), formatStatistic(t.df, 1), formatPValue(t.p).replace(/^p = /, '').replace(/^p < /, '< ')];
 }
 
 /** How the comparison table can be ordered: the catalogue's order, the size of the change, or the p value. */
