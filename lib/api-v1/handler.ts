@@ -72,9 +72,18 @@ function fileName(req: Request): string {
 
 async function readBody(req: Request, route: V1Route): Promise<Uint8Array> {
   if (!route.body) return new Uint8Array(0);
-  if (route.body.kind === 'json') return readBodyLimited(req, JSON_BODY_LIMIT);
+  if (route.body.kind === 'json') {
+    return readBodyLimited(req, JSON_BODY_LIMIT).catch((e: unknown) => {
+      if (e instanceof AppError) throw e;
+      throw new AppError(413, 'The request body arrived incomplete: the connection ended before it was whole', 'incomplete');
+    });
+  }
   const name = fileName(req);
-  const bytes = await readBodyLimited(req, MAX_UPLOAD_BYTES, name);
+  const bytes = await readBodyLimited(req, MAX_UPLOAD_BYTES, name).catch((e: unknown) => {
+    // the client went away part-way (a cut connection): nothing was stored
+    if (e instanceof AppError) throw e;
+    throw new AppError(413, `${name} arrived incomplete: the connection ended before the whole file came`, 'incomplete');
+  });
   const declared = Number(req.headers.get('content-length') ?? NaN);
   // fewer bytes than announced: the transfer (or a proxy's limit) cut the file short
   if (Number.isFinite(declared) && bytes.byteLength < declared) {

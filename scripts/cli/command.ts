@@ -8,6 +8,17 @@ export class UsageError extends Error {
   }
 }
 
+/** A failure with its own exit status (a command's help lists them): one line on stderr. */
+export class CommandFailed extends Error {
+  constructor(
+    message: string,
+    readonly exitCode: number,
+  ) {
+    super(message);
+    this.name = 'CommandFailed';
+  }
+}
+
 export type Command = {
   /** One line for the command list of `veilmeter --help`. */
   summary: string;

@@ -7,10 +7,12 @@ import { ENGINE_VERSION } from '../../lib/photometry/version';
 import { EngineInputError } from '../../lib/photometry/errors';
 import pkg from '../../package.json';
 import { analyzeCommand } from './analyze';
-import { EXIT_CODES, UsageError, type Command } from './command';
+import { CommandFailed, EXIT_CODES, UsageError, type Command } from './command';
+import { pushCommand } from './push';
 
 export const COMMANDS: Record<string, Command> = {
   analyze: analyzeCommand,
+  push: pushCommand,
 };
 
 const VERSION = `veilmeter ${pkg.version} (engine ${ENGINE_VERSION})`;
@@ -67,6 +69,10 @@ export async function main(argv: string[], out: NodeJS.WritableStream = process.
     await command.run(rest, out);
     return 0;
   } catch (e) {
+    if (e instanceof CommandFailed) {
+      err.write(`error: ${e.message.replace(/\s+/g, ' ')}\n`);
+      return e.exitCode;
+    }
     if (e instanceof UsageError || e instanceof EngineInputError) {
       err.write(`error: ${e.message.replace(/\s+/g, ' ')}\n`);
       return 2;
