@@ -85,10 +85,50 @@ export function ghostVariants(n: Normalised, a: Aligned, totals: RegionTotals, m
   let dark: GhostAndUniformity | null = null;
   if (n.photos.dark) {
     const m = a.motion.dark as Motion;
-    const plane = warpPlane(n.small.dark as Plane, scaleMotion(m, n.factor));
-    dark = variant(['dark'], plane, diffReader(sourceOf(n, 'dark', m)), null, 'dark');
+    const darkSmall = warpPlane(n.small.dark as Plane, scaleMotion(m, n.factor));
+    // the room light left in the dark photo, as a share of the off photo's (see darkRoomShare)
+    const k = darkRoomShare(darkSmall, a.offSmall, a.mask, n.factor);
+    const plane = k > 0 ? subtractScaled(darkSmall, a.offSmall, k) : darkSmall;
+    const offSrc = sourceOf(n, 'off', off);
+    const read = k > 0 ? diffReader(sourceOf(n, 'dark', m), { ...offSrc, scale: offSrc.scale * k }) : diffReader(sourceOf(n, 'dark', m));
+    dark = variant(['dark'], plane, read, null, 'dark');
   }
   return { onMinusOff, dark };
+}
+
+/**
+ * The room light left in the dark photo (a lamp, a window) as a share k of the off photo's, by least
+ * squares through the origin over the frame outside the display's light. The ghost is then measured
+ * on dark − k·off, where the room drops out as it does from on − off; 0 when the dark photo holds
+ * no room light to speak of.
+ */
+export function darkRoomShare(dark: Plane, off: Plane, mask: readonly Rect[], factor: number): number {
+  const { width: w, height: h } = dark;
+  const inMask = (x: number, y: number): boolean => mask.some((r) => x * factor + factor > r.x && x * factor < r.x + r.w && y * factor + factor > r.y && y * factor < r.y + r.h);
+  let sdo = 0;
+  let soo = 0;
+  let n = 0;
+  const step = Math.max(1, Math.floor(Math.sqrt((w * h) / 100_000)));
+  for (let y = 0; y < h; y += step) {
+    for (let x = 0; x < w; x += step) {
+      if (inMask(x, y)) continue;
+      const d = dark.data[y * w + x] as number;
+      const o = off.data[y * w + x] as number;
+      if (d !== d || o !== o) continue;
+      sdo += d * o;
+      soo += o * o;
+      n++;
+    }
+  }
+  if (n < 100 || !(soo > 0)) return 0;
+  const k = sdo / soo;
+  return k > 1e-4 ? k : 0;
+}
+
+function subtractScaled(a: Plane, b: Plane, k: number): Plane {
+  const out = new Float32Array(a.data.length);
+  for (let i = 0; i < out.length; i++) out[i] = (a.data[i] as number) - k * (b.data[i] as number);
+  return { data: out, width: a.width, height: a.height };
 }
 
 function detail(m: Aligned['motion'][PhotoRole]): AlignmentDetail | undefined {

@@ -23,6 +23,8 @@ export interface RegistrationInput {
    * photos by design and whose bright edges would otherwise win over the room's.
    */
   mask?: readonly Rect[] | null;
+  /** Stop after the coarse correlation (a first look that only needs to find the display). */
+  coarseOnly?: boolean;
 }
 
 /** A registration: the motion found and how far it can be trusted. */
@@ -43,6 +45,8 @@ const COARSE_SIZE = 200;
 const FINE_SIZE = 256;
 // Lucas–Kanade window: 128² pixels of texture put a shift to a few hundredths of a pixel
 const LK_SIZE = 128;
+// a window whose shift is less certain than this (px, one standard error) is left out
+const MAX_SHIFT_SE = 0.05;
 
 // a fine peak this low means the window held no shared structure: keep the coarse answer
 const MIN_FINE_PEAK = 0.05;
@@ -336,6 +340,15 @@ export function refineWindowShift(ref: Float32Array, readMoving: (shift: Offset)
     const variance = smm - (sm * sm) / n;
     residual = variance > 0 ? Math.sqrt(Math.max(0, rss) / variance) : Number.NaN;
     if (!(alpha > 0) || Math.abs(ddx) > 3 || Math.abs(ddy) > 3) return null;
+    // standard errors of the shift from the residual and the normal matrix: a window with texture
+    // along one direction only (a straight edge) leaves the other axis open and is not used
+    const s2 = Math.max(0, rss) / Math.max(1, n - 4);
+    const ex = solve(A, [0, 0, 1, 0]);
+    const ey = solve(A, [0, 0, 0, 1]);
+    if (!ex || !ey) return null;
+    const seX = Math.sqrt(s2 * Math.max(0, ex[2] as number)) / alpha;
+    const seY = Math.sqrt(s2 * Math.max(0, ey[3] as number)) / alpha;
+    if (!(seX <= MAX_SHIFT_SE) || !(seY <= MAX_SHIFT_SE)) return null;
     void beta;
     cur = { dx: cur.dx + ddx, dy: cur.dy + ddy };
     if (Math.hypot(ddx, ddy) < 0.005) break;
@@ -421,6 +434,7 @@ export function registerPhotos(input: RegistrationInput): Registration {
   if (size < 16) return fallback;
   const windows = bestWindows(ra, rb, coarse, Math.max(1, Math.round(size / scale)), coarseMask, 4);
   const shifts: WindowShift[] = [];
+  const wholePixel: WindowShift[] = [];
   for (const win of windows) {
     const rect: Rect = { x: Math.min(W - size, win.x * scale), y: Math.min(H - size, win.y * scale), w: size, h: size };
     const use = windowMask(rect, mask);
@@ -435,8 +449,10 @@ export function registerPhotos(input: RegistrationInput): Registration {
     const lkRef = lkSize === size ? refCrop.data : luminanceCrop(reference, lkRect, { dx: 0, dy: 0 }, 1).plane.data;
     const lk = refineWindowShift(lkRef, (o) => warpedCrop(moving, lkRect, { ...o, angle: 0, cx: 0, cy: 0 }, 1).data, lkRect, start, windowMask(lkRect, mask));
     if (lk && lk.residual < 0.9) shifts.push(lk);
-    else if (fine.peak >= MIN_FINE_PEAK) shifts.push({ ...start, x: rect.x + (size - 1) / 2, y: rect.y + (size - 1) / 2, residual: Number.NaN });
+    else if (fine.peak >= MIN_FINE_PEAK) wholePixel.push({ ...start, x: rect.x + (size - 1) / 2, y: rect.y + (size - 1) / 2, residual: Number.NaN });
   }
+  // whole-pixel shifts only where no window could be put to a fraction of a pixel
+  if (shifts.length === 0) shifts.push(...wholePixel);
   if (shifts.length === 0) return fallback;
   // windows that disagree with the others by more than 2 px are left out (a repeated pattern, a moving object)
   const median = (xs: number[]): number => [...xs].sort((a, b) => a - b)[Math.floor((xs.length - 1) / 2)] as number;
@@ -481,7 +497,11 @@ export function registerDark(input: {
   const reach = factor + 2;
   const size = Math.max(24, Math.min(160, Math.floor(Math.min(screen.w, screen.h) / 2), 2 * (reach + 24)));
   const shifts: WindowShift[] = [];
-  for (const [px, py] of [[screen.x, screen.y], [screen.x + screen.w, screen.y], [screen.x, screen.y + screen.h], [screen.x + screen.w, screen.y + screen.h]] as const) {
+  // the four corners, then the middles of the four edges (each fixes one axis; a window left open on the other is dropped)
+  const xm = screen.x + Math.floor(screen.w / 2);
+  const ym = screen.y + Math.floor(screen.h / 2);
+  const places = [[screen.x, screen.y], [screen.x + screen.w, screen.y], [screen.x, screen.y + screen.h], [screen.x + screen.w, screen.y + screen.h], [xm, screen.y], [xm, screen.y + screen.h], [screen.x, ym], [screen.x + screen.w, ym]] as const;
+  for (const [px, py] of places) {
     const rect: Rect = { x: Math.max(0, Math.min(W - size, px - Math.floor(size / 2))), y: Math.max(0, Math.min(H - size, py - Math.floor(size / 2))), w: size, h: size };
     const ref = readDiff(rect);
     const refPlane = { data: ref, width: size, height: size };

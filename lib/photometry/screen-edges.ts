@@ -217,9 +217,10 @@ export function measureEdgeSpread(screen: Rect, read: DiffReader, size: { width:
  * above) it at screen edge + dy. Each is read like a screen edge, the half-way crossing of the mean
  * of D along it, across ±reach of the coarse guess, and the screen's own edge the same way on the
  * same side; the component is the distance between the two. A component too close to the screen's
- * edge for a clean strip, or with no clear step, keeps its coarse value.
+ * edge for a clean strip, with no clear step, or with its step more than `maxMove` from the guess,
+ * keeps its coarse value.
  */
-export function refineGhostOffsetWith(screen: Rect, offset: Offset, read: DiffReader, size: { width: number; height: number }, reach: number, zone = 0): Offset {
+export function refineGhostOffsetWith(screen: Rect, offset: Offset, read: DiffReader, size: { width: number; height: number }, reach: number, zone = 0, maxMove = reach): Offset {
   const middle = (a: number, b: number): [number, number] | null => {
     const len = b - a;
     if (len < 4) return null;
@@ -257,7 +258,8 @@ export function refineGhostOffsetWith(screen: Rect, offset: Offset, read: DiffRe
     const gAt = edgeAt(strip(screenEdge + d, alongX, (useSide ? side : span) as [number, number], reversed));
     if (sAt === null || gAt === null) return d;
     const found = gAt - sAt;
-    return Math.abs(found - d) <= reach ? found : d;
+    // a step further off than the guess's own uncertainty is another edge (a pattern's, the room's)
+    return Math.abs(found - d) <= maxMove ? found : d;
   };
   const dx = component(offset.dx, screen.x, screen.x + screen.w, false, rows, beside(offset.dx, offset.dy, screen.y, screen.y + screen.h));
   const dy = component(offset.dy, screen.y, screen.y + screen.h, true, cols, beside(offset.dy, offset.dx, screen.x, screen.x + screen.w));

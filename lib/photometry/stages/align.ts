@@ -107,9 +107,9 @@ export function alignAndLocate(n: Normalised, opts: { screen?: Rect | null; ghos
     return cached(memo, `capped:${n.key[role]}:${regCap}`, () => ({ data: p.data.map((v) => (v > regCap ? regCap : v)), width: p.width, height: p.height }));
   };
   const marked = opts.ghostOffset && opts.ghostOffset !== 'none' ? opts.ghostOffset : null;
-  const register = (role: 'off' | 'ambient', mask: Rect[] | null): Registration =>
-    cached(memo, `register:${n.key.on}:${n.key[role]}:${factor}:${maxShift}:${regCap}:${mask ? mask.map((r) => `${r.x},${r.y},${r.w},${r.h}`).join(';') : '-'}`, () =>
-      registerPhotos({ reference: on.raster, moving: (n.photos[role] as CapturePhoto).raster, referenceSmall: regSmall('on'), movingSmall: regSmall(role), factor, maxShift, mask }),
+  const register = (role: 'off' | 'ambient', mask: Rect[] | null, coarseOnly = false): Registration =>
+    cached(memo, `register:${n.key.on}:${n.key[role]}:${factor}:${maxShift}:${regCap}:${coarseOnly}:${mask ? mask.map((r) => `${r.x},${r.y},${r.w},${r.h}`).join(';') : '-'}`, () =>
+      registerPhotos({ reference: on.raster, moving: (n.photos[role] as CapturePhoto).raster, referenceSmall: regSmall('on'), movingSmall: regSmall(role), factor, maxShift, mask, coarseOnly }),
     );
   const diffOf = (m: Motion): { offSmall: Plane; diffSmall: Plane; sigma: number } =>
     cached(memo, `diff:${n.key.on}:${n.key.off}:${motionKey(m)}`, () => {
@@ -140,7 +140,7 @@ export function alignAndLocate(n: Normalised, opts: { screen?: Rect | null; ghos
     offMotion = register('off', mask);
   } else {
     // a first alignment without a mask finds the display well enough to mask it for the real one
-    const first = register('off', null);
+    const first = register('off', null, true);
     const coarse = detect(diffOf(first), `${n.key.on}:${n.key.off}:${motionKey(first)}`);
     mask = displayMask(coarse, W, H, factor, marked);
     offMotion = register('off', mask);

@@ -72,7 +72,8 @@ export function findGhost(v: GhostVariantInput, memo: AnalysisMemo | null): Ghos
     const c = searchGhost(v.plane, ss, zoneBlocks);
     if (!c || !(c.gain > 0)) return null;
     const coarse = { dx: c.dx * factor, dy: c.dy * factor };
-    const offset = refineGhostOffsetWith(screen, coarse, v.read, { width: v.width, height: v.height }, Math.max(2 * factor, 6), zone);
+    // the search's offset is good to about a block of the small plane
+    const offset = refineGhostOffsetWith(screen, coarse, v.read, { width: v.width, height: v.height }, Math.max(2 * factor, 6), zone, factor + 1);
     const whole = { dx: Math.round(offset.dx), dy: Math.round(offset.dy) };
     if (whole.dx === 0 && whole.dy === 0) return null;
     const m = measureGhostOneSided(v.read, screen, whole, zone);
