@@ -8,8 +8,9 @@ import type { Rect } from '@/lib/photometry/types';
  * resolution with its edges put to the pixel (the photos taken as aligned). The editor shows it
  * for the tester to adjust, and the worker measures inside whatever is saved.
  */
-export async function detectScreenRect(on: Uint8Array, off: Uint8Array): Promise<Rect | null> {
-  const [a, b] = await Promise.all([decodePhoto(on, { name: 'the on photo' }), decodePhoto(off, { name: 'the off photo' })]);
+export async function detectScreenRect(on: Uint8Array, off: Uint8Array, linear: { on: boolean; off: boolean } = { on: false, off: false }): Promise<Rect | null> {
+  // each photo read as the worker will read it (linear 16-bit or sRGB-encoded)
+  const [a, b] = await Promise.all([decodePhoto(on, { name: 'the on photo', linear16: linear.on }), decodePhoto(off, { name: 'the off photo', linear16: linear.off })]);
   const width = a.raster.width;
   const height = a.raster.height;
   const diff = subtractPlanes(preparePhoto(a.raster), preparePhoto(b.raster));

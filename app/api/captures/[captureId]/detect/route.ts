@@ -3,6 +3,7 @@ import { listPhotos } from '@/db/queries/photos';
 import { withAuth } from '@/lib/auth/with-auth';
 import { AppError } from '@/lib/errors';
 import { isEngineInputError } from '@/lib/photometry/errors';
+import { photoEncoding } from '@/lib/schemas/capture-set';
 import { getStorage } from '@/lib/storage';
 import { captureSetOr404 } from '../../lookup';
 import { detectScreenRect } from './detect';
@@ -18,7 +19,7 @@ export const POST = withAuth<{ captureId: string }>(
     const [a, b] = await Promise.all([storage.get(on.storageKey), storage.get(off.storageKey)]);
     if (!a || !b) throw new AppError(422, 'A stored photo is missing: upload it again', 'missing');
     try {
-      const screen = await detectScreenRect(a, b);
+      const screen = await detectScreenRect(a, b, { on: photoEncoding(set.tiffEncoding, on).linear, off: photoEncoding(set.tiffEncoding, off).linear });
       if (!screen) throw new AppError(422, 'No display light found: is the pattern showing in the on photo and dark in the off photo? Draw the screen by hand.', 'no_screen');
       return NextResponse.json({ screen: { ...screen, kind: 'screen', source: 'detected' } });
     } catch (e) {
