@@ -96,6 +96,12 @@ export function CreateTokenForm() {
           <label className="flex items-center gap-1">
             <input type="checkbox" name="scopeCapture" defaultChecked /> capture:write
           </label>
+          <label className="flex items-center gap-1" title="Delete capture sets this token created">
+            <input type="checkbox" name="scopeDelete" /> capture:delete
+          </label>
+          <label className="flex items-center gap-1" title="Download the readings CSV">
+            <input type="checkbox" name="scopeExport" /> export
+          </label>
         </fieldset>
         <Button type="submit" disabled={pending}>
           Create token

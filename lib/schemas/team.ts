@@ -26,4 +26,6 @@ export const apiTokenCreateSchema = z.object({
   name: safe(z.string().trim().min(1, { message: 'Name the token (e.g. the rig it runs on)' }).max(80, { message: 'Use at most 80 characters' })),
   scopeRead: z.literal('on').optional(),
   scopeCapture: z.literal('on').optional(),
+  scopeDelete: z.literal('on').optional(),
+  scopeExport: z.literal('on').optional(),
 });

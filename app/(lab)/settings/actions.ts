@@ -53,6 +53,8 @@ export const createTokenAction = formAction('token.self', apiTokenCreateSchema, 
   const scopes: TokenScope[] = [];
   if (input.scopeRead) scopes.push('read');
   if (input.scopeCapture) scopes.push('capture:write');
+  if (input.scopeDelete) scopes.push('capture:delete');
+  if (input.scopeExport) scopes.push('export');
   if (!scopes.length) throw new AppError(422, 'Choose at least one scope', 'invalid', { scopes: ['Choose at least one scope'] });
   const { token } = await createApiToken(actor.labId, actor.user.id, input.name, scopes);
   revalidatePath('/settings/tokens');

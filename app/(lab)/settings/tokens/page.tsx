@@ -1,3 +1,4 @@
+import Link from 'next/link';
 import { forbidden } from 'next/navigation';
 import { CreateTokenForm, RevokeTokenButton } from '@/components/settings/forms';
 import { EmptyState, Panel } from '@/components/ui/panel';
@@ -17,7 +18,7 @@ export default async function TokensPage() {
     <div className="space-y-6">
       <Panel title="New token for a capture rig">
         <CreateTokenForm />
-        <p className="mt-3 text-xs text-muted">A token acts as you, with your role in this lab, limited to its scopes. Send it as <code className="font-mono">Authorization: Bearer …</code> to the /api/v1 routes (see the README).</p>
+        <p className="mt-3 text-xs text-muted">A token acts as you, with your role in this lab, limited to its scopes. Send it as <code className="font-mono">Authorization: Bearer …</code> to the /api/v1 routes: the <Link href="/api-reference" className="text-glow underline">rig API reference</Link> lists each route and the scope it needs.</p>
       </Panel>
       <Panel title={all ? 'All tokens of this lab' : 'Your tokens'}>
         {tokens.length === 0 ? (
