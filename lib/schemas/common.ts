@@ -1,5 +1,10 @@
 import { z } from 'zod';
 
+// In the browser zod must not try `new Function` to compile its object parsers: the pages' script
+// policy (lib/security/headers.ts) refuses eval, and the refused try is reported as a violation.
+// Every schema module imports this one first, so this runs before any object schema is built.
+if (typeof window !== 'undefined') z.config({ jitless: true });
+
 export const uuidSchema = z.string().uuid({ message: 'Not a valid id' });
 
 // C0 controls and DEL; a multi-line text keeps tab, line feed and carriage return
