@@ -24,7 +24,7 @@ const BACKGROUND = { x: 40, y: 40, w: 200, h: 140 };
 // weaker ghost, and the polarizer variant darkens the world more than the display.
 export const DEMO_PLANS: Record<string, Plan[]> = {
   'Visor VX birdbath': [
-    { revision: 'VX-A', template: 'birdbath', variants: [{ variant: '', count: 4, scene: { transmission: 0.25, displayLevel: 0.1, backgroundLevel: 0.4, ghost: { gain: 0.025, dx: 14, dy: 9 } } }] },
+    { revision: 'VX-A', template: 'birdbath', variants: [{ variant: 'without polarizer', count: 4, scene: { transmission: 0.25, displayLevel: 0.1, backgroundLevel: 0.4, ghost: { gain: 0.025, dx: 14, dy: 9 } } }] },
     {
       revision: 'VX-B',
       template: 'birdbath-polariser',

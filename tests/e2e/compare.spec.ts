@@ -26,20 +26,36 @@ test('the VX-B variants compare with a difference, its CI, Welch figures and a p
   await page.getByRole('link', { name: 'Compare variants' }).click();
   await page.waitForURL(/\/compare\?a=.+&b=.+/);
   const url = new URL(page.url());
-  expect(url.searchParams.get('a')).toBe(`${revisions['VX-B']}:no polarizer`);
+  expect(url.searchParams.get('a')).toBe(`${revisions['VX-B']}:without polarizer`);
   expect(url.searchParams.get('b')).toBe(`${revisions['VX-B']}:with polarizer`);
-  await expect(page.getByTestId('compare-title')).toHaveText('VX-B · with polarizer against VX-B · no polarizer');
+  await expect(page.getByTestId('compare-title')).toHaveText('VX-B · with polarizer against VX-B · without polarizer');
 
   const diff = page.getByTestId('difference-ambientContrastRatio');
   await expect(diff).toHaveText(/^[+−]\d+\.\d+ ± \d+\.\d+$/);
   const verdict = page.getByTestId('verdict-ambientContrastRatio');
-  await expect(verdict).toHaveText(/^VX-B · with polarizer \(against VX-B · no polarizer\) (raises|lowers|leaves) the ambient contrast ratio .*; 5 vs 5 captures; .*p [=<] \d/);
-  await expect(page.getByTestId('headline-verdict')).toHaveText(await verdict.innerText());
+  await expect(verdict).toHaveText(/^VX-B · with polarizer \(against VX-B · without polarizer\) (raises|lowers|leaves) the ambient contrast ratio .*; 5 vs 5 captures; .*p [=<] \d/);
+  // the summary names every metric that moved, the gain and the loss together
+  const headline = page.getByTestId('headline-verdict');
+  await expect(headline).toContainText('Gains: raises the ambient contrast ratio by');
+  await expect(headline).toContainText('Losses: lowers the see-through transmission by');
+  await expect(headline).toContainText('percentage points');
+  await expect(page.getByTestId('summary-moves').locator('[data-tone="bad"]')).toContainText('see-through transmission');
+  // coloured by what is good for the team: a significant loss is not green
+  await expect(page.locator('tr[data-metric="transmission"]')).toHaveAttribute('data-tone', 'bad');
+  await expect(page.locator('tr[data-metric="ambientContrastRatio"]')).toHaveAttribute('data-tone', 'good');
+  await expect(page.getByTestId('verdict-transmission')).toHaveClass(/text-fail/);
+  // the chart: each group's captures, mean and 95% CI per metric
+  await expect(page.getByTestId('comparison-chart')).toBeVisible();
+  const acrChart = page.getByTestId('compare-chart-ambientContrastRatio');
+  await expect(acrChart).toHaveAttribute('data-tone', 'good');
+  await expect(acrChart.locator('[data-testid="compare-point"]')).toHaveCount(10);
+  await expect(acrChart.locator('[data-testid="compare-mean"]')).toHaveCount(2);
+  await expect(page.getByTestId('compare-chart-transmission')).toHaveAttribute('data-tone', 'bad');
   const row = page.locator('tr[data-metric="ambientContrastRatio"] td');
   await expect(row.nth(0)).toHaveText('5');
   await expect(row.nth(2)).toHaveText('5');
   await expect(row.nth(5)).toHaveText(/^[+−]\d+(\.\d)? %$/); // change as a share of A
-  await expect(row.nth(6)).toHaveText(/^-?\d+\.\d\d$/); // Welch t
+  await expect(row.nth(6)).toHaveText(/^[−-]?\d+\.\d\d$/); // Welch t
   await expect(row.nth(7)).toHaveText(/^\d+\.\d$/); // df
 
   // previews of both sides with the measured regions drawn over them
@@ -56,7 +72,7 @@ test('the VX-B variants compare with a difference, its CI, Welch figures and a p
 
 test('the comparison sorts by the size of the change and by p, each verdict staying under its metric', async ({ page }) => {
   await signIn(page, 'viewer@example.test');
-  await page.goto(`/projects/${projectId}/compare?a=${encodeURIComponent(`${revisions['VX-B']}:no polarizer`)}&b=${encodeURIComponent(`${revisions['VX-B']}:with polarizer`)}`);
+  await page.goto(`/projects/${projectId}/compare?a=${encodeURIComponent(`${revisions['VX-B']}:without polarizer`)}&b=${encodeURIComponent(`${revisions['VX-B']}:with polarizer`)}`);
   const table = page.getByTestId('comparison-table');
   const metricRows = table.locator('tbody tr[data-metric]');
   const catalogue = await metricRows.evaluateAll((els) => els.map((e) => e.getAttribute('data-metric')));
@@ -96,7 +112,7 @@ test('the comparison sorts by the size of the change and by p, each verdict stay
   const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Export CSV' }).click()]);
   expect(download.suggestedFilename()).toMatch(/-per-metric\.csv$/);
   const csv = (await readFile(await download.path(), 'utf8')).trim().split('\r\n');
-  expect(csv[0]).toMatch(/^Metric,n A,A mean ± CI \(VX-B · no polarizer\),n B,/);
+  expect(csv[0]).toMatch(/^Metric,n A,A mean ± CI \(VX-B · without polarizer\),n B,/);
   const shown = await metricRows.evaluateAll((els) => els.map((e) => e.querySelector('th')?.childNodes[0]?.textContent ?? ''));
   expect(csv.slice(1).map((l) => l.split(',')[0])).toEqual(shown);
   const acrLine = csv.find((l) => l.startsWith('Ambient contrast ratio,')) ?? '';
@@ -114,18 +130,18 @@ test('the comparison sorts by the size of the change and by p, each verdict stay
 
 test('the revision page gives n, mean ± CI and SD per metric and variant, the same figures the comparison shows', async ({ page }) => {
   await signIn(page, 'viewer@example.test');
-  await page.goto(`/projects/${projectId}/compare?a=${encodeURIComponent(`${revisions['VX-B']}:no polarizer`)}&b=${encodeURIComponent(`${revisions['VX-B']}:with polarizer`)}`);
+  await page.goto(`/projects/${projectId}/compare?a=${encodeURIComponent(`${revisions['VX-B']}:without polarizer`)}&b=${encodeURIComponent(`${revisions['VX-B']}:with polarizer`)}`);
   const cmp = page.locator('tr[data-metric="ambientContrastRatio"] td');
   const fromCompare = { nA: await cmp.nth(0).innerText(), a: await cmp.nth(1).innerText(), nB: await cmp.nth(2).innerText(), b: await cmp.nth(3).innerText() };
 
   await page.goto(`/projects/${projectId}/revisions/${revisions['VX-B']}`);
   const table = page.getByTestId('revision-statistics');
   const cells = (variant: string) => table.locator('tbody tr', { hasText: 'Ambient contrast ratio' }).filter({ has: page.locator('td:nth-child(2)', { hasText: new RegExp(`^${variant}$`) }) }).locator('td');
-  await expect(cells('no polarizer').nth(2)).toHaveText(fromCompare.nA);
-  await expect(cells('no polarizer').nth(3)).toHaveText(fromCompare.a);
+  await expect(cells('without polarizer').nth(2)).toHaveText(fromCompare.nA);
+  await expect(cells('without polarizer').nth(3)).toHaveText(fromCompare.a);
   await expect(cells('with polarizer').nth(2)).toHaveText(fromCompare.nB);
   await expect(cells('with polarizer').nth(3)).toHaveText(fromCompare.b);
-  await expect(cells('with polarizer').nth(4)).toHaveText(/^\d+\.\d{3}$/); // SD
+  await expect(cells('with polarizer').nth(4)).toHaveText(/^\d+(\.\d+)?$/); // SD, two significant digits
   // all captures: at least both variants together
   const all = Number(await cells('all').nth(2).innerText());
   expect(all).toBeGreaterThanOrEqual(Number(fromCompare.nA) + Number(fromCompare.nB));

@@ -1,3 +1,4 @@
+import { PDFParse } from 'pdf-parse';
 import { expect, test } from '@playwright/test';
 import { closeDb, getDb } from '../../db/index';
 import { DEMO_LAB } from '../../db/seeds/demo-data';
@@ -36,15 +37,24 @@ test('a tester downloads CSV and PDF of a revision, a project and a comparison',
   expect(pdf.status()).toBe(200);
   expect(pdf.headers()['content-type']).toBe('application/pdf');
   expect((await pdf.body()).subarray(0, 5).toString()).toBe('%PDF-');
+  // the revision PDF: statistics and targets per variant, headings with their units as the screens print them
+  const parser = new PDFParse({ data: new Uint8Array(await pdf.body()) });
+  const text = (await parser.getText()).text.replace(/\s+/g, ' ');
+  await parser.destroy();
+  expect(text).toMatch(/Ambient contrast ratio with polarizer 5 \d+\.\d+ ± \d+\.\d+ : 1/);
+  expect(text).toMatch(/Ambient contrast ratio without polarizer 5 /);
+  expect(text).toContain('Ghost ratio (%)');
+  expect(text).not.toContain('dE00');
+  expect(text).toMatch(/as “with polarizer”/);
 
   expect((await api.get(`/api/projects/${projectId}/readings.csv`)).status()).toBe(200);
   expect((await api.get(`/api/projects/${projectId}/report.pdf`)).status()).toBe(200);
-  const q = `a=${encodeURIComponent(`${vxb}:no polarizer`)}&b=${encodeURIComponent(`${vxb}:with polarizer`)}`;
+  const q = `a=${encodeURIComponent(`${vxb}:without polarizer`)}&b=${encodeURIComponent(`${vxb}:with polarizer`)}`;
   const cmp = await api.get(`/api/projects/${projectId}/compare/readings.csv?${q}`);
   expect(cmp.status()).toBe(200);
   const cmpLines = (await cmp.text()).replace(/^\uFEFF/, '').trim().split('\r\n');
   expect(cmpLines[0]?.startsWith('group,')).toBe(true);
-  expect(cmpLines.filter((l) => l.startsWith('A: VX-B · no polarizer'))).toHaveLength(5);
+  expect(cmpLines.filter((l) => l.startsWith('A: VX-B · without polarizer'))).toHaveLength(5);
   expect((await api.get(`/api/projects/${projectId}/compare/report.pdf?${q}`)).headers()['content-type']).toBe('application/pdf');
 
   // bad input: a clear 422, no stack

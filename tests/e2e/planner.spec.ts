@@ -1,7 +1,7 @@
 import { expect, test, type Page } from '@playwright/test';
 import { closeDb, getDb } from '../../db/index';
 import { formatPercent } from '../../components/stack/format';
-import { applyWhatIf, NO_WHAT_IF } from '../../components/stack/planner-model';
+import { applyWhatIf, NO_WHAT_IF, WHAT_IF_POLARISER } from '../../components/stack/planner-model';
 import { getStackTemplate, predictStack } from '../../lib/optics';
 import { signIn } from './helpers';
 
@@ -157,6 +157,8 @@ test('measured readings sit on the curve at their background luminance; one with
     { label: 'e2e office', variant: 'no polariser', bg: 200, acr: at(200) * 0.97 },
     { label: 'e2e window', variant: 'no polariser', bg: 2000, acr: at(2000) * 1.02 },
     { label: 'e2e unknown light', variant: 'with polariser', bg: null, acr: 2.4 },
+    // no typed background, but the photos' EXIF gives a rough one: placed there, marked as an estimate
+    { label: 'e2e exif only', variant: 'with polariser', bg: null, acr: 2.2, abs: { kind: 'rough-estimate', on: 900, off: 160, ambient: 729.7 } },
   ];
   for (const s of shots) {
     const [cs] = await db('capture_sets').insert({ lab_id: labId, revision_id: revisionId, label: s.label, variant: s.variant, pattern: 'full' }).returning<{ id: string }[]>('id');
@@ -180,7 +182,7 @@ test('measured readings sit on the curve at their background luminance; one with
         ghost_ratio: 0.004,
         transmission: 0.21,
         background_cdm2: bg,
-        result: JSON.stringify({}),
+        result: JSON.stringify(age === '1 minute' && 'abs' in s ? { absoluteLuminance: s.abs } : {}),
         created_at: db.raw(`now() - interval '${age}'`),
       });
     }
@@ -191,7 +193,10 @@ test('measured readings sit on the curve at their background luminance; one with
   await expect(chart.locator('svg.recharts-surface')).toBeVisible();
   await expect(chart.locator('.vm-curve-stack path.recharts-line-curve')).toHaveCount(1);
   const points = chart.getByTestId('measured-point');
-  await expect(points).toHaveCount(2);
+  await expect(points).toHaveCount(3);
+  await expect(chart.locator('[data-testid="measured-point"][data-estimate="yes"]')).toHaveCount(1);
+  await expect(page.getByTestId('estimated-count')).toContainText('estimated from EXIF (1)');
+  await expect(page.getByTestId('plotted-count')).toContainText('3 of 4 newest readings are on the chart, 1 at a background estimated');
   await expect(page.getByTestId('unplotted-readings')).toContainText('no background luminance recorded');
   await expect(page.getByTestId('unplotted-readings')).toContainText('with polariser');
 
@@ -204,12 +209,27 @@ test('measured readings sit on the curve at their background luminance; one with
   const cxs = (await points.locator('circle').evaluateAll((els) => els.map((e) => Number(e.getAttribute('cx'))))).sort((a, b) => a - b);
   const expectedX = (bg: number) => x1 + ((x2 - x1) * Math.log10(bg / 10)) / Math.log10(40_000 / 10);
   expect(cxs[0]).toBeCloseTo(expectedX(200), 0);
-  expect(cxs[1]).toBeCloseTo(expectedX(2000), 0);
+  expect(cxs[1]).toBeCloseTo(expectedX(729.7), 0);
+  expect(cxs[2]).toBeCloseTo(expectedX(2000), 0);
 
+  // predicted against measured per variant: each variant with its own readings only
   const table = page.getByTestId('comparison-table');
-  const row = table.locator('tr', { hasText: REV_LABEL });
-  await expect(row).toContainText('3');
+  const row = table.locator('tr', { hasText: REV_LABEL }).filter({ hasText: 'no polariser' });
+  await expect(row).toContainText('2');
   await expect(row).toContainText(formatPercent(pred.tau));
   await expect(row).toContainText('21.0 %');
+  await expect(table.locator('tr', { hasText: REV_LABEL }).filter({ hasText: 'with polariser' })).toContainText('≈730 cd/m² (EXIF estimate)');
+
+  // a stack per variant: "with polariser" is the base stack plus a polariser
+  const variant = page.getByTestId('variant-stacks').locator('fieldset[data-variant="with polariser"]');
+  await variant.getByRole('button', { name: 'Add to with polariser' }).click();
+  await page.getByRole('button', { name: 'Save stack' }).click();
+  await expect(page.getByTestId('save-status')).toContainText('saved');
+  const stored = await getDb()('revisions').where({ id: revisionId }).first<{ variant_stacks: Record<string, { add: { kind: string }[] }> }>('variant_stacks');
+  expect(stored.variant_stacks['with polariser']?.add.map((e) => e.kind)).toEqual(['linear-polariser']);
+  const withPol = predictStack({ elements: [...birdbath.elements, { ...WHAT_IF_POLARISER, label: undefined }] });
+  const perVariant = page.getByTestId('variant-predicted-measured');
+  await expect(perVariant.locator('tr', { hasText: 'with polariser' })).toContainText(formatPercent(withPol.tau));
+  await expect(perVariant.locator('tr', { hasText: 'no polariser' })).toContainText(formatPercent(pred.tau));
   await page.screenshot({ path: `${test.info().outputDir}/planner.png`, fullPage: true });
 });
