@@ -1,7 +1,8 @@
 import NextAuth from 'next-auth';
-import { NextResponse } from 'next/server';
+import { NextRequest, NextResponse } from 'next/server';
 import { addressKey, clear, giveBack, signInDelayMs, spend, spent } from '@/lib/auth/limits';
 import { getAuthOptions } from '@/lib/auth/options';
+import { sameOriginPath } from '@/lib/auth/safe-next';
 import { getEnv } from '@/lib/env';
 import { clientAddress } from '@/lib/security/client-ip';
 import { consume, RateLimited } from '@/lib/security/rate-limit';
@@ -15,8 +16,26 @@ function run(req: Request, ctx: Ctx) {
   return NextAuth(req as never, ctx as never, getAuthOptions()) as Promise<Response>;
 }
 
+/**
+ * The request with a callbackUrl query parameter that leads off this origin replaced by the
+ * origin: next-auth answers 500 to one no URL parser accepts (`http://localhost:3000.evil.example/`)
+ * on every route but its HTML pages, and would carry any other into its callback-url cookie.
+ */
+async function withSafeCallback(req: Request): Promise<Request> {
+  const url = new URL(req.url);
+  const wanted = url.searchParams.get('callbackUrl');
+  if (wanted === null) return req;
+  const origin = new URL(getEnv().NEXTAUTH_URL).origin;
+  const path = sameOriginPath(wanted, origin);
+  const safe = path ? `${origin}${path}` : origin;
+  if (safe === wanted) return req;
+  url.searchParams.set('callbackUrl', safe);
+  const body = req.method === 'GET' || req.method === 'HEAD' ? undefined : await bodyText(req, SIGN_IN_BODY_MAX);
+  return new NextRequest(url, { method: req.method, headers: req.headers, body });
+}
+
 async function GET(req: Request, ctx: Ctx) {
-  return run(req, ctx);
+  return run(await withSafeCallback(req), ctx);
 }
 
 class BadBody extends Error {
@@ -72,12 +91,13 @@ async function signInFields(req: Request): Promise<Record<string, string>> {
   return fields;
 }
 
-function rebuilt(req: Request, fields: Record<string, string>): Request {
+// next-auth reads the query through NextRequest's nextUrl, so the copy is one too
+function rebuilt(req: Request, fields: Record<string, string>): NextRequest {
   const headers = new Headers(req.headers);
   headers.set('content-type', 'application/x-www-form-urlencoded');
   headers.delete('content-length');
   headers.delete('transfer-encoding');
-  return new Request(req.url, { method: 'POST', headers, body: new URLSearchParams(fields).toString() });
+  return new NextRequest(req.url, { method: 'POST', headers, body: new URLSearchParams(fields).toString() });
 }
 
 function tooMany(retryAfterS: number): Response {
@@ -100,9 +120,10 @@ const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 // (lib/auth/limits.ts says how); the client is the socket's peer, or what a trusted proxy reports.
 async function POST(req: Request, ctx: Ctx) {
   const { nextauth } = await ctx.params;
-  if (nextauth.join('/') !== 'callback/credentials') return run(req, ctx);
   let fields: Record<string, string>;
   try {
+    req = await withSafeCallback(req);
+    if (nextauth.join('/') !== 'callback/credentials') return run(req, ctx);
     fields = await signInFields(req);
   } catch (err) {
     if (err instanceof BadBody) return NextResponse.json({ error: { code: 'bad_request', message: err.message } }, { status: err.status });
