@@ -35,7 +35,7 @@ export function AcceptInvitationForm({ token, email, accountExists }: { token: s
       ) : (
         <>
           <Field label="Your name" name="name" autoComplete="name" defaultValue={state.values?.name} errors={fe.name} />
-          <Field label="Choose a password" name="password" type="password" autoComplete="new-password" hint="10 characters or more" errors={fe.password} />
+          <Field label="Choose a password" name="password" type="password" autoComplete="new-password" hint="10 characters or more, not a common one" errors={fe.password} />
         </>
       )}
       <Button type="submit" className="w-full" disabled={pending || state.ok}>

@@ -76,7 +76,7 @@ export function ResetCompleteForm({ token }: { token: string }) {
     >
       <h1 className="text-lg font-semibold">Choose a new password</h1>
       {answer.error && !answer.error.fieldErrors ? <p role="alert" className="text-sm text-fail">{answer.error.message}</p> : null}
-      <Field label="New password" name="password" type="password" autoComplete="new-password" hint="10 characters or more" errors={fe.password} />
+      <Field label="New password" name="password" type="password" autoComplete="new-password" hint="10 characters or more, not a common one" errors={fe.password} />
       <Field label="Repeat it" name="confirm" type="password" autoComplete="new-password" errors={fe.confirm} />
       <Button type="submit" className="w-full" disabled={busy}>
         {busy ? 'Saving…' : 'Set password'}
