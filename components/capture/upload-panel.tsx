@@ -236,7 +236,8 @@ function EncodingLine({ photo, captureSetId, canWrite, tiffEncoding }: { photo: 
         </div>
       )}
       {canWrite && sixteenTiff ? (
-        <label className="flex items-center gap-1 text-muted" onClick={(e) => e.stopPropagation()}>
+        // clicks and keys stay here: the slot around it opens the file picker on both
+        <label className="flex items-center gap-1 text-muted" onClick={(e) => e.stopPropagation()} onKeyDown={(e) => e.stopPropagation()}>
           <span>This photo:</span>
           <select
             aria-label={`Encoding of the ${photo.role} photo`}

@@ -109,6 +109,11 @@ function checkTruth(result: Record<string, unknown>, s: Scene): void {
   expect(rel(result.ambientContrastRatio, t.ambientContrastRatio), 'contrast ratio').toBeLessThan(0.005);
   expect(rel(result.transmission, t.transmission), 'transmission').toBeLessThan(0.005);
   expect(rel(result.michelson, t.michelson), 'Michelson').toBeLessThan(0.005);
+  // the ghost within the tolerance for a detected ghost (±8%), at its offset within 1.5 px
+  const g = result.ghost as { ratio: number; dx: number; dy: number } | null;
+  const tg = t.ghost as { ratio: number; dx: number; dy: number };
+  expect(rel(g?.ratio, tg.ratio), 'ghost ratio').toBeLessThan(0.08);
+  expect(Math.hypot((g?.dx ?? 1e9) - tg.dx, (g?.dy ?? 1e9) - tg.dy), 'ghost offset').toBeLessThanOrEqual(1.5);
 }
 
 /** The engine's reading without the keys the worker adds (camera profile, how photos were read). */
