@@ -12,7 +12,7 @@ const COLOURS: Record<RegionKind, string> = { screen: 'rgb(var(--beam))', backgr
 const KIND_TEXT: Record<RegionKind, string> = { screen: 'Screen', background: 'Background', ghost: 'Ghost' };
 const ZOOMS = [1, 2, 4, 8];
 
-/** The ghost the newest reading detected: its offset from the screen that reading measured. */
+/** The ghost the shown reading detected: its offset from the screen that reading measured. */
 export type DetectedGhost = { screen: Rect; dx: number; dy: number; ratio: number; snr: number | null };
 
 const fmt1 = (v: number) => (Number.isInteger(v) ? String(v) : v.toFixed(1));
@@ -254,7 +254,7 @@ export function RegionEditor({
           <span className="font-semibold" style={{ color: COLOURS.ghost }}>
             Detected ghost
           </span>{' '}
-          (dashed): the screen of the newest reading moved by ({fmt1(detectedGhost.dx)}, {fmt1(detectedGhost.dy)}) px, {(100 * detectedGhost.ratio).toFixed(2)}% of the display light
+          (dashed): the screen of the reading shown below, moved by ({fmt1(detectedGhost.dx)}, {fmt1(detectedGhost.dy)}) px, {(100 * detectedGhost.ratio).toFixed(2)}% of the display light
           {detectedGhost.snr !== null ? `, ${detectedGhost.snr.toFixed(1)} standard errors above the noise` : ''}.
           {ghostOnPhoto ? '' : ' It lies outside the photo.'} Mark a ghost region only to measure a different one.
         </p>
