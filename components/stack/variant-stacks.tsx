@@ -3,6 +3,7 @@
 import { Button } from '@/components/ui/button';
 import { DataTable } from '@/components/ui/data-table';
 import type { StackElementKind } from '@/lib/schemas/stack';
+import { formatLuminance, formatPercent } from '@/lib/format';
 import { predictedMeasuredCells } from './comparison';
 import { ElementCard } from './element-card';
 import { ELEMENT_KINDS, kindName, newElement, type DraftElement } from './planner-model';
@@ -121,6 +122,9 @@ const COLUMNS = [
   { key: 'tauMeasured', label: 'Transmission measured', numeric: true },
   { key: 'ghostPredicted', label: 'Ghost predicted', numeric: true },
   { key: 'ghostMeasured', label: 'Ghost measured', numeric: true },
+  { key: 'etaPredicted', label: 'η entered stack', numeric: true },
+  { key: 'etaFitted', label: 'η the readings show', numeric: true },
+  { key: 'atEye', label: 'Display at the eye, fitted', numeric: true },
 ];
 
 /** Each variant's own stack against its own readings. */
@@ -130,7 +134,16 @@ export function VariantPredictedMeasured({ rows, csvName }: { rows: PredictedMea
       <DataTable
         csvName={csvName}
         columns={COLUMNS}
-        rows={rows.map((p) => ({ id: p.variant || '-', cells: { ...predictedMeasuredCells(p), variant: { text: p.stackError ? `${p.variant || '—'} (${p.stackError})` : p.variant || 'no variant label', sort: p.variant } } }))}
+        rows={rows.map((p) => ({
+          id: p.variant || '-',
+          cells: {
+            ...predictedMeasuredCells(p),
+            variant: { text: p.stackError ? `${p.variant || '—'} (${p.stackError})` : p.variant || 'no variant label', sort: p.variant },
+            etaPredicted: { text: formatPercent(p.etaPredicted), sort: p.etaPredicted },
+            etaFitted: { text: p.fit.eta ? `${formatPercent(p.fit.eta.mean, { uncertainty: p.fit.eta.halfWidth })}${p.fit.eta.halfWidth !== null ? ` ± ${formatPercent(p.fit.eta.halfWidth, { uncertainty: p.fit.eta.halfWidth })}` : ''}${p.fit.estimated ? ' (estimated backgrounds)' : ''}` : '—', sort: p.fit.eta?.mean ?? null },
+            atEye: { text: p.fit.atEye ? formatLuminance(p.fit.atEye.mean, { uncertainty: p.fit.atEye.halfWidth, estimate: p.fit.estimated && p.fit.atEye.halfWidth === null }) : '—', sort: p.fit.atEye?.mean ?? null },
+          },
+        }))}
       />
     </div>
   );

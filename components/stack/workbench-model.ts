@@ -4,6 +4,7 @@
 import { predictedContrastRatio, type StackPrediction } from '@/lib/optics';
 import { stackElementSchema, stackSchema, variantStacksSchema, type Stack, type StackElement, type VariantChange, type VariantStacks } from '@/lib/schemas/stack';
 import { formatLuminance } from '@/lib/format';
+import { summarise } from '@/lib/stats';
 import { fromDraft, mean, median, safePredict, toDraft, type DraftElement, type MeasuredPoint } from './planner-model';
 
 export const CHART_MIN = 10;
@@ -114,6 +115,9 @@ export type PredictedMeasured = {
   tauPredicted: number | null;
   tauMeasured: number | null;
   stackError: string | null;
+  /** The stack fitted to these readings: the display at the eye and the η that explain them. */
+  fit: MeasuredFit;
+  etaPredicted: number | null;
 };
 
 const finite = (xs: (number | null)[]): number[] => xs.filter((x): x is number => x !== null && Number.isFinite(x));
@@ -141,6 +145,8 @@ export function predictedAgainstMeasured(variant: string, stack: Stack | null, r
     tauPredicted: prediction?.tau ?? null,
     tauMeasured: mean(finite(readings.map((r) => r.transmission))),
     stackError,
+    fit: fitFromReadings(readings, display?.kind === 'display' ? display.luminance : null),
+    etaPredicted: prediction?.eta ?? null,
   };
 }
 
@@ -156,4 +162,38 @@ export function predictedAgainstMeasuredByVariant(base: Stack | null, stored: Va
     const { stack, error } = v === '' ? { stack: base, error: base ? null : 'no stack' } : variantStack(base, stored[v]);
     return predictedAgainstMeasured(v, stack, measured.filter((m) => m.variant === v), error);
   });
+}
+
+/** What the readings say the stack does, fitted from them with a 95% interval. */
+export type MeasuredFit = {
+  /** Readings that had a contrast ratio, a transmission and a background. */
+  n: number;
+  /** Display light reaching the eye, cd/m²: (ACR − 1) · τ · L_background per reading (docs/method.md §6). */
+  atEye: { mean: number; halfWidth: number | null } | null;
+  /** The efficiency η that explains it: the light at the eye over the display's entered luminance. */
+  eta: { mean: number; halfWidth: number | null } | null;
+  /** True when a background came from the rough EXIF estimate. */
+  estimated: boolean;
+};
+
+/**
+ * Fits the stack to a group's readings. Each reading's contrast ratio is 1 + η·L_display / (τ·L_bg)
+ * (docs/method.md §6), so η·L_display = (ACR − 1) · τ · L_bg with its own measured τ; the mean
+ * and Student's t interval over the readings give the display at the eye and, over the entered
+ * display luminance, the efficiency that explains them.
+ */
+export function fitFromReadings(readings: readonly MeasuredPoint[], displayLuminance: number | null): MeasuredFit {
+  const atEye: number[] = [];
+  let estimated = false;
+  for (const r of readings) {
+    const bg = backgroundOf(r);
+    if (!bg || r.ambientContrastRatio === null || r.transmission === null || !(r.transmission > 0) || !Number.isFinite(r.ambientContrastRatio)) continue;
+    atEye.push((r.ambientContrastRatio - 1) * r.transmission * bg.cdm2);
+    if (bg.source === 'estimate') estimated = true;
+  }
+  if (atEye.length === 0) return { n: 0, atEye: null, eta: null, estimated };
+  const s = summarise(atEye);
+  const hw = s.ci?.halfWidth ?? null;
+  const eta = displayLuminance && displayLuminance > 0 ? { mean: s.mean / displayLuminance, halfWidth: hw === null ? null : hw / displayLuminance } : null;
+  return { n: atEye.length, atEye: { mean: s.mean, halfWidth: hw }, eta, estimated };
 }

@@ -97,3 +97,21 @@ describe('a stack per variant', () => {
     expect(rows[1]!.acrMeasured).toBe(2.0);
   });
 });
+
+describe('the stack fitted to the readings', () => {
+  it('gives the display at the eye and the η that explain the readings, with a Student’s t interval', async () => {
+    const { fitFromReadings } = await import('../../../components/stack/workbench-model');
+    const { summarise } = await import('../../../lib/stats');
+    // invented: η·L_display = 100 cd/m² exactly, read through τ = 0.4 at three backgrounds
+    const rs = [500, 1000, 2000].map((bg, i) => point({ captureSetId: `f${i}`, backgroundCdm2: bg, transmission: 0.4, ambientContrastRatio: 1 + 100 / (0.4 * bg) * (1 + (i - 1) * 0.05) }));
+    const fit = fitFromReadings(rs, 1000);
+    const per = rs.map((r) => (r.ambientContrastRatio! - 1) * 0.4 * r.backgroundCdm2!);
+    expect(fit.n).toBe(3);
+    expect(fit.atEye!.mean).toBeCloseTo(100, 9);
+    expect(fit.atEye!.halfWidth).toBeCloseTo(summarise(per).ci!.halfWidth, 12);
+    expect(fit.eta!.mean).toBeCloseTo(0.1, 12);
+    expect(fit.estimated).toBe(false);
+    // a reading without a transmission or a background cannot be used
+    expect(fitFromReadings([point({ transmission: null, backgroundCdm2: 100 }), point({})], 1000)).toMatchObject({ n: 0, atEye: null });
+  });
+});
