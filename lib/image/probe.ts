@@ -77,7 +77,7 @@ async function refuseCorrupt(bytes: Uint8Array, name: string, w: number, h: numb
       .raw()
       .toBuffer();
   } catch {
-    throw new EngineInputError('not-an-image', `${name} is damaged: it declares ${w} × ${h} pixels but its image data is corrupt or ends early. Copy the original file from the camera again`);
+    throw new EngineInputError('not-an-image', `${name} is damaged or cut short: it declares ${w} × ${h} pixels but its image data is corrupt or ends early. Copy the original file from the camera again`);
   }
 }
 
