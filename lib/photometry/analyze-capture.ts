@@ -8,7 +8,7 @@ import { diffReader } from './screen-edges';
 import { alignAndLocate, sourceOf, type Aligned } from './stages/align';
 import { analysisMaps } from './stages/artifacts';
 import { findGhost } from './stages/ghost';
-import { type AnalysisMemo } from './stages/memo';
+import { cached, type AnalysisMemo } from './stages/memo';
 import { absoluteLuminance, clipping, contrastFigures, finiteOrNull, measureRegions, regionsOf, seeThrough, uniformityCells, type RegionTotals } from './stages/measure';
 import { normalise, type CaptureRoleInput, type Normalised } from './stages/normalise';
 import { uniformity } from './uniformity';
@@ -74,7 +74,8 @@ export function ghostVariants(n: Normalised, a: Aligned, totals: RegionTotals, m
   const off = a.motion.off as Motion;
   const diffKey = `${n.key.on}:${n.key.off}:${off.dx},${off.dy},${off.angle}`;
   const variant = (roles: readonly PhotoRole[], plane: Plane, read: (r: Rect) => Float32Array, key: string | null, name: string): GhostAndUniformity => {
-    const ghost = findGhost({ ...common, plane, read, key }, memo);
+    const background = key ? cached(memo, `far:${key}`, () => meanOutside(plane, a.mask, n.factor)) : meanOutside(plane, a.mask, n.factor);
+    const ghost = findGhost({ ...common, plane, read, key, background }, memo);
     let cells = uniformityCells(totals, roles);
     let u: number | null = null;
     if (!checkUniformityCells(cells, name, warnings)) cells = null;
@@ -104,7 +105,7 @@ export function ghostVariants(n: Normalised, a: Aligned, totals: RegionTotals, m
  */
 export function darkRoomShare(dark: Plane, off: Plane, mask: readonly Rect[], factor: number): number {
   const { width: w, height: h } = dark;
-  const inMask = (x: number, y: number): boolean => mask.some((r) => x * factor + factor > r.x && x * factor < r.x + r.w && y * factor + factor > r.y && y * factor < r.y + r.h);
+  const inMask = masked(mask, factor);
   let sdo = 0;
   let soo = 0;
   let n = 0;
@@ -123,6 +124,28 @@ export function darkRoomShare(dark: Plane, off: Plane, mask: readonly Rect[], fa
   if (n < 100 || !(soo > 0)) return 0;
   const k = sdo / soo;
   return k > 1e-4 ? k : 0;
+}
+
+/** Whether block (x, y) of a plane downsampled by `factor` touches one of the rectangles. */
+function masked(mask: readonly Rect[], factor: number): (x: number, y: number) => boolean {
+  return (x, y) => mask.some((r) => x * factor + factor > r.x && x * factor < r.x + r.w && y * factor + factor > r.y && y * factor < r.y + r.h);
+}
+
+/** Mean of a small plane outside the display's mask (the frame far from the display), or null when too little is left. */
+export function meanOutside(p: Plane, mask: readonly Rect[], factor: number): number | null {
+  const inMask = masked(mask, factor);
+  const { width: w, height: h } = p;
+  const step = Math.max(1, Math.floor(Math.sqrt((w * h) / 100_000)));
+  let s = 0;
+  let n = 0;
+  for (let y = 0; y < h; y += step) {
+    for (let x = 0; x < w; x += step) {
+      if (inMask(x, y)) continue;
+      const v = p.data[y * w + x] as number;
+      if (v === v) { s += v; n++; }
+    }
+  }
+  return n >= 100 ? s / n : null;
 }
 
 function subtractScaled(a: Plane, b: Plane, k: number): Plane {

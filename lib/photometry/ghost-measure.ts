@@ -192,9 +192,10 @@ function variance(xs: number[]): number {
  * spill nor the ghost's own soft edge is in it. B is the mean of D there minus the mean over the
  * mirrored band (offset −d), which carries the light blur and stray light put on every side alike;
  * S1, S2 are the means over the band moved back by one and two offsets, pixel for pixel, and
- * B = g·S1 − g²·S2 gives g. Null when the band or the screen has no data or no light.
+ * B = g·S1 − g²·S2 gives g. With `background` (the mean of D far from the display), only the
+ * mirror's excess over it comes off B. Null when the band or the screen has no data or no light.
  */
-export function measureGhostOneSided(read: (r: Rect) => Float32Array, screen: Rect, offset: Offset, zone: number): OneSidedGhost | null {
+export function measureGhostOneSided(read: (r: Rect) => Float32Array, screen: Rect, offset: Offset, zone: number, background: number | null = null): OneSidedGhost | null {
   checkOffset(offset);
   const { dx, dy } = offset;
   const rects = ghostBandRects(screen, offset, zone);
@@ -233,8 +234,11 @@ export function measureGhostOneSided(read: (r: Rect) => Float32Array, screen: Re
   const raw = sums.result();
   if (!raw) return null;
   const excess = band - mirror;
-  // B is taken over the pixels with data one (and two) offsets back; the mirror's mean comes off it
-  const b = raw.b - mirror;
+  // B is taken over the pixels with data one (and two) offsets back. What comes off it is the light
+  // the mirrored band holds above the frame's far background (when known): the halo the screen
+  // spreads on every side alike. A dark photo's near-black background reads a little high (noise
+  // clipped at zero); measured against the far background, that offset does not come off the ghost.
+  const b = raw.b - (background === null || !Number.isFinite(background) ? mirror : mirror - background);
   const ratio = Number.isFinite(raw.s2) ? solveGhostRatio(b, raw.s1, raw.s2) : b / raw.s1;
   // the scatter of the mirrored band's block means (noise, the room's residue, no ghost) stands for
   // both sides: the band's own blocks also vary with the ghost's pattern, which is signal

@@ -401,6 +401,28 @@ export function fitMotion(shifts: readonly WindowShift[], width: number, height:
   return { motion, spread };
 }
 
+/** Windows at odds with the others are dropped one at a time (worst first) while more than 0.5 px
+ * from the motion the others fit and at least three remain: a repeated pattern or a moving object
+ * can pull one window's match to a wrong place. */
+function dropOutliers(shifts: readonly WindowShift[], width: number, height: number): WindowShift[] {
+  let kept = [...shifts];
+  while (kept.length >= 4) {
+    let worst = -1;
+    let worstDev = 0;
+    for (let i = 0; i < kept.length; i++) {
+      const others = kept.filter((_, j) => j !== i);
+      const m = fitMotion(others, width, height).motion;
+      const s = kept[i] as WindowShift;
+      const o = offsetAt(m, s.x, s.y);
+      const dev = Math.hypot(o.dx - s.dx, o.dy - s.dy);
+      if (dev > worstDev) { worstDev = dev; worst = i; }
+    }
+    if (worstDev <= 0.5) break;
+    kept = kept.filter((_, j) => j !== worst);
+  }
+  return kept;
+}
+
 /**
  * Where `moving`'s features sit against `reference`'s (docs/method.md §5.6): phase correlation of
  * log-gradient images on the whole downsampled frame with the display's own light masked out;
@@ -454,19 +476,10 @@ export function registerPhotos(input: RegistrationInput): Registration {
   // whole-pixel shifts only where no window could be put to a fraction of a pixel
   if (shifts.length === 0) shifts.push(...wholePixel);
   if (shifts.length === 0) return fallback;
-  // windows that disagree with the others by more than 2 px are left out (a repeated pattern, a moving object)
-  const median = (xs: number[]): number => [...xs].sort((a, b) => a - b)[Math.floor((xs.length - 1) / 2)] as number;
-  let kept = shifts;
-  if (shifts.length >= 3) {
-    const first = fitMotion(shifts, W, H).motion;
-    kept = shifts.filter((s) => {
-      const o = offsetAt(first, s.x, s.y);
-      return Math.hypot(o.dx - s.dx, o.dy - s.dy) <= 2;
-    });
-    if (kept.length === 0) kept = shifts;
-  }
+  const kept = dropOutliers(shifts, W, H);
   const { motion, spread } = fitMotion(kept, W, H);
   const residuals = kept.map((s) => s.residual).filter(Number.isFinite);
+  const median = (xs: number[]): number => [...xs].sort((a, b) => a - b)[Math.floor((xs.length - 1) / 2)] as number;
   return { ...motion, peak: coarse.peak, runnerUp: coarse.runnerUp, windows: kept.length, residual: residuals.length ? median(residuals) : Number.NaN, spread };
 }
 
@@ -513,7 +526,8 @@ export function registerDark(input: {
     if (lk && lk.residual < 0.9) shifts.push(lk);
   }
   if (shifts.length === 0) return fallback;
-  const { motion, spread } = fitMotion(shifts, W, H);
-  const residuals = shifts.map((s) => s.residual).filter(Number.isFinite).sort((a, b) => a - b);
-  return { ...motion, peak: coarse.peak, runnerUp: coarse.runnerUp, windows: shifts.length, residual: residuals.length ? (residuals[Math.floor((residuals.length - 1) / 2)] as number) : Number.NaN, spread };
+  const kept = dropOutliers(shifts, W, H);
+  const { motion, spread } = fitMotion(kept, W, H);
+  const residuals = kept.map((s) => s.residual).filter(Number.isFinite).sort((a, b) => a - b);
+  return { ...motion, peak: coarse.peak, runnerUp: coarse.runnerUp, windows: kept.length, residual: residuals.length ? (residuals[Math.floor((residuals.length - 1) / 2)] as number) : Number.NaN, spread };
 }

@@ -25,6 +25,8 @@ export interface GhostVariantInput {
   zone: number;
   /** A marked offset, 'none', or null to search. */
   marked: Offset | 'none' | null;
+  /** Mean of D far from the display (outside the registration mask), or null when none is left. */
+  background?: number | null;
 }
 
 /** The screen in the small plane: every block it touches. */
@@ -62,7 +64,7 @@ export function findGhost(v: GhostVariantInput, memo: AnalysisMemo | null): Ghos
   const { screen, zone, factor } = v;
   if (v.marked) {
     const o = v.marked;
-    const m = measureGhostOneSided(v.read, screen, o, zone);
+    const m = measureGhostOneSided(v.read, screen, o, zone, v.background ?? null);
     return m && Number.isFinite(m.ratio) ? toResult(m, o, 'marked', zone) : null;
   }
   const zoneBlocks = factor > 1 ? Math.ceil(zone / factor) + 1 : zone;
@@ -76,7 +78,7 @@ export function findGhost(v: GhostVariantInput, memo: AnalysisMemo | null): Ghos
     const offset = refineGhostOffsetWith(screen, coarse, v.read, { width: v.width, height: v.height }, Math.max(2 * factor, 6), zone, factor + 1);
     const whole = { dx: Math.round(offset.dx), dy: Math.round(offset.dy) };
     if (whole.dx === 0 && whole.dy === 0) return null;
-    const m = measureGhostOneSided(v.read, screen, whole, zone);
+    const m = measureGhostOneSided(v.read, screen, whole, zone, v.background ?? null);
     return m ? { offset, m } : null;
   };
   const found = v.key ? cached(memo, `ghost:${v.key}:${screen.x},${screen.y},${screen.w},${screen.h}:${zone}`, run) : run();

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { analyzeCapture, analyzeCaptureDetailed, type CaptureInput } from '../../../lib/photometry/analyze-capture';
+import { analyzeCapture, analyzeCaptureDetailed, meanOutside, type CaptureInput } from '../../../lib/photometry/analyze-capture';
 import { EngineInputError } from '../../../lib/photometry/errors';
 import { offsetAt } from '../../../lib/photometry/motion';
 import { checkTransmission, checkUniformityCells } from '../../../lib/photometry/plausibility';
@@ -105,7 +105,8 @@ describe('stages of the analysis (docs/method.md §5)', () => {
     const a = alignAndLocate(n, { screen: null, ghostOffset: null }, null);
     const totals = measureRegions(n, a.motion, regionsOf(a.screen, input.background ?? null, 'full'), { ambientFollows: false }, null);
     const levels = contrastFigures(n, totals, 'full', []);
-    const g = findGhost({ plane: a.diffSmall, read: a.readDiff, key: null, screen: a.screen, factor: n.factor, width: n.width, height: n.height, zone: a.spread.zone, marked: null }, null);
+    const background = meanOutside(a.diffSmall, a.mask, n.factor);
+    const g = findGhost({ plane: a.diffSmall, read: a.readDiff, key: null, screen: a.screen, factor: n.factor, width: n.width, height: n.height, zone: a.spread.zone, marked: null, background }, null);
     expect({ ...a.screen, source: a.screenSource }).toEqual(whole.screen);
     expect(levels.acr).toBe(whole.ambientContrastRatio);
     expect(g?.ratio).toBe(whole.ghost?.ratio);
