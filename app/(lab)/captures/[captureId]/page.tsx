@@ -28,7 +28,8 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
   if (!set) notFound();
   const [photos, regions, analyses] = await Promise.all([listPhotos(actor.labId, set.id), listRegions(actor.labId, set.id), listAnalyses(actor.labId, set.id)]);
   const selected = wanted && uuidSchema.safeParse(wanted).success ? await getReadingForAnalysis(actor.labId, wanted) : null;
-  const reading = selected ?? (await getLatestReading(actor.labId, set.id));
+  const latest = await getLatestReading(actor.labId, set.id);
+  const reading = selected ?? latest;
   const on = photos.find((p) => p.role === 'on');
   const hasOff = photos.some((p) => p.role === 'off');
   // the ghost the shown reading detected, drawn on the on photo when that reading was made from a photo of its size
@@ -106,7 +107,8 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
               canRun={can(actor.role, 'analysis.run')}
               ready={!!on && hasOff}
               readyHint="Upload the on and off photos first."
-              outdated={reading && compareVersions(reading.engineVersion, ENGINE_VERSION) < 0 ? { readingEngine: reading.engineVersion, currentEngine: ENGINE_VERSION } : null}
+              // the set's newest reading decides: an earlier one picked from the history is just history
+              outdated={latest && compareVersions(latest.engineVersion, ENGINE_VERSION) < 0 ? { readingEngine: latest.engineVersion, currentEngine: ENGINE_VERSION } : null}
             />
             <ReadingsPanel reading={reading} analyses={analyses} captureSetId={set.id} selectedId={reading?.analysisId ?? null} />
           </div>
