@@ -67,7 +67,7 @@ test('the trend chart draws means, a CI band, every capture and the target lines
   await expect(svg.locator('.vm-trend-line path.recharts-line-curve')).toHaveCount(variants.length);
   const strokes = await svg.locator('.vm-trend-line path.recharts-line-curve').evaluateAll((els) => els.map((e) => e.getAttribute('stroke')));
   expect(new Set(strokes).size).toBe(variants.length);
-  const legend = chart.getByTestId('trend-legend');
+  const legend = page.getByTestId('trend-legend');
   for (const v of variants) await expect(legend.locator(`[data-variant="${v}"]`)).toHaveText(v);
   await expect(svg.locator('[data-testid="trend-point"][data-variant="with polarizer"]')).not.toHaveCount(0);
   // the interval also as whiskers on every mean that has one (the seeded revisions have 4 and more captures)
