@@ -21,10 +21,14 @@ test.beforeAll(async () => {
   const [c] = await db('capture_sets').insert({ lab_id: lab!.id, revision_id: r!.id, label: 'Foreign shot' }).returning<{ id: string }[]>('id');
   foreign = { labId: lab!.id, projectId: p!.id, revisionId: r!.id, captureId: c!.id };
   const demoLab = await db('labs').where({ name: 'Kestrel Row Optics Lab' }).first<{ id: string }>('id');
-  const projects = await db('projects').where({ lab_id: demoLab.id }).orderBy('name').limit(2).pluck<string[]>('id');
-  const revision = await db('revisions').where({ project_id: projects[0] }).orderBy('position').first<{ id: string }>('id');
-  const capture = await db('capture_sets').where({ lab_id: demoLab.id, revision_id: revision.id }).first<{ id: string }>('id');
-  demo = { projectId: projects[0]!, otherProjectId: projects[1]!, revisionId: revision.id, captureId: capture.id };
+  // a capture set of the demo lab with its revision and project, and another project of the lab
+  const shot = await db('capture_sets as c')
+    .join('revisions as r', 'r.id', 'c.revision_id')
+    .where('c.lab_id', demoLab.id)
+    .orderBy('c.created_at')
+    .first<{ captureId: string; revisionId: string; projectId: string }>('c.id as captureId', 'r.id as revisionId', 'r.project_id as projectId');
+  const other = await db('projects').where({ lab_id: demoLab.id }).whereNot({ id: shot.projectId }).first<{ id: string }>('id');
+  demo = { projectId: shot.projectId, otherProjectId: other.id, revisionId: shot.revisionId, captureId: shot.captureId };
   viewer = await apiAs('viewer@example.test');
   admin = await apiAs('admin@example.test');
 });

@@ -150,10 +150,12 @@ describe('analysis worker', () => {
 
   it('runs 20 queued analyses on two workers, each exactly once', async () => {
     await spawnWorker();
+    // a set of their own each: a second request for a set whose analysis is still queued gets that analysis back
     const setIds: string[] = [];
-    for (let k = 0; k < 4; k++) setIds.push(await newCaptureSet(`batch ${k}`, await small()));
+    for (let k = 0; k < 20; k++) setIds.push(await newCaptureSet(`batch ${k}`, await small()));
     const ids: string[] = [];
-    for (let k = 0; k < 20; k++) ids.push((await m.producer.requestAnalysis(labId, userId, setIds[k % 4] as string, queue)).analysis.id);
+    for (let k = 0; k < 20; k++) ids.push((await m.producer.requestAnalysis(labId, userId, setIds[k] as string, queue)).analysis.id);
+    expect(new Set(ids).size).toBe(20);
     for (const id of ids) {
       const a = await waitFor(id, ['done', 'failed'], 90_000);
       expect(a.status).toBe('done');
