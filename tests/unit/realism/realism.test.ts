@@ -22,7 +22,11 @@
  *
  * Every scene is first proved passable: a reference measurement written here (reference.ts, not the
  * engine) from the decoded photos with the known registration and regions must land within the same
- * tolerance. Each check records truth, reference and engine in a table printed after the run.
+ * tolerance. Each check records truth, reference and engine in a table printed after the run (and
+ * written to veilmeter-realism-report.md in the system's temporary folder).
+ *
+ * Cost, measured 2026-12-05 on this 2-core machine: about 105 s of CPU for the 18 scenes (user + sys,
+ * a third of it the 24 MP scene), peak RSS 1.7 GB (the 24 MP scene's planes).
  */
 import { writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
