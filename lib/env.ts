@@ -34,6 +34,8 @@ const envSchema = z.object({
    * on 127.0.0.1:SMTP_PORT instead of a relay, and the inbox page shows each person their own mail.
    */
   MAIL_CATCHER: z.enum(['0', '1']).default('0'),
+  /** 1 lets webhooks post to loopback and private addresses in production (lib/webhooks/url-policy.ts). */
+  WEBHOOKS_ALLOW_PRIVATE: z.enum(['0', '1']).default('0'),
   /**
    * Comma-separated addresses of the reverse proxies in front of the web app; only their
    * X-Forwarded-For counts when limits pick the client's address (lib/security/client-ip.ts).

@@ -7,6 +7,7 @@ import { getEnv } from '../lib/env';
 import { workerConnection } from '../lib/queue/connection';
 import { ANALYSIS_QUEUE } from '../lib/queue/names';
 import { sweepAnalyses } from './sweeper';
+import { startWebhookDelivery, webhooksMayReachPrivate } from '../lib/webhooks/runner';
 
 function numberArg(name: string, fallback: number): number {
   const arg = process.argv.find((a) => a.startsWith(`--${name}=`));
@@ -58,6 +59,7 @@ async function main(): Promise<void> {
     }
   };
   const timer = setInterval(() => void sweep(), Math.max(0.2, sweepEvery) * 1000);
+  const webhooks = startWebhookDelivery({ connection: queueRedis, prefix: env.QUEUE_PREFIX, allowPrivate: webhooksMayReachPrivate(env) });
   void sweep();
   console.log(`[worker ${process.pid}] ready (queue ${env.QUEUE_PREFIX}:${ANALYSIS_QUEUE}, concurrency ${env.WORKER_CONCURRENCY})`);
 
@@ -69,6 +71,7 @@ async function main(): Promise<void> {
     clearInterval(timer);
     // the order matters: finish or hand back the jobs, then drop Redis, then the pool
     await worker.close().catch(() => undefined);
+    await webhooks.close().catch(() => undefined);
     await queue.close().catch(() => undefined);
     workerRedis.disconnect();
     queueRedis.disconnect();

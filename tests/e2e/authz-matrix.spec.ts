@@ -108,6 +108,8 @@ const ACTIONS: Record<string, Access> = {
   removeMemberAction: 'member.manage',
   createTokenAction: 'token.self',
   revokeTokenAction: 'token.self',
+  createWebhookAction: 'token.manage',
+  deleteWebhookAction: 'token.manage',
 };
 
 const ROOT = process.cwd();

@@ -9,6 +9,7 @@ export default async function SettingsLayout({ children }: { children: React.Rea
   const tabs = [{ href: '/settings', label: 'Members' }];
   if (can(actor.role, 'invitation.manage')) tabs.push({ href: '/settings/invitations', label: 'Invitations' });
   if (can(actor.role, 'token.self')) tabs.push({ href: '/settings/tokens', label: 'API tokens' });
+  if (can(actor.role, 'token.manage')) tabs.push({ href: '/settings/webhooks', label: 'Webhooks' });
   if (can(actor.role, 'capture.read')) tabs.push({ href: '/settings/cameras', label: 'Camera profiles' });
   if (can(actor.role, 'audit.read')) tabs.push({ href: '/settings/audit', label: 'Audit trail' });
   if (getEnv().MAIL_CATCHER === '1') tabs.push({ href: '/settings/inbox', label: 'Local inbox' });
