@@ -28,7 +28,9 @@ import {
 } from './planner-model';
 import { VariantPredictedMeasured, VariantStacksEditor } from './variant-stacks';
 import { WhatIfSliders } from './what-if-sliders';
-import { fromVariantDrafts, placeMeasured, plannerVariants, predictedAgainstMeasuredByVariant, toVariantDrafts, type VariantDraft } from './workbench-model';
+import { TradeOffChart } from './trade-off-chart';
+import { fromVariantDrafts, placeMeasured, plannerVariants, predictedAgainstMeasuredByVariant, toVariantDrafts, tradeOffPoints, type TradeOffPoint, type VariantDraft } from './workbench-model';
+import { median } from './planner-model';
 
 const TEMPLATES = listStackTemplates();
 
@@ -143,6 +145,14 @@ export function StackWorkbench({
   const { plotted, unplotted } = placeMeasured(measured, CURVE_MIN, CURVE_MAX);
   const estimated = plotted.filter((p) => p.estimate).length;
   const perVariant = useMemo(() => predictedAgainstMeasuredByVariant(stack, variantState.value ?? {}, measured), [stack, variantState, measured]);
+  // the team's background: the median of its readings' (typed, else from the photos), else an office-bright 1,000 cd/m²
+  const teamBackground = median(plotted.map((p) => p.x)) ?? 1000;
+  const tradeOff: TradeOffPoint[] = [
+    ...tradeOffPoints(stack, teamBackground),
+    ...perVariant.flatMap((v): TradeOffPoint[] =>
+      v.tauMeasured !== null && v.acrMeasured !== null ? [{ label: `measured: ${v.variant || 'no variant label'}`, split: '', polariser: false, tau: v.tauMeasured, acr: v.acrMeasured, kind: 'measured' }] : [],
+    ),
+  ];
 
   function edit(next: DraftElement[]) {
     setDrafts(next);
@@ -365,6 +375,7 @@ export function StackWorkbench({
                   ) : null}
                 </div>
               </div>
+              <TradeOffChart points={tradeOff} backgroundCdm2={teamBackground} estimated={plotted.some((p) => p.estimate)} />
               <div className="rounded-md border border-line p-3">
                 <h3 className="mb-3 text-xs uppercase tracking-wider text-muted">What if…</h3>
                 <WhatIfSliders

@@ -5,7 +5,7 @@ import { predictedContrastRatio, type StackPrediction } from '@/lib/optics';
 import { stackElementSchema, stackSchema, variantStacksSchema, type Stack, type StackElement, type VariantChange, type VariantStacks } from '@/lib/schemas/stack';
 import { formatLuminance } from '@/lib/format';
 import { summarise } from '@/lib/stats';
-import { fromDraft, mean, median, safePredict, toDraft, type DraftElement, type MeasuredPoint } from './planner-model';
+import { applyWhatIf, fromDraft, mean, median, safePredict, toDraft, type DraftElement, type MeasuredPoint } from './planner-model';
 
 export const CHART_MIN = 10;
 export const CHART_MAX = 40_000;
@@ -197,3 +197,38 @@ export function fitFromReadings(readings: readonly MeasuredPoint[], displayLumin
   const eta = displayLuminance && displayLuminance > 0 ? { mean: s.mean / displayLuminance, halfWidth: hw === null ? null : hw / displayLuminance } : null;
   return { n: atEye.length, atEye: { mean: s.mean, halfWidth: hw }, eta, estimated };
 }
+
+/** One candidate on the trade-off view: a splitter split with or without a polariser, or a measured variant. */
+export type TradeOffPoint = { label: string; split: string; polariser: boolean; tau: number; acr: number; kind: 'candidate' | 'own' | 'measured' };
+
+const SPLITS = [0.5, 0.4, 0.3] as const;
+
+/**
+ * See-through transmission against the contrast ratio at one background luminance, for the
+ * common splits (50/50, 40/60, 30/70) and the stack's own, each with and without a world-side
+ * polariser; the splitter's absorption is held as it is retuned (applyWhatIf). The measured
+ * variants are added by the caller.
+ */
+export function tradeOffPoints(stack: Stack | null, backgroundCdm2: number): TradeOffPoint[] {
+  if (!stack || !(backgroundCdm2 > 0)) return [];
+  const display = stack.elements[0];
+  if (display?.kind !== 'display') return [];
+  const splitter = stack.elements.find((e) => e.kind === 'plate-beam-splitter');
+  const combiner = stack.elements.find((e) => e.kind === 'combiner');
+  const ownR = splitter?.kind === 'plate-beam-splitter' ? splitter.R : combiner?.kind === 'combiner' ? combiner.R : null;
+  if (ownR === null) return [];
+  const out: TradeOffPoint[] = [];
+  const rs: { r: number; own: boolean }[] = [...SPLITS.map((r) => ({ r, own: false })), ...(SPLITS.some((r) => Math.abs(r - ownR) < 1e-9) ? [] : [{ r: ownR, own: true }])];
+  for (const { r, own } of rs) {
+    for (const polariser of [false, true]) {
+      const w = { ...NO_WHAT_IF_FOR_TRADE, polariser, ...(splitter ? { splitterR: r } : { combinerR: r }) };
+      const p = safePredict(applyWhatIf(stack, w));
+      if (!p || !(p.tau > 0)) continue;
+      const split = `${Math.round(r * 100)}/${Math.round((1 - r) * 100)}`;
+      out.push({ label: `${split}${own ? ' (this stack)' : ''} · ${polariser ? 'with' : 'no'} polariser`, split, polariser, tau: p.tau, acr: predictedContrastRatio(p.eta, display.luminance, p.tau, backgroundCdm2), kind: own || Math.abs(r - ownR) < 1e-9 ? 'own' : 'candidate' });
+    }
+  }
+  return out;
+}
+
+const NO_WHAT_IF_FOR_TRADE = { splitterR: null, combinerR: null, displayLuminance: null, polariser: null } as const;

@@ -115,3 +115,30 @@ describe('the stack fitted to the readings', () => {
     expect(fitFromReadings([point({ transmission: null, backgroundCdm2: 100 }), point({})], 1000)).toMatchObject({ n: 0, atEye: null });
   });
 });
+
+describe('the trade-off view', () => {
+  it('puts the common splits and the stack’s own, with and without a polariser, at the team’s background', async () => {
+    const { tradeOffPoints } = await import('../../../components/stack/workbench-model');
+    const { applyWhatIf } = await import('../../../components/stack/planner-model');
+    const base = getStackTemplate('birdbath').stack;
+    const pts = tradeOffPoints(base, 1000);
+    const splits = [...new Set(pts.map((p) => p.split))];
+    expect(splits.slice(0, 3)).toEqual(['50/50', '40/60', '30/70']);
+    expect(pts.filter((p) => p.kind === 'own').length).toBeGreaterThanOrEqual(2);
+    // each point is the planner's own prediction of that stack (docs/method.md §6)
+    const one = pts.find((p) => p.split === '40/60' && p.polariser)!;
+    const p = predictStack(applyWhatIf(base, { splitterR: 0.4, combinerR: null, displayLuminance: null, polariser: true }));
+    const display = base.elements[0]!;
+    if (display.kind !== 'display') throw new Error('the template starts with its display');
+    expect(one.tau).toBe(p.tau);
+    expect(one.acr).toBe(predictedContrastRatio(p.eta, display.luminance, p.tau, 1000));
+    // the polariser trades see-through for contrast at every split
+    for (const s of splits) {
+      const no = pts.find((x) => x.split === s && !x.polariser)!;
+      const yes = pts.find((x) => x.split === s && x.polariser)!;
+      expect(yes.tau).toBeLessThan(no.tau);
+      expect(yes.acr).toBeGreaterThan(no.acr);
+    }
+    expect(tradeOffPoints(null, 1000)).toEqual([]);
+  });
+});
