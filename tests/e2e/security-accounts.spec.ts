@@ -67,6 +67,16 @@ test.describe('sign-in callback', () => {
       });
       expect(viaQuery.status(), `query ${callbackUrl}`).toBe(200);
       expect(new URL(((await viaQuery.json()) as { url: string }).url).origin).toBe(new URL(baseURL).origin);
+      // and in next-auth's callback-url cookie, which a sibling site could have set: cleared, not a 500
+      for (const path of ['/api/auth/session', '/api/auth/callback/credentials']) {
+        const withCookie = await c.ctx.fetch(path, {
+          method: path.endsWith('credentials') ? 'POST' : 'GET',
+          headers: { cookie: `next-auth.callback-url=${enc(callbackUrl)}`, 'content-type': 'application/x-www-form-urlencoded' },
+          data: path.endsWith('credentials') ? `csrfToken=${enc(c.csrf)}&json=true&email=${enc(person.email)}&password=${PASSWORD}` : undefined,
+          maxRedirects: 0,
+        });
+        expect(withCookie.status(), `cookie ${path} ${callbackUrl}`).toBeLessThan(500);
+      }
       await c.ctx.dispose();
     }
   });

@@ -34,8 +34,30 @@ async function withSafeCallback(req: Request): Promise<Request> {
   return new NextRequest(url, { method: req.method, headers: req.headers, body });
 }
 
+/**
+ * next-auth keeps the return address in a cookie too, and answers 500 when that cookie holds one
+ * it cannot parse (a cookie set for this host from a sibling site): such a cookie is cleared, with
+ * a 400 that says why, before next-auth reads it. Null when the cookie is absent or on this origin.
+ */
+function clearForeignCallbackCookie(req: Request): Response | null {
+  const secure = getAuthOptions().useSecureCookies === true;
+  const name = `${secure ? '__Secure-' : ''}next-auth.callback-url`;
+  const pair = (req.headers.get('cookie') ?? '').split(/;\s*/).find((c) => c.startsWith(`${name}=`));
+  if (!pair) return null;
+  let value = pair.slice(name.length + 1);
+  try {
+    value = decodeURIComponent(value);
+  } catch {
+    // kept as sent; it fails the check below
+  }
+  if (sameOriginPath(value, new URL(getEnv().NEXTAUTH_URL).origin)) return null;
+  const res = NextResponse.json({ error: { code: 'bad_callback', message: 'This browser held a return address of another site; it has been cleared. Try again.' } }, { status: 400 });
+  res.cookies.set(name, '', { path: '/', maxAge: 0, httpOnly: true, sameSite: 'lax', secure });
+  return res;
+}
+
 async function GET(req: Request, ctx: Ctx) {
-  return run(await withSafeCallback(req), ctx);
+  return clearForeignCallbackCookie(req) ?? run(await withSafeCallback(req), ctx);
 }
 
 class BadBody extends Error {
@@ -119,6 +141,8 @@ const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 // Credential sign-ins are limited per client and address before next-auth sees them
 // (lib/auth/limits.ts says how); the client is the socket's peer, or what a trusted proxy reports.
 async function POST(req: Request, ctx: Ctx) {
+  const foreign = clearForeignCallbackCookie(req);
+  if (foreign) return foreign;
   const { nextauth } = await ctx.params;
   let fields: Record<string, string>;
   try {
