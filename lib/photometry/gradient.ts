@@ -10,7 +10,8 @@ import type { Plane } from './types';
 export function logGradient(plane: Plane): Plane {
   const { width: w, height: h, data } = plane;
   if (data.length !== w * h || w < 1 || h < 1) throw new RangeError('plane data does not match its size');
-  const p99 = percentile(strided(data, 100_000), 99);
+  // 20 000 samples put the 99th percentile within a fraction of a percent, plenty for a floor
+  const p99 = percentile(strided(data, 20_000), 99);
   const floor = Number.isFinite(p99) && p99 > 0 ? 0.01 * p99 : 1e-6;
   const logs = new Float32Array(w * h);
   for (let i = 0; i < logs.length; i++) {

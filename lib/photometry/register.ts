@@ -457,21 +457,39 @@ export function registerPhotos(input: RegistrationInput): Registration {
   const windows = bestWindows(ra, rb, coarse, Math.max(1, Math.round(size / scale)), coarseMask, 4);
   const shifts: WindowShift[] = [];
   const wholePixel: WindowShift[] = [];
+  // The first window searches the coarse step's whole uncertainty; the others start from its
+  // answer with a short reach on a smaller window (a quarter of the transform), and search again
+  // with the full reach only when the match sits at the edge of the short one (a turned camera).
+  let anchor: Offset | null = null;
+  const SHORT = 8;
+  const smallSize = Math.min(size, 128 - SHORT);
   for (const win of windows) {
-    const rect: Rect = { x: Math.min(W - size, win.x * scale), y: Math.min(H - size, win.y * scale), w: size, h: size };
-    const use = windowMask(rect, mask);
-    const refCrop = luminanceCrop(reference, rect, { dx: 0, dy: 0 }, 1).plane;
-    const fa = logGradient(fillNaN(refCrop));
-    const fb = logGradient(fillNaN(luminanceCrop(moving, rect, d0, 1).plane));
-    const fine = phaseCorrelate(fa, fb, Math.min(reach, size - 1), use);
-    const start = fine.peak >= MIN_FINE_PEAK ? { dx: d0.dx + fine.dx, dy: d0.dy + fine.dy } : d0;
+    const full: Rect = { x: Math.min(W - size, win.x * scale), y: Math.min(H - size, win.y * scale), w: size, h: size };
+    const attempt = (rect: Rect, from: Offset, reach: number): { start: Offset; peak: number; edge: boolean; ref: Plane } => {
+      const use = windowMask(rect, mask);
+      const refCrop = luminanceCrop(reference, rect, { dx: 0, dy: 0 }, 1).plane;
+      const fa = logGradient(fillNaN(refCrop));
+      const fb = logGradient(fillNaN(luminanceCrop(moving, rect, from, 1).plane));
+      const r = Math.min(reach, rect.w - 1);
+      const fine = phaseCorrelate(fa, fb, r, use);
+      const ok = fine.peak >= MIN_FINE_PEAK;
+      return { start: ok ? { dx: from.dx + fine.dx, dy: from.dy + fine.dy } : from, peak: fine.peak, edge: ok && (Math.abs(fine.dx) >= r || Math.abs(fine.dy) >= r), ref: refCrop };
+    };
+    let rect = full;
+    type Attempt = { start: Offset; peak: number; edge: boolean; ref: Plane };
+    let found: Attempt = anchor
+      ? attempt((rect = { x: full.x + Math.floor((size - smallSize) / 2), y: full.y + Math.floor((size - smallSize) / 2), w: smallSize, h: smallSize }), { dx: Math.round(anchor.dx), dy: Math.round(anchor.dy) }, SHORT)
+      : attempt(full, d0, reach);
+    if (anchor && (found.edge || found.peak < MIN_FINE_PEAK)) found = attempt((rect = full), d0, reach);
+    const { start, peak } = found;
+    if (!anchor && peak >= MIN_FINE_PEAK) anchor = start;
     // Lucas–Kanade needs fewer pixels than the correlation's reach: the window's central part
-    const lkSize = Math.min(size, LK_SIZE);
-    const lkRect: Rect = { x: rect.x + Math.floor((size - lkSize) / 2), y: rect.y + Math.floor((size - lkSize) / 2), w: lkSize, h: lkSize };
-    const lkRef = lkSize === size ? refCrop.data : luminanceCrop(reference, lkRect, { dx: 0, dy: 0 }, 1).plane.data;
+    const lkSize = Math.min(rect.w, LK_SIZE);
+    const lkRect: Rect = { x: rect.x + Math.floor((rect.w - lkSize) / 2), y: rect.y + Math.floor((rect.h - lkSize) / 2), w: lkSize, h: lkSize };
+    const lkRef = lkSize === rect.w ? found.ref.data : luminanceCrop(reference, lkRect, { dx: 0, dy: 0 }, 1).plane.data;
     const lk = refineWindowShift(lkRef, (o) => warpedCrop(moving, lkRect, { ...o, angle: 0, cx: 0, cy: 0 }, 1).data, lkRect, start, windowMask(lkRect, mask));
     if (lk && lk.residual < 0.9) shifts.push(lk);
-    else if (fine.peak >= MIN_FINE_PEAK) wholePixel.push({ ...start, x: rect.x + (size - 1) / 2, y: rect.y + (size - 1) / 2, residual: Number.NaN });
+    else if (peak >= MIN_FINE_PEAK) wholePixel.push({ ...start, x: rect.x + (rect.w - 1) / 2, y: rect.y + (rect.h - 1) / 2, residual: Number.NaN });
   }
   // whole-pixel shifts only where no window could be put to a fraction of a pixel
   if (shifts.length === 0) shifts.push(...wholePixel);

@@ -6,10 +6,24 @@ import type { Plane, PhotoRaster, Rect } from './types';
  * out(p) = plane(position of p's feature in the plane under `m`): the plane brought onto the
  * reference grid, NaN where that falls outside. Whole-pixel translations copy values exactly.
  */
-export function warpPlane(plane: Plane, m: Motion): Plane {
+/**
+ * The whole-pixel translation a motion stands for when it is one to within 0.02 px over an extent
+ * (the largest distance from the motion's centre that is read), else null. Reading such a motion
+ * by interpolation would cost more and change nothing that can be measured.
+ */
+export function wholeShift(m: Motion, extent: number): { dx: number; dy: number } | null {
+  const dx = Math.round(m.dx);
+  const dy = Math.round(m.dy);
+  if (Math.abs(m.dx - dx) > 0.02 || Math.abs(m.dy - dy) > 0.02 || Math.abs(m.angle) * extent > 0.02) return null;
+  return { dx, dy };
+}
+
+export function warpPlane(plane: Plane, motion: Motion): Plane {
   const { width: w, height: h } = plane;
   const out = new Float32Array(w * h);
-  if (m.angle === 0 && Number.isInteger(m.dx) && Number.isInteger(m.dy)) {
+  const whole = wholeShift(motion, Math.hypot(w, h));
+  const m = whole ? { ...motion, dx: whole.dx, dy: whole.dy, angle: 0 } : motion;
+  if (whole) {
     out.fill(Number.NaN);
     for (let y = 0; y < h; y++) {
       const sy = y + m.dy;
@@ -36,8 +50,9 @@ export function warpedCrop(raster: PhotoRaster, rect: Rect, m: Motion, scale: nu
     offsetAt(m, rect.x, rect.y + rect.h - 1),
     offsetAt(m, rect.x + rect.w - 1, rect.y + rect.h - 1),
   ];
-  const whole = corners.every((o) => Number.isInteger(o.dx) && Number.isInteger(o.dy) && o.dx === corners[0]?.dx && o.dy === corners[0]?.dy);
-  if (whole) return luminanceCrop(raster, rect, corners[0] as { dx: number; dy: number }, scale).plane;
+  const far = Math.max(Math.abs(rect.x - m.cx), Math.abs(rect.x + rect.w - m.cx)) + Math.max(Math.abs(rect.y - m.cy), Math.abs(rect.y + rect.h - m.cy));
+  const whole = wholeShift(m, far);
+  if (whole) return luminanceCrop(raster, rect, whole, scale).plane;
   const minDx = Math.floor(Math.min(...corners.map((o) => o.dx)));
   const maxDx = Math.ceil(Math.max(...corners.map((o) => o.dx)));
   const minDy = Math.floor(Math.min(...corners.map((o) => o.dy)));

@@ -133,6 +133,7 @@ export function alignAndLocate(n: Normalised, opts: { screen?: Rect | null; ghos
   let screenSource: 'marked' | 'detected';
   let offMotion: Registration;
   let mask: Rect[];
+  let firstMotion: Motion = { dx: Number.NaN, dy: Number.NaN, angle: 0, cx: 0, cy: 0 };
   if (opts.screen) {
     screen = { ...opts.screen };
     screenSource = 'marked';
@@ -141,6 +142,7 @@ export function alignAndLocate(n: Normalised, opts: { screen?: Rect | null; ghos
   } else {
     // a first alignment without a mask finds the display well enough to mask it for the real one
     const first = register('off', null, true);
+    firstMotion = first;
     const coarse = detect(diffOf(first), `${n.key.on}:${n.key.off}:${motionKey(first)}`);
     mask = displayMask(coarse, W, H, factor, marked);
     offMotion = register('off', mask);
@@ -152,7 +154,9 @@ export function alignAndLocate(n: Normalised, opts: { screen?: Rect | null; ghos
   const offSrc = sourceOf(n, 'off', offMotion);
   const readDiff = diffReader(onSrc, offSrc);
   if (screenSource === 'detected') {
-    const coarse = detect(d, `${n.key.on}:${n.key.off}:${motionKey(offMotion)}`);
+    // the first look's detection stands when the masked registration moved the off photo by less than half a block
+    const moved = Math.hypot(offMotion.dx - firstMotion.dx, offMotion.dy - firstMotion.dy) + largestDisplacement({ ...offMotion, dx: 0, dy: 0 }, W, H);
+    const coarse = moved < factor / 2 ? screen : detect(d, `${n.key.on}:${n.key.off}:${motionKey(offMotion)}`);
     screen = cached(memo, `edges:${n.key.on}:${n.key.off}:${motionKey(offMotion)}:${coarse.x},${coarse.y},${coarse.w},${coarse.h}`, () => refineScreenEdgesWith(coarse, readDiff, { width: W, height: H }, factor));
     if (screen.w * screen.h > 0.8 * W * H) {
       throw new EngineInputError('no-screen-found', `the on and off photos differ over ${Math.round((100 * screen.w * screen.h) / (W * H))}% of the frame: either the display fills the view (move back or zoom out so the room shows around it, and mark the screen) or the exposure or room light changed between the photos (keep them fixed)`);

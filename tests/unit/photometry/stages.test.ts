@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { analyzeCapture, analyzeCaptureDetailed, meanOutside, type CaptureInput } from '../../../lib/photometry/analyze-capture';
 import { EngineInputError } from '../../../lib/photometry/errors';
 import { offsetAt } from '../../../lib/photometry/motion';
-import { checkTransmission, checkUniformityCells } from '../../../lib/photometry/plausibility';
+import { checkBothClipped, checkTransmission, checkUniformityCells } from '../../../lib/photometry/plausibility';
 import { alignAndLocate } from '../../../lib/photometry/stages/align';
 import { findGhost } from '../../../lib/photometry/stages/ghost';
 import { contrastFigures, measureRegions, regionsOf } from '../../../lib/photometry/stages/measure';
@@ -170,6 +170,24 @@ describe('stages of the analysis (docs/method.md §5)', () => {
     expect(w[0]?.message).toMatch(/veil/);
     expect(checkUniformityCells([0.3, 0.2, -0.01], 'on − off', w)).toBe(false);
     expect(w.map((x) => x.code)).toContain('uniformity-invalid');
+  });
+
+  it('registration: a bright screen over a dim textured room does not pull the match onto its own edges', () => {
+    const p = render({ ...BASE, display: 0.9, off: { dx: 2.3, dy: -1.8 }, ambient: { dx: -2.6, dy: 1.4 } });
+    const r = analyzeCapture(inputOf(p));
+    expect(Math.abs(r.registration.off.dx - 2.3)).toBeLessThanOrEqual(0.1);
+    expect(Math.abs(r.registration.off.dy + 1.8)).toBeLessThanOrEqual(0.1);
+    expect(Math.abs((r.registration.ambient?.dx as number) + 2.6)).toBeLessThanOrEqual(0.1);
+  });
+
+  it('plausibility: clipped on and off photos are flagged; a file with several pages says which was measured', () => {
+    const w: EngineWarning[] = [];
+    checkBothClipped({ on: 0.2, off: 0.01 }, w);
+    checkBothClipped({ on: 0.2, off: 0 }, w);
+    expect(w.map((x) => x.code)).toEqual(['both-clipped']);
+    const n = normalise({ on: { raster: ghostScene.on, pages: { count: 3, measured: 0 } }, off: { raster: ghostScene.off } }, null);
+    const pages = n.warnings.find((x) => x.code === 'multi-page');
+    expect(pages?.message).toMatch(/3 pages; page 1 was measured/);
   });
 
   it('warp: a plane moved by a fraction of a pixel is read back by bilinear interpolation', () => {
