@@ -68,10 +68,10 @@ function trendChart(trend: Trend, targets: Target[], highlight: string | null, c
   });
   return {
     title: `${metricHeading(trend.metric)} across revisions`,
-    unit: METRICS[trend.metric].unit.trim(),
+    unit: METRICS[trend.metric].unit === ': 1' ? 'contrast ratio, x : 1' : METRICS[trend.metric].unit,
     tick: (v) => formatTick(trend.metric, v),
     groups,
-    targets: targets.filter((t) => t.metric === trend.metric).map((t) => ({ value: t.value, label: `target ${t.comparator} ${formatLimit(t.metric, t.value)}`, failing: checks.some((c) => c.target.id === t.id && c.status === 'fail') })),
+    targets: targets.filter((t) => t.metric === trend.metric).map((t) => ({ value: t.value, label: `target ${t.comparator === '>=' ? '≥' : '≤'} ${formatLimit(t.metric, t.value)}`, failing: checks.some((c) => c.target.id === t.id && c.status === 'fail') })),
   };
 }
 
@@ -191,13 +191,13 @@ export async function comparisonReport(labId: string, projectId: string, a: Grou
     if (!c) continue;
     w.chart({
       title: metricHeading(key),
-      unit: m.unit.trim(),
+      unit: m.unit === ': 1' ? 'contrast ratio, x : 1' : m.unit,
       tick: (v) => formatTick(key, v),
       groups: [
         { label: `A: ${cmp.a.label}`, mean: c.a.mean, low: c.a.low, high: c.a.high, points: cmp.a.readings.map((r) => r.values[key]).filter((v): v is number => v !== null) },
         { label: `B: ${cmp.b.label}`, mean: c.b.mean, low: c.b.low, high: c.b.high, points: cmp.b.readings.map((r) => r.values[key]).filter((v): v is number => v !== null) },
       ],
-      targets: targets.filter((t) => t.metric === key).map((t) => ({ value: t.value, label: `target ${t.comparator} ${formatLimit(key, t.value)}` })),
+      targets: targets.filter((t) => t.metric === key).map((t) => ({ value: t.value, label: `target ${t.comparator === '>=' ? '≥' : '≤'} ${formatLimit(key, t.value)}` })),
     });
   }
   w.heading('Readings');

@@ -163,14 +163,20 @@ export class ReportWriter {
       lo -= Math.abs(lo) * 0.1 || 0.5;
       hi += Math.abs(hi) * 0.1 || 0.5;
     }
-    const pad = (hi - lo) * 0.08;
-    // no negative axis for quantities that cannot be negative (ratios, fractions)
-    lo = lo >= 0 ? Math.max(0, lo - pad) : lo - pad;
-    hi += pad;
+    // round ticks (1, 2 or 5 × 10^k apart) that read as numbers; no negative axis for quantities
+    // that cannot be negative (ratios, fractions)
+    const raw = (hi - lo) / 4;
+    const mag = 10 ** Math.floor(Math.log10(raw));
+    const tickStep = ([1, 2, 5, 10].find((f) => f * mag >= raw) ?? 10) * mag;
+    const nonNegative = lo >= 0;
+    lo = Math.floor(lo / tickStep) * tickStep;
+    if (nonNegative) lo = Math.max(0, lo);
+    hi = Math.ceil(hi / tickStep) * tickStep;
+    const ticks: number[] = [];
+    for (let v = lo; v <= hi + tickStep / 2; v += tickStep) ticks.push(Number(v.toPrecision(12)));
     const y = (v: number) => bottom - ((v - lo) / (hi - lo)) * height;
     d.lineWidth(0.5).strokeColor(LINE);
-    for (let i = 0; i <= 4; i++) {
-      const v = lo + ((hi - lo) * i) / 4;
+    for (const v of ticks) {
       d.moveTo(left, y(v)).lineTo(right, y(v)).stroke();
       d.font(this.fr).fontSize(7).fillColor(MUTED).text(spec.tick ? spec.tick(v) : formatSig(v, 3), left - 42, y(v) - 3, { width: 38, align: 'right' });
     }
