@@ -9,7 +9,7 @@ import { gridCells, intersectRects } from '../rect';
 import { measureRects, totalsMean, totalsRgbMean, type RectRequest, type RectTotals } from '../region-pass';
 import type { CaptureResult, EngineWarning } from '../result';
 import type { Pattern, PhotoRole, Rect } from '../types';
-import { cached, idOf, type AnalysisMemo } from './memo';
+import { idOf, type AnalysisMemo } from './memo';
 import type { CapturePhoto, Normalised } from './normalise';
 
 /** The rectangles measured in each photo, by name. */
