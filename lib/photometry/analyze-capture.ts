@@ -196,7 +196,8 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
   const regions = regionsOf(screen, background, pattern);
   const totals = measureRegions(n, motions, regions, { ambientFollows: input.ambientFollows ?? false }, memo);
   const levels = contrastFigures(n, totals, pattern, warnings);
-  checkDisplayLight(levels.lOn, levels.lOff, displayLightError(a.diffSigma, screen, n.factor), warnings);
+  // a detected screen with no light cannot be (detection needs it); a marked one is kept and flagged
+  checkDisplayLight(levels.lOn, levels.lOff, displayLightError(a.diffSigma, screen, n.factor), warnings, a.screenSource === 'detected');
 
   progress('ghost', 0.6);
   const marked = input.ghostOffset === 'none' ? 'none' : input.ghostOffset ?? null;

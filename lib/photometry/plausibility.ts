@@ -20,14 +20,18 @@ export const WEAK_LIGHT_SE = 10;
 /** A ratio below 1 + this share is within reach of exposure and stray-light changes between the photos. */
 export const RATIO_NEAR_ONE = 0.02;
 
-/** Refuses a screen with no display light above the noise; flags a weak one and a ratio near 1. */
-export function checkDisplayLight(lOn: number, lOff: number, se: number, warnings: EngineWarning[]): void {
+/**
+ * A screen with no display light above the noise: refused when `refuse` (nothing else to show),
+ * else flagged (a marked screen: the reading is kept, with what to do). A weak one and a ratio near
+ * 1 are flagged.
+ */
+export function checkDisplayLight(lOn: number, lOff: number, se: number, warnings: EngineWarning[], refuse = true): void {
   const light = lOn - lOff;
   if (!(light > NO_LIGHT_SE * se)) {
-    throw new EngineInputError(
-      'no-display-light',
-      `the screen region is no brighter in the on photo than in the off photo (display light ${light.toExponential(2)} ± ${se.toExponential(2)}): the display looks off. Check that it shows the test pattern in the on photo and is dark in the off photo, that the screen region covers it, and that the exposure stayed fixed`,
-    );
+    const message = `the screen region is no brighter in the on photo than in the off photo (display light ${light.toExponential(2)} ± ${se.toExponential(2)}): the display looks off. Check that it shows the test pattern in the on photo and is dark in the off photo, that the screen region covers it, and that the exposure stayed fixed`;
+    if (refuse) throw new EngineInputError('no-display-light', message);
+    warnings.push({ code: 'display-off', message: `${message}; the figures below do not describe a display` });
+    return;
   }
   if (light <= WEAK_LIGHT_SE * se) {
     warnings.push({ code: 'low-signal', message: 'the screen is barely brighter in the on photo than in the off photo: raise the display level or the exposure, and check the screen region' });

@@ -19,6 +19,7 @@ export const WARNING_CODES = [
   'uniformity-invalid',
   'transmission-above-one',
   'both-clipped',
+  'display-off',
 ] as const;
 
 export type WarningCode = (typeof WARNING_CODES)[number];

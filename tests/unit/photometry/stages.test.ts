@@ -156,10 +156,13 @@ describe('stages of the analysis (docs/method.md §5)', () => {
     expect(Math.abs((marked.ghost?.ratio as number) / 0.05 - 1)).toBeLessThan(0.08);
   });
 
-  it('plausibility: a display that is off in the on photo is refused with what to do', () => {
+  it('plausibility: a display that is off in the on photo is refused, or flagged when the screen is marked', () => {
     const p = render({ ...BASE, displayOn: false });
     expect(() => analyzeCapture(inputOf(p))).toThrow(EngineInputError);
-    expect(() => analyzeCapture(inputOf(p, { screen: BASE.screen }))).toThrow(/display looks off/);
+    const marked = analyzeCapture(inputOf(p, { screen: BASE.screen }));
+    const off = marked.warnings.find((w) => w.code === 'display-off');
+    expect(off?.message).toMatch(/display looks off/);
+    expect(marked.ghost).toBeNull();
   });
 
   it('plausibility: transmission above 1 and cells without display light are flagged', () => {
