@@ -4,7 +4,7 @@ import type { ExposureTags, PhotoRaster } from '../photometry/types';
 import { readExposureTags } from './exif';
 import { refuseUnsupported } from './sniff';
 
-/** Largest photo accepted (PRODUCT.md §5.1). */
+/** Largest photo accepted (docs/method.md §5.1). */
 export const MAX_PIXELS = 100_000_000;
 
 // two decodes share the two cores better than one decode with a single thread

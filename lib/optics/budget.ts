@@ -5,7 +5,7 @@ import { type ChainElement, linearLight, throughChain, unpolarisedLight } from '
 
 /** Birdbath display efficiency η = R_bs·R_c·T_bs: reflect off the splitter, off the combiner, back through the splitter. */
 export function birdbathDisplayEfficiency(Rbs: number, Tbs: number, Rc: number): number {
-  // Source: birdbath optical budget, REFERENCES.md (common practice; values derived).
+  // Source: birdbath optical budget, docs/references.md (common practice; values derived).
   assertFraction('Rbs', Rbs);
   assertFraction('Tbs', Tbs);
   assertFraction('Rc', Rc);
@@ -14,7 +14,7 @@ export function birdbathDisplayEfficiency(Rbs: number, Tbs: number, Rc: number):
 
 /** Birdbath see-through transmission τ = T_c·T_bs: the world crosses the combiner, then the splitter. */
 export function birdbathSeeThrough(Tbs: number, Tc: number): number {
-  // Source: birdbath optical budget, REFERENCES.md (common practice; values derived).
+  // Source: birdbath optical budget, docs/references.md (common practice; values derived).
   assertFraction('Tbs', Tbs);
   assertFraction('Tc', Tc);
   return Tc * Tbs;
@@ -75,7 +75,7 @@ export function stackBudget(stack: Stack): StackBudget {
   if (layout.kind === 'single-combiner') {
     const r = els[layout.reflectorIndex];
     if (r?.kind !== 'plate-beam-splitter' && r?.kind !== 'combiner') throw new RangeError('No reflector found');
-    // Source: single combiner, η = R and τ = T (REFERENCES.md budget notes, common practice).
+    // Source: single combiner, η = R and τ = T (docs/references.md budget notes, common practice).
     etaReflectors = r.R;
     worldChain.push({ kind: 'neutral', T: r.T });
     els.forEach((e, i) => {

@@ -5,7 +5,7 @@ import { assertFinite, assertFraction, assertPositive } from './assert';
  * over background, as seen through the stack.
  */
 export function predictedContrastRatio(eta: number, displayLuminance: number, tau: number, backgroundLuminance: number): number {
-  // Source: see-through contrast ratio (L_display + L_background)/L_background, REFERENCES.md (common practice).
+  // Source: see-through contrast ratio (L_display + L_background)/L_background, docs/references.md (common practice).
   assertFraction('eta', eta);
   assertFinite('displayLuminance', displayLuminance);
   if (displayLuminance < 0) throw new RangeError(`displayLuminance must be at least 0 (got ${displayLuminance})`);

@@ -29,7 +29,7 @@ export interface GhostRatio {
  * reflects once off the back; higher orders are smaller by a further R_f·R_b).
  */
 export function ghostToPrimary(Rf: number, Tf: number, Rb: number): number {
-  // Source: incoherent first-order plate ghost, REFERENCES.md "Plate beam splitter" (derived).
+  // Source: incoherent first-order plate ghost, docs/references.md "Plate beam splitter" (derived).
   assertFraction('Rf', Rf);
   assertFraction('Tf', Tf);
   assertFraction('Rb', Rb);

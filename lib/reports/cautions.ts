@@ -1,4 +1,4 @@
-/** The cautions every report carries (PRODUCT.md §10), in the product's own words. */
+/** The cautions every report carries (docs/method.md §10), in the product's own words. */
 export const REPORT_CAUTIONS = [
   'Never point the optics, a magnifier or a camera lens at the sun: lenses concentrate sunlight, burn skin and displays, and can permanently damage eyes.',
   'Bright backlights and laser-based displays can exceed safe exposure; follow the light source’s safety class and its rules.',

@@ -1,7 +1,7 @@
 import type { TargetCondition } from './conditions';
 import type { MetricKey } from './metrics';
 
-/** How sure the figure behind a default is (the words REFERENCES.md uses). */
+/** How sure the figure behind a default is (the words docs/references.md uses). */
 export type SourceStatus = 'published' | 'derived' | 'common practice' | 'from memory';
 
 export type DefaultTarget = {

@@ -7,7 +7,7 @@ import { hashPassword } from '../../lib/auth/password';
 import { PERMISSIONS, ROLE_PERMISSIONS, ROLES, type Permission, type Role } from '../../lib/auth/permissions';
 import { apiAs, baseURL } from './helpers';
 
-// The authorization matrix. The expectation below is written out from PRODUCT.md §2 on its own,
+// The authorization matrix. The expectation below is written out from docs/method.md §2 on its own,
 // not read from lib/auth/permissions.ts, so changing a single entry of the app's table makes
 // this file fail: the table check at once, and the HTTP calls of every route and server action
 // that depend on that entry.
@@ -194,7 +194,7 @@ test.afterAll(async () => {
   await closeDb();
 });
 
-test('the app’s permission table is exactly the one PRODUCT.md §2 describes', () => {
+test('the app’s permission table is exactly the one docs/method.md §2 describes', () => {
   for (const role of ROLES) expect([...ROLE_PERMISSIONS[role]].sort(), role).toEqual([...EXPECTED[role]].sort());
 });
 

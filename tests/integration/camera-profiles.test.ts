@@ -89,7 +89,7 @@ describe('brackets at intake and in the engine', () => {
     expect(Math.abs((result.ambientContrastRatio as number) / truth.ambientContrastRatio - 1)).toBeLessThan(0.02);
     expect(result.brackets?.on?.count).toBe(3);
     expect(result.absoluteLuminance?.kind).toBe('calibrated');
-    // L = k·Y/E on the reference exposure (PRODUCT.md §5.4)
+    // L = k·Y/E on the reference exposure (docs/method.md §5.4)
     expect(Math.abs((result.absoluteLuminance?.on as number) / ((640 * truth.luminance.on) / 0.015625) - 1)).toBeLessThan(0.02);
   });
 });

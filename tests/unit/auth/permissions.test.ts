@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { can, PERMISSIONS, ROLE_PERMISSIONS, ROLES } from '../../../lib/auth/permissions';
 
 describe('the permission table', () => {
-  it('gives each role everything the role below it has (PRODUCT.md §2)', () => {
+  it('gives each role everything the role below it has (docs/method.md §2)', () => {
     const order = ['viewer', 'tester', 'lead', 'admin'] as const;
     for (let i = 1; i < order.length; i++) {
       for (const p of ROLE_PERMISSIONS[order[i - 1]!]) expect(can(order[i]!, p), `${order[i]} ${p}`).toBe(true);

@@ -13,8 +13,8 @@ const splitter = (R: number, T: number) =>
   ({ kind: 'plate-beam-splitter', R, T, angleDeg: 45, n: 1.5, back: { kind: 'uncoated' } }) as const;
 const combiner = (R: number, T: number) => ({ kind: 'combiner', shape: 'curved', R, T }) as const;
 
-// Optical budget of a birdbath (REFERENCES.md: common practice; values derived).
-describe('birdbath budget (REFERENCES.md optical budget of a birdbath; common practice, values derived)', () => {
+// Optical budget of a birdbath (docs/references.md: common practice; values derived).
+describe('birdbath budget (docs/references.md optical budget of a birdbath; common practice, values derived)', () => {
   const cases = [
     { Rbs: 0.5, Rc: 0.5, eta: 0.125, tau: 0.25 },
     { Rbs: 0.5, Rc: 0.7, eta: 0.175, tau: 0.15 },
@@ -83,8 +83,8 @@ describe('single combiner budget', () => {
 });
 
 // Polarisers in a stack: an ideal polariser passes half of unpolarised light, Malus's law for
-// polarised light (published: REFERENCES.md Polarisers).
-describe('polarisers in a stack (published: Malus\'s law; REFERENCES.md Polarisers)', () => {
+// polarised light (published: docs/references.md Polarisers).
+describe('polarisers in a stack (published: Malus\'s law; docs/references.md Polarisers)', () => {
   const polarised = (angleDeg: number) => ({ kind: 'display', luminance: 1000, polarisation: { kind: 'linear', angleDeg } }) as const;
   it('an ideal eye-side polariser halves the unpolarised world and passes an aligned polarised display', () => {
     const b = stackBudget({
@@ -125,8 +125,8 @@ describe('polarisers in a stack (published: Malus\'s law; REFERENCES.md Polarise
   });
 });
 
-// Reflection parity (REFERENCES.md: common practice): two reflections keep handedness, an odd count mirrors.
-describe('image handedness from reflection parity (REFERENCES.md birdbath notes; common practice)', () => {
+// Reflection parity (docs/references.md: common practice): two reflections keep handedness, an odd count mirrors.
+describe('image handedness from reflection parity (docs/references.md birdbath notes; common practice)', () => {
   it('keeps the image after an even number of reflections and mirrors it after an odd number', () => {
     expect(handednessFromReflections(0)).toBe('kept');
     expect(handednessFromReflections(1)).toBe('mirrored');

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { contrastCurve, logGrid, predictedContrastRatio, requiredDisplayAtEye } from '@/lib/optics';
 
-// See-through contrast ratio (REFERENCES.md Contrast definitions; common practice in HUD work).
-describe('predicted ambient contrast ratio (REFERENCES.md contrast definitions; common practice, values derived)', () => {
+// See-through contrast ratio (docs/references.md Contrast definitions; common practice in HUD work).
+describe('predicted ambient contrast ratio (docs/references.md contrast definitions; common practice, values derived)', () => {
   it('gives CR 1.2 for 200 cd/m² of display over 1000 cd/m² of background (L_on 1200 / L_off 1000)', () => {
     expect(predictedContrastRatio(1, 200, 1, 1000)).toBeCloseTo(1.2, 12);
     expect(predictedContrastRatio(0.2, 1000, 0.5, 2000)).toBeCloseTo(1.2, 12);

@@ -8,8 +8,8 @@ import {
   normalIncidenceReflectance,
 } from '@/lib/optics';
 
-// Fresnel equations (published: E. Hecht, Optics; values derived) — REFERENCES.md Fresnel table.
-describe('Fresnel reflectance against the REFERENCES.md table (Fresnel equations, published: E. Hecht, Optics; values derived)', () => {
+// Fresnel equations (published: E. Hecht, Optics; values derived) — docs/references.md Fresnel table.
+describe('Fresnel reflectance against the docs/references.md table (Fresnel equations, published: E. Hecht, Optics; values derived)', () => {
   const rows = [
     { n: 1.5, normal: 0.04, rs45: 0.092013, rp45: 0.008466, brewster: 56.3099 },
     { n: 1.52, normal: 0.04258, rs45: 0.096733, rp45: 0.009357, brewster: 56.6593 },

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { fresnelReflectance, ghostToPrimary, plateGhost, plateSums, uncoatedPlate } from '@/lib/optics';
 
 // Fresnel equations (published: E. Hecht, Optics; values derived) with the incoherent plate sum.
-describe('uncoated thick plate (REFERENCES.md Fresnel table; published: E. Hecht, Optics; values derived)', () => {
+describe('uncoated thick plate (docs/references.md Fresnel table; published: E. Hecht, Optics; values derived)', () => {
   it('reflects 0.076923 at normal incidence for n = 1.5 and 0.081682 for n = 1.52', () => {
     expect(uncoatedPlate(0, 1.5).unpolarised.R).toBeCloseTo(0.076923, 6);
     expect(uncoatedPlate(0, 1.52).unpolarised.R).toBeCloseTo(0.081682, 6);
@@ -20,7 +20,7 @@ describe('uncoated thick plate (REFERENCES.md Fresnel table; published: E. Hecht
   it('averages per polarisation after the plate formula: 0.092656 (n 1.5) and 0.097472 (n 1.52), not the wrong 0.0957', () => {
     expect(uncoatedPlate(45, 1.5).unpolarised.R).toBeCloseTo(0.092656, 6);
     expect(uncoatedPlate(45, 1.52).unpolarised.R).toBeCloseTo(0.097472, 6);
-    // The wrong order (average the faces first), which REFERENCES.md warns gives 0.0957 (n = 1.5).
+    // The wrong order (average the faces first), which docs/references.md warns gives 0.0957 (n = 1.5).
     const f = fresnelReflectance(45, 1.5).unpolarised;
     const wrong = plateSums(f, 1 - f, f, 1 - f).R;
     expect(wrong).toBeCloseTo(0.0957, 4);
@@ -45,8 +45,8 @@ describe('uncoated thick plate (REFERENCES.md Fresnel table; published: E. Hecht
   });
 });
 
-// Plate beam splitter ghost T_f²·R_b/R_f — REFERENCES.md (derived from the Fresnel equations, E. Hecht, Optics).
-describe('plate beam splitter ghost-to-primary ratio (REFERENCES.md plate ghost figures; derived)', () => {
+// Plate beam splitter ghost T_f²·R_b/R_f — docs/references.md (derived from the Fresnel equations, E. Hecht, Optics).
+describe('plate beam splitter ghost-to-primary ratio (docs/references.md plate ghost figures; derived)', () => {
   it('is 2.00% for a 50/50 front, n = 1.5, normal incidence, bare back', () => {
     const g = plateGhost({ R: 0.5, T: 0.5, angleDeg: 0, n: 1.5, back: { kind: 'uncoated' } });
     expect(g.unpolarised).toBeCloseTo(0.02, 6);

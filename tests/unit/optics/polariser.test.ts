@@ -14,8 +14,8 @@ import {
   unpolarisedLight,
 } from '@/lib/optics';
 
-// Malus's law (published; REFERENCES.md Polarisers): θ = 0/30/45/60/90° → 1.000/0.750/0.500/0.250/0.
-describe("Malus's law (published: Malus's law, REFERENCES.md Polarisers)", () => {
+// Malus's law (published; docs/references.md Polarisers): θ = 0/30/45/60/90° → 1.000/0.750/0.500/0.250/0.
+describe("Malus's law (published: Malus's law, docs/references.md Polarisers)", () => {
   const table: [number, number][] = [
     [0, 1],
     [30, 0.75],
@@ -34,7 +34,7 @@ describe("Malus's law (published: Malus's law, REFERENCES.md Polarisers)", () =>
   });
 });
 
-describe('ideal polarisers on unpolarised light (published: REFERENCES.md Polarisers)', () => {
+describe('ideal polarisers on unpolarised light (published: docs/references.md Polarisers)', () => {
   it('an ideal polariser passes 50% of unpolarised light', () => {
     expect(chainTransmittance(unpolarisedLight(), [{ kind: 'polariser', T1: 1, T2: 0, axisDeg: 17 }])).toBeCloseTo(0.5, 12);
   });
@@ -70,7 +70,7 @@ describe('ideal polarisers on unpolarised light (published: REFERENCES.md Polari
   });
 });
 
-// Polariser definitions after the Handbook of Optics (published; REFERENCES.md Polarisers).
+// Polariser definitions after the Handbook of Optics (published; docs/references.md Polarisers).
 describe('principal transmittances T1, T2 (published: polariser definitions after the Handbook of Optics)', () => {
   it('single transmittance (T1 + T2)/2, degree of polarisation (T1 − T2)/(T1 + T2), extinction T2/T1', () => {
     expect(polariserSingleTransmittance(0.86, 0.0004)).toBeCloseTo(0.4302, 12);

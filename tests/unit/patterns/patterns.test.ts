@@ -147,7 +147,7 @@ describe('grey steps (equal linear luminance; sRGB coding per IEC 61966-2-1:1999
     for (const s of GREY_STEPS) expect(Math.abs(s.linear - s.target)).toBeLessThan(0.005);
     for (let i = 1; i < 11; i++) expect(GREY_STEPS[i]!.code).toBeGreaterThan(GREY_STEPS[i - 1]!.code);
   });
-  it('encodes 50% linear as code 188, whose decoded value is 0.5028864580 (REFERENCES.md sRGB table; derived)', () => {
+  it('encodes 50% linear as code 188, whose decoded value is 0.5028864580 (docs/references.md sRGB table; derived)', () => {
     const half = GREY_STEPS[5]!;
     expect(half.code).toBe(188);
     expect(half.linear).toBeCloseTo(0.502886458, 9);

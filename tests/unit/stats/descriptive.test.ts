@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { mean, meanConfidenceInterval, standardDeviation, summarise, summaryFromMoments, variance } from '@/lib/stats';
 
-// NIST StRD univariate datasets (published, public domain) — REFERENCES.md Numerical accuracy.
+// NIST StRD univariate datasets (published, public domain) — docs/references.md Numerical accuracy.
 describe('mean and SD against NIST StRD (published: NIST StRD univariate NumAcc1, NumAcc4)', () => {
   it('NumAcc1 {10000001, 10000003, 10000002}: mean 10000002, SD 1', () => {
     const x = [10000001, 10000003, 10000002];
@@ -58,7 +58,7 @@ describe('descriptive edge cases', () => {
   });
 });
 
-// Derived CI (REFERENCES.md Statistics, NIST/SEMATECH e-Handbook; derived): 100, 102, 101 → 101 ± 2.484138.
+// Derived CI (docs/references.md Statistics, NIST/SEMATECH e-Handbook; derived): 100, 102, 101 → 101 ± 2.484138.
 describe('95% confidence interval with Student t (NIST/SEMATECH e-Handbook; derived)', () => {
   it('100, 102, 101 → mean 101 ± 2.484138', () => {
     const s = summarise([100, 102, 101]);

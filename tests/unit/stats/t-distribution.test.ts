@@ -2,7 +2,7 @@ import jStat from 'jstat';
 import { describe, expect, it } from 'vitest';
 import { studentTCdf, studentTQuantile, twoSidedPValue } from '@/lib/stats';
 
-// Student t, 95% two-sided quantiles (published: NIST/SEMATECH e-Handbook §1.3.6.7.2, via REFERENCES.md).
+// Student t, 95% two-sided quantiles (published: NIST/SEMATECH e-Handbook §1.3.6.7.2, via docs/references.md).
 describe('Student t 97.5% quantiles (published: NIST/SEMATECH e-Handbook t table)', () => {
   const table: [number, number][] = [
     [1, 12.706205],

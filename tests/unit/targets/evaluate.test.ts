@@ -48,7 +48,7 @@ describe('metric catalogue and defaults', () => {
   });
 
   it('labels each default with its status word and never calls it a requirement', () => {
-    // REFERENCES.md, contrast section: 1.2:1 against 10,000 fL is "from memory"; best legibility near
+    // docs/references.md, contrast section: 1.2:1 against 10,000 fL is "from memory"; best legibility near
     // 7:1 is "published" (Wan & Tsimhoni 2021). Uniformity ≥ 75% min/max: "published" (panel data sheets).
     const acr = DEFAULT_TARGETS.find((d) => d.id === 'acr-bright-sky');
     expect(acr).toMatchObject({ metric: 'ambientContrastRatio', comparator: '>=', value: 1.2, status: 'from memory' });
