@@ -3,7 +3,7 @@ import { measureRects, totalsMean } from './region-pass';
 import { METER_K, METERED_TONE } from './meter';
 import type { ExposureTags, PhotoRaster, Rect } from './types';
 
-/** Share of clipped pixels in the patch above which a calibration is refused (PRODUCT.md §5.5). */
+/** Share of clipped pixels in the patch above which a calibration is refused (docs/method.md §5.5). */
 export const CALIBRATION_MAX_CLIPPED = 0.001;
 /** Patch level (linear Y) below which read noise and quantisation dominate. */
 export const CALIBRATION_MIN_LEVEL = 0.01;
@@ -16,7 +16,7 @@ export function calibrationFactor(meterCdm2: number, meanY: number, exposure: nu
   for (const [name, v] of [['meter reading', meterCdm2], ['patch level', meanY], ['exposure', exposure]] as const) {
     if (!Number.isFinite(v) || v <= 0) throw new RangeError(`${name} must be a positive number, got ${v}`);
   }
-  // PRODUCT.md §5.4: L = k·Y·N²/(t·S)
+  // docs/method.md §5.4: L = k·Y·N²/(t·S)
   return (meterCdm2 * exposure) / meanY;
 }
 

@@ -112,7 +112,7 @@ export function readGreySteps(raster: PhotoRaster, area: Rect, steps: number): G
   const totals = measureRects(raster, cells.map((rect) => ({ rect })), { dx: 0, dy: 0 }, 1);
   return {
     levels: totals.map(totalsMean),
-    // more than 0.1% of a cell clipped spoils its mean (PRODUCT.md §5.5)
+    // more than 0.1% of a cell clipped spoils its mean (docs/method.md §5.5)
     clipped: totals.map((t) => t.n > 0 && t.clipped / t.n > 0.001),
     cells,
   };

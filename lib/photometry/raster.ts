@@ -22,7 +22,7 @@ export interface LuminanceTables {
   b: Float64Array;
   /** Linear value per code, for colour means. */
   linear: Float64Array;
-  /** Lowest code counted as clipped: 98% of full scale (PRODUCT.md §5.5). */
+  /** Lowest code counted as clipped: 98% of full scale (docs/method.md §5.5). */
   clipCode: number;
 }
 

@@ -74,7 +74,7 @@ export interface GhostAndUniformity {
   uniformityCells: number[] | null;
 }
 
-/** One reading of the engine: the JSON shape of PRODUCT.md §5 plus a few extra keys. */
+/** One reading of the engine: the JSON shape of docs/method.md §5 plus a few extra keys. */
 export interface CaptureResult {
   engineVersion: string;
   image: { width: number; height: number };

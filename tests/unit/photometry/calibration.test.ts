@@ -29,7 +29,7 @@ describe('meter equation constants — ISO 2720:1974 (published; values derived)
   });
 });
 
-describe('camera calibration: k = L·E/Y (PRODUCT.md §5.4)', () => {
+describe('camera calibration: k = L·E/Y (docs/method.md §5.4)', () => {
   it('inverts the conversion exactly', () => {
     const k = calibrationFactor(250, 0.4, 0.015625);
     expect(absoluteLuminance(k, 0.4, 0.015625)).toBeCloseTo(250, 12);

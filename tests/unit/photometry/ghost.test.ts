@@ -21,7 +21,7 @@ function scene(w: number, h: number, screen: { x: number; y: number; w: number; 
   return { data: d, width: w, height: h };
 }
 
-describe('ghost ratio: B = g·S1 − g²·S2 (PRODUCT.md §5.8)', () => {
+describe('ghost ratio: B = g·S1 − g²·S2 (docs/method.md §5.8)', () => {
   it('recovers g to third order on a uniform screen', () => {
     const s = { x: 60, y: 50, w: 120, h: 80 };
     for (const g of [0.01, 0.05, 0.15]) {

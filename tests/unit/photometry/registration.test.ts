@@ -26,7 +26,7 @@ function texture(w: number, h: number, seed: number, shift = { dx: 0, dy: 0 }): 
   return { data, width: w, height: h, channels: 3, bitDepth: 8, encoding: 'srgb' };
 }
 
-describe('phase correlation and registration (PRODUCT.md §5.6)', () => {
+describe('phase correlation and registration (docs/method.md §5.6)', () => {
   it('the 2-D FFT round-trips', () => {
     const a = new Float64Array(2 * 16 * 8).map((_, i) => (i % 2 === 0 ? Math.sin(i) : 0));
     const b = a.slice();
@@ -64,7 +64,7 @@ describe('phase correlation and registration (PRODUCT.md §5.6)', () => {
   });
 });
 
-describe('screen detection (PRODUCT.md §5.7)', () => {
+describe('screen detection (docs/method.md §5.7)', () => {
   it('boxes the bright display and ignores a faint ghost and specks', () => {
     const w = 200;
     const h = 150;
