@@ -4,7 +4,7 @@ import { absoluteLuminance, analyzeCapture, calibrateFromPatch, calibrationFacto
 import { renderCapture, type ExposureSetting } from '../../fixtures/capture-generator';
 
 describe('meter equation constants — ISO 2720:1974 (published; values derived)', () => {
-  // the three check values of REFERENCES.md are tested in exposure.test.ts; these extend them
+  // the three check values of docs/references.md are tested in exposure.test.ts; these extend them
   it('uses K = 12.5, inside the 10.6–13.4 the standard allows', () => {
     expect(METER_K).toBe(12.5);
     expect(METER_K).toBeGreaterThanOrEqual(10.6);

@@ -34,7 +34,7 @@ describe('CIEDE2000 — Sharma, Wu & Dalal 2005, Table 1 (published dataset)', (
     expect(deltaE2000(c, { l: 45, a: 0, b: 3 })).toBeCloseTo(deltaE2000({ l: 45, a: 0, b: 3 }, c), 12);
   });
 
-  it('pair 14 (exactly 180° apart) gives the table value 4.8045 or the other accepted 4.7461 (REFERENCES.md note)', () => {
+  it('pair 14 (exactly 180° apart) gives the table value 4.8045 or the other accepted 4.7461 (docs/references.md note)', () => {
     const d = deltaE2000({ l: 50, a: -0.001, b: 2.49 }, { l: 50, a: 0.0011, b: -2.49 });
     expect(Math.min(Math.abs(d - 4.8045), Math.abs(d - 4.7461))).toBeLessThan(1e-4);
   });
