@@ -13,9 +13,9 @@ import { projectAnswer } from '../cache/project-answer';
 import type { CachedBody } from '../cache/read-cache';
 import { AppError, notFound } from '../errors';
 import { JSON_BODY_LIMIT, readBodyLimited } from '../security/body-limit';
+import { readUploadBody, uploadFileName } from '../security/upload-body';
 import { assertSameOrigin } from '../security/origin';
 import { consume } from '../security/rate-limit';
-import { MAX_UPLOAD_BYTES } from '../schemas/upload';
 import { IDEMPOTENCY_TTL_HOURS, V1_ROUTES, type V1Route, type V1RouteId } from './routes';
 
 type Routes = typeof V1_ROUTES;
@@ -58,18 +58,6 @@ function searchObject(url: URL): Record<string, string> {
   return out;
 }
 
-function fileName(req: Request): string {
-  const raw = req.headers.get('x-file-name') ?? '';
-  let name = raw;
-  try {
-    name = decodeURIComponent(raw);
-  } catch {
-    // keep the raw header text
-  }
-  // a display name only: it never becomes a storage key or a path
-  return name.replace(/[\u0000-\u001f\u007f/\\]/g, '_').trim().slice(0, 200) || 'photo';
-}
-
 async function readBody(req: Request, route: V1Route): Promise<Uint8Array> {
   if (!route.body) return new Uint8Array(0);
   if (route.body.kind === 'json') {
@@ -78,18 +66,7 @@ async function readBody(req: Request, route: V1Route): Promise<Uint8Array> {
       throw new AppError(413, 'The request body arrived incomplete: the connection ended before it was whole', 'incomplete');
     });
   }
-  const name = fileName(req);
-  const bytes = await readBodyLimited(req, MAX_UPLOAD_BYTES, name).catch((e: unknown) => {
-    // the client went away part-way (a cut connection): nothing was stored
-    if (e instanceof AppError) throw e;
-    throw new AppError(413, `${name} arrived incomplete: the connection ended before the whole file came`, 'incomplete');
-  });
-  const declared = Number(req.headers.get('content-length') ?? NaN);
-  // fewer bytes than announced: the transfer (or a proxy's limit) cut the file short
-  if (Number.isFinite(declared) && bytes.byteLength < declared) {
-    throw new AppError(413, `${name} arrived incomplete (${bytes.byteLength} of ${declared} bytes): send it again`, 'incomplete');
-  }
-  return bytes;
+  return readUploadBody(req, uploadFileName(req));
 }
 
 function parseJson(bytes: Uint8Array): unknown {

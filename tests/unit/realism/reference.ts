@@ -7,6 +7,7 @@
 import sharp from 'sharp';
 import { differenceCiede2000 } from 'culori';
 import type { Rect } from '../../../lib/photometry/types';
+import { cells } from '../../fixtures/capture-generator';
 
 export interface LinearPhoto {
   width: number;
@@ -79,29 +80,13 @@ export function meanOver(s: Sampler, r: Rect): number {
   return sum / (r.w * r.h);
 }
 
-export function gridCellsOf(r: Rect, n: number, keep: number): Rect[] {
-  const out: Rect[] = [];
-  for (let j = 0; j < n; j++) {
-    for (let i = 0; i < n; i++) {
-      const x0 = r.x + Math.round((i * r.w) / n);
-      const x1 = r.x + Math.round(((i + 1) * r.w) / n);
-      const y0 = r.y + Math.round((j * r.h) / n);
-      const y1 = r.y + Math.round(((j + 1) * r.h) / n);
-      const mx = Math.round(((x1 - x0) * (1 - keep)) / 2);
-      const my = Math.round(((y1 - y0) * (1 - keep)) / 2);
-      out.push({ x: x0 + mx, y: y0 + my, w: x1 - x0 - 2 * mx, h: y1 - y0 - 2 * my });
-    }
-  }
-  return out;
-}
-
 export function uniformityOf(d: Sampler, screen: Rect): number {
-  const m = gridCellsOf(screen, 3, 1).map((c) => meanOver(d, c));
+  const m = cells(screen, 3, 1).map((c) => meanOver(d, c));
   return Math.min(...m) / Math.max(...m);
 }
 
 export function checkerboardOf(on: Sampler, screen: Rect): { ansi: number; michelson: number } {
-  const m = gridCellsOf(screen, 4, 0.5).map((c) => meanOver(on, c));
+  const m = cells(screen, 4, 0.5).map((c) => meanOver(on, c));
   const even = m.filter((_, k) => ((k % 4) + Math.floor(k / 4)) % 2 === 0).reduce((a, b) => a + b, 0) / 8;
   const odd = m.filter((_, k) => ((k % 4) + Math.floor(k / 4)) % 2 === 1).reduce((a, b) => a + b, 0) / 8;
   const lw = Math.max(even, odd);
