@@ -6,7 +6,7 @@ export REDIS_URL="redis://:${REDIS_PASSWORD}@127.0.0.1:${REDIS_PORT}"
 export NEXTAUTH_URL="${NEXTAUTH_URL:-http://localhost:${PORT}}"
 export STORAGE_DIR="${STORAGE_DIR:-$DATA_DIR/storage}"
 export NEXT_TELEMETRY_DISABLED=1
-# the local mail catcher is a fake for the demo and tests: off unless asked for (npm start and
+# the local mail catcher is a fake for the demo and tests: off unless asked for (npm run start:demo-mail and
 # npm test ask; a test environment, VEILMETER_TEST=1, has it on unless told otherwise)
 if [ "${VEILMETER_TEST:-}" = 1 ]; then export MAIL_CATCHER="${MAIL_CATCHER:-1}"; else export MAIL_CATCHER="${MAIL_CATCHER:-0}"; fi
 export SMTP_PORT

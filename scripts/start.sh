@@ -35,7 +35,7 @@ PGPORT=$PGPORT
 REDIS_PORT=$REDIS_PORT
 EOT
 
-# The mail catcher only when asked for (MAIL_CATCHER=1, which `npm start` sets for the demo):
+# The mail catcher only when asked for (MAIL_CATCHER=1, which `npm run start:demo-mail` sets):
 # a production start sends mail through the SMTP relay of SMTP_HOST instead.
 if [ "$MAIL_CATCHER" = 1 ]; then
   mail_start "$RUN"
