@@ -127,13 +127,14 @@ describe('the local inbox', () => {
     expect(own).not.toContain('strangers-own-mail');
   });
 
-  it('is off unless asked for: the scripts default to a real relay, npm start and npm test ask for the catcher', () => {
+  it('is off unless asked for: the scripts and a plain npm start default to a real relay; the demo-mail start and npm test ask for the catcher', () => {
     const base = { NODE_ENV: 'production' as const, PATH: process.env.PATH ?? '', DATA_DIR: '/x', PORT: '1', PGPORT: '1', REDIS_PORT: '1', PGDATABASE: 'x', PGPASSWORD: 'p', REDIS_PASSWORD: 'p' };
     const catcher = (env: Record<string, string>) => execFileSync('bash', ['-c', '. scripts/env.sh; printf %s "$MAIL_CATCHER"'], { env: { ...base, ...env } }).toString();
     expect(catcher({})).toBe('0');
     expect(catcher({ MAIL_CATCHER: '1' })).toBe('1');
     const pkg = JSON.parse(readFileSync('package.json', 'utf8')) as { scripts: Record<string, string> };
-    expect(pkg.scripts.start).toMatch(/MAIL_CATCHER=1 /);
+    expect(pkg.scripts.start).not.toMatch(/MAIL_CATCHER/);
+    expect(pkg.scripts['start:demo-mail']).toMatch(/^MAIL_CATCHER=1 bash scripts\/start\.sh$/);
     expect(readFileSync('scripts/test.sh', 'utf8')).toMatch(/export MAIL_CATCHER=1/);
     expect(readFileSync('scripts/start.sh', 'utf8')).toMatch(/if \[ "\$MAIL_CATCHER" = 1 \]; then\n\s+mail_start/);
   });
