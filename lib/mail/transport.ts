@@ -23,6 +23,11 @@ export function transportOptions(env: Env = getEnv()) {
   };
 }
 
+/** Whether mail can go anywhere: a relay is set or the local catcher was asked for. */
+export function mailConfigured(env: Env = getEnv()): boolean {
+  return transportOptions(env) !== null;
+}
+
 function transport(): Transporter {
   if (!g.__veilmeterMail) {
     const options = transportOptions();

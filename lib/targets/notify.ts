@@ -2,7 +2,7 @@ import { getDb } from '../../db/index';
 import { checkRevisionTargets, listLeadEmails, recordTargetState } from '../../db/queries/targets';
 import { getEnv } from '../env';
 import { targetFailedMail } from '../mail/templates';
-import { sendMail } from '../mail/transport';
+import { mailConfigured, sendMail } from '../mail/transport';
 import { formatLimit, formatMetricValue } from '../format';
 import { describeCondition } from './conditions';
 import { comparatorWords, variantName, type TargetCheck } from './evaluate';
@@ -29,7 +29,8 @@ export async function notifyTargetFailures(labId: string, revisionId: string): P
     const changed = await recordTargetState(labId, c.target.id, revisionId, failing, c.variant ?? '');
     if (changed && failing) newlyFailing.push(c);
   }
-  if (newlyFailing.length === 0) return { newlyFailing, mailed: [] };
+  // without a relay (a plain npm start) the failing state shows on the pages and nothing is mailed
+  if (newlyFailing.length === 0 || !mailConfigured()) return { newlyFailing, mailed: [] };
   const leads = await listLeadEmails(labId);
   const link = `${getEnv().NEXTAUTH_URL.replace(/\/$/, '')}/projects/${rev.project_id}/revisions/${revisionId}`;
   const failures = newlyFailing.map((c) => ({
