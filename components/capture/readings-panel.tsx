@@ -4,12 +4,14 @@ import { Notice } from '@/components/ui/panel';
 import type { AnalysisWithReading } from '@/db/queries/analyses';
 import type { Reading } from '@/db/queries/readings';
 import type { WarningCode } from '@/lib/photometry/result';
+import { formatLuminance, formatPercent, formatRatio } from '@/lib/format/quantities';
 
 type Metric = { key: string; label: string; value: string; unit: string; definition: string };
 
 const f = (v: number | null | undefined, digits = 3) => (typeof v === 'number' && Number.isFinite(v) ? v.toFixed(digits) : '—');
 const pct = (v: number | null | undefined, digits = 2) => (typeof v === 'number' && Number.isFinite(v) ? (v * 100).toFixed(digits) : '—');
 
+// shifts and offsets to 0.1 px, as the engine resolves them
 const fmt1 = (v: number) => (Number.isInteger(v) ? String(v) : v.toFixed(1));
 
 // What to do about each warning; a code this panel does not know yet shows the engine's message alone.
@@ -37,13 +39,13 @@ function metrics(r: Reading): Metric[] {
   const res = r.result;
   const abs = res.absoluteLuminance;
   const out: Metric[] = [
-    { key: 'acr', label: 'Ambient contrast ratio', value: f(res.ambientContrastRatio), unit: ': 1', definition: 'L on / L off over the screen: (display + background) / background.' },
+    { key: 'acr', label: 'Ambient contrast ratio', value: formatRatio(res.ambientContrastRatio), unit: '', definition: 'L on / L off over the screen: (display + background) / background.' },
     { key: 'michelson', label: 'Michelson contrast', value: f(res.michelson, 4), unit: '', definition: res.pattern === 'checkerboard' ? '(Lw − Lb)/(Lw + Lb) of the checkerboard cells.' : '(L on − L off)/(L on + L off) over the screen.' },
-    { key: 'ansi', label: 'Checkerboard contrast', value: f(res.ansiContrast, 2), unit: ': 1', definition: 'Mean of 8 white cells / mean of 8 black cells, each over its central half (4 × 4 pattern only).' },
+    { key: 'ansi', label: 'Checkerboard contrast', value: formatRatio(res.ansiContrast), unit: '', definition: 'Mean of 8 white cells / mean of 8 black cells, each over its central half (4 × 4 pattern only).' },
     { key: 'uniformity', label: 'Uniformity', value: f(res.uniformity), unit: 'min/max', definition: 'Dimmest over brightest of the 3 × 3 cells of display light; 1.000 is perfect (full-white pattern).' },
-    { key: 'ghost', label: 'Ghost ratio', value: res.ghost ? pct(res.ghost.ratio) : 'none found', unit: res.ghost ? `% at (${res.ghost.dx}, ${res.ghost.dy}) px` : '', definition: 'Ghost luminance over the primary image, second-order corrected; offset is ghost minus screen position.' },
-    { key: 'transmission', label: 'See-through transmission', value: pct(res.transmission, 1), unit: '%', definition: 'L off / L ambient over the background region: how much of the world comes through.' },
-    { key: 'tint', label: 'Tint ΔE00', value: res.tint ? f(res.tint.deltaE00, 2) : '—', unit: res.tint ? `Δxy (${f(res.tint.dx, 4)}, ${f(res.tint.dy, 4)})` : '', definition: 'Colour shift of the world through the optics at equal luminance (CIEDE2000), and the chromaticity shift.' },
+    { key: 'ghost', label: 'Ghost ratio', value: res.ghost ? formatPercent(res.ghost.ratio) : 'none found', unit: res.ghost ? `at (${fmt1(res.ghost.dx)}, ${fmt1(res.ghost.dy)}) px` : '', definition: 'Ghost luminance over the primary image, second-order corrected; offset is ghost minus screen position.' },
+    { key: 'transmission', label: 'See-through transmission', value: formatPercent(res.transmission), unit: '', definition: 'L off / L ambient over the background region: how much of the world comes through.' },
+    { key: 'tint', label: 'See-through tint (ΔE00)', value: res.tint ? f(res.tint.deltaE00, 2) : '—', unit: res.tint ? `Δxy (${f(res.tint.dx, 4)}, ${f(res.tint.dy, 4)})` : '', definition: 'Colour shift of the world through the optics at equal luminance (CIEDE2000), and the chromaticity shift.' },
     { key: 'lon', label: 'Luminance, display on', value: f(res.luminance.on, 4), unit: 'relative', definition: 'Mean linear Y over the screen, on the on photo’s exposure (sRGB white = 1).' },
     { key: 'loff', label: 'Luminance, display off', value: f(res.luminance.off, 4), unit: 'relative', definition: 'The see-through background behind the screen.' },
     { key: 'lamb', label: 'Luminance, without optics', value: f(res.luminance.ambient, 4), unit: 'relative', definition: 'The same area with the optics out of the path.' },
@@ -74,8 +76,8 @@ function metrics(r: Reading): Metric[] {
   if (abs) {
     const calibrated = abs.kind === 'calibrated';
     const source = calibrated ? `calibrated with ${extra.cameraProfile?.name ?? 'a camera profile'}` : 'uncalibrated — rough estimate';
-    out.push({ key: 'abs', label: calibrated ? 'Display luminance' : 'Display luminance (rough estimate)', value: f(abs.on, 1), unit: `cd/m² · ${source}`, definition: calibrated ? 'On photo converted with the camera profile’s factor k.' : 'From the reflected-light meter equation (K ≈ 12.5): for orientation only. Calibrate the camera under Lab settings → Camera profiles.' });
-    out.push({ key: 'abs-off', label: calibrated ? 'Background luminance' : 'Background luminance (rough estimate)', value: f(abs.off, 1), unit: `cd/m² · ${source}`, definition: 'The see-through background behind the screen, display dark.' });
+    out.push({ key: 'abs', label: calibrated ? 'Display luminance' : 'Display luminance (rough estimate)', value: formatLuminance(abs.on, { estimate: !calibrated }), unit: source, definition: calibrated ? 'On photo converted with the camera profile’s factor k.' : 'From the reflected-light meter equation (K ≈ 12.5): for orientation only. Calibrate the camera under Lab settings → Camera profiles.' });
+    out.push({ key: 'abs-off', label: calibrated ? 'Background luminance' : 'Background luminance (rough estimate)', value: formatLuminance(abs.off, { estimate: !calibrated }), unit: source, definition: 'The see-through background behind the screen, display dark.' });
   } else {
     out.push({ key: 'abs', label: 'Display luminance', value: '—', unit: 'uncalibrated', definition: 'No camera profile and no exposure EXIF: results are relative only.' });
   }
