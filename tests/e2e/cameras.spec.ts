@@ -3,6 +3,14 @@ import sharp from 'sharp';
 import { GREY_STEPS, greyStepsPattern } from '../../lib/patterns';
 import { renderCapture, type ExposureSetting } from '../fixtures/capture-generator';
 import { apiAs, signIn } from './helpers';
+import { closeDb, getDb } from '../../db/index';
+
+// revisions this file adds to the demo project go again, so later specs see the demo as seeded
+const madeRevisions: string[] = [];
+test.afterAll(async () => {
+  if (madeRevisions.length > 0) await getDb()('revisions').whereIn('label', madeRevisions).delete();
+  await closeDb();
+});
 
 const EXPOSURE: ExposureSetting = { exposureTime: 1 / 100, fNumber: 8, iso: 100 };
 
@@ -71,6 +79,7 @@ test('an admin calibrates a camera, checks its linearity, and a capture set from
   await page.goto('/projects');
   await page.getByRole('link', { name: 'Visor VX birdbath' }).first().click();
   const revLabel = `CAM-${stamp}`;
+  madeRevisions.push(revLabel);
   const newRevision = page.getByRole('form', { name: 'New revision' });
   await newRevision.getByLabel('Label').fill(revLabel);
   await newRevision.getByLabel('Built on').fill('2026-12-02');

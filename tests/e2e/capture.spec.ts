@@ -1,6 +1,14 @@
 import { expect, test, type Page } from '@playwright/test';
 import { renderCapture } from '../fixtures/capture-generator';
 import { apiAs, signIn } from './helpers';
+import { closeDb, getDb } from '../../db/index';
+
+// revisions this file adds to the demo project go again, so later specs see the demo as seeded
+const madeRevisions: string[] = [];
+test.afterAll(async () => {
+  if (madeRevisions.length > 0) await getDb()('revisions').whereIn('label', madeRevisions).delete();
+  await closeDb();
+});
 
 type Payload = { name: string; type: string; bytes: number[] };
 
@@ -26,6 +34,7 @@ test('a tester drops a generated triplet, marks the screen, analyses and reads a
   await signIn(lead, 'lead@example.test');
   await lead.getByRole('link', { name: 'Visor VX birdbath' }).first().click();
   const revLabel = `E2E-${stamp}`;
+  madeRevisions.push(revLabel);
   const newRevision = lead.getByRole('form', { name: 'New revision' });
   await newRevision.getByLabel('Label').fill(revLabel);
   await newRevision.getByLabel('Built on').fill('2026-12-01');

@@ -8,6 +8,8 @@ import { baseURL } from './helpers';
 let full = '';
 let readOnly = '';
 
+const madeSets: string[] = [];
+
 test.beforeAll(async () => {
   const db = getDb();
   const lab = await db('labs').where({ name: 'Kestrel Row Optics Lab' }).first('id');
@@ -17,6 +19,8 @@ test.beforeAll(async () => {
 });
 
 test.afterAll(async () => {
+  // leave the demo project as the other specs expect it (its variants, its newest revision)
+  if (madeSets.length > 0) await getDb()('capture_sets').whereIn('id', madeSets).delete();
   await closeDb();
 });
 
@@ -29,6 +33,7 @@ test('a rig creates a capture set, uploads by role, applies a template, analyses
   const created = await rig.post('/api/v1/captures', { data: { revisionId: revision!.id, label: `Rig shot ${Date.now()}`, variant: 'rig', backgroundCdm2: 1200 } });
   expect(created.status()).toBe(201);
   const { captureSet } = (await created.json()) as { captureSet: { id: string } };
+  madeSets.push(captureSet.id);
 
   const shot = await renderCapture({ width: 960, height: 640, seed: Date.now() % 1_000_000, screen: { x: 300, y: 190, w: 360, h: 240 }, background: { x: 40, y: 40, w: 200, h: 140 }, displayLevel: 0.2, transmission: 0.35, ghost: null });
   for (const role of ['on', 'off', 'ambient'] as const) {
