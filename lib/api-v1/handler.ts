@@ -12,7 +12,7 @@ import { errorResponse } from '../auth/with-auth';
 import { projectAnswer } from '../cache/project-answer';
 import type { CachedBody } from '../cache/read-cache';
 import { AppError, notFound } from '../errors';
-import { JSON_BODY_LIMIT, readBodyLimited } from '../security/body-limit';
+import { JSON_BODY_LIMIT, parseJsonBody, readBodyLimited } from '../security/body-limit';
 import { readUploadBody, uploadFileName } from '../security/upload-body';
 import { assertSameOrigin } from '../security/origin';
 import { consume } from '../security/rate-limit';
@@ -67,20 +67,6 @@ async function readBody(req: Request, route: V1Route): Promise<Uint8Array> {
     });
   }
   return readUploadBody(req, uploadFileName(req));
-}
-
-function parseJson(bytes: Uint8Array): unknown {
-  let text: string;
-  try {
-    text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
-  } catch {
-    throw new AppError(422, 'The request body is not valid UTF-8 text', 'invalid_json');
-  }
-  try {
-    return JSON.parse(text) as unknown;
-  } catch {
-    throw new AppError(422, 'The request body is not valid JSON', 'invalid_json');
-  }
 }
 
 let purgeCountdown = 0;
@@ -151,7 +137,7 @@ export function rigRoute<K extends V1RouteId>(id: K, declared: { permission: Rou
       const url = new URL(req.url);
       const query = (route.query ? route.query.parse(searchObject(url)) : undefined) as QueryOf<Routes[K]>;
       const raw = await readBody(req, route);
-      const input = (route.body?.kind === 'json' ? route.body.schema.parse(parseJson(raw)) : undefined) as BodyOf<Routes[K]>;
+      const input = (route.body?.kind === 'json' ? route.body.schema.parse(parseJsonBody(raw)) : undefined) as BodyOf<Routes[K]>;
       const run = () => handler(req, { actor, tokenId, params, input, bytes: raw, query });
       const key = route.idempotent ? req.headers.get('idempotency-key') : null;
       if (key === null) return await run();

@@ -50,7 +50,11 @@ export async function readBodyLimited(req: Request, maxBytes: number, what = 'Th
 
 /** Reads a JSON body of at most `maxBytes`; too large is 413, malformed JSON is the caller's mistake (422). */
 export async function readJsonLimited(req: Request, maxBytes = JSON_BODY_LIMIT): Promise<unknown> {
-  const bytes = await readBodyLimited(req, maxBytes);
+  return parseJsonBody(await readBodyLimited(req, maxBytes));
+}
+
+/** Parses a body read as bytes: not UTF-8 or not JSON is the caller's mistake (422). */
+export function parseJsonBody(bytes: Uint8Array): unknown {
   let text: string;
   try {
     text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
