@@ -1,5 +1,5 @@
 import { NextResponse, type NextRequest } from 'next/server';
-import { sessionUserId } from './lib/auth/session-token';
+import { sessionUserId } from './lib/server/auth/session-token';
 import { getEnv } from './lib/env';
 import { servedOverHttps } from './lib/security/client-ip';
 import { HSTS, newNonce, pageCsp } from './lib/security/headers';

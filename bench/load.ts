@@ -14,8 +14,8 @@ import { closeDb, getDb } from '../db/index';
 import { hashPassword } from '../lib/auth/password';
 import { getEnv, storageDir } from '../lib/env';
 import { analyzeFiles } from '../lib/image';
-import { workerConnection } from '../lib/queue/connection';
-import { ANALYSIS_QUEUE } from '../lib/queue/names';
+import { workerConnection } from '../lib/server/queue/connection';
+import { ANALYSIS_QUEUE } from '../lib/server/queue/names';
 import { renderCapture, type RenderedCapture } from '../tests/fixtures/capture-generator';
 import { freePort } from '../tests/fixtures/free-port';
 

@@ -8,7 +8,7 @@ import { availableParallelism } from 'node:os';
 import compression from 'compression';
 import next from 'next';
 
-// the header names of lib/cache/read-cache.ts (PRECOMPRESSED_OK, ENCODING_HEADER, LENGTH_HEADER)
+// the header names of lib/server/cache/read-cache.ts (PRECOMPRESSED_OK, ENCODING_HEADER, LENGTH_HEADER)
 const PRECOMPRESSED_OK = 'x-veilmeter-precompressed';
 const ENCODING = 'x-veilmeter-encoding';
 const LENGTH = 'x-veilmeter-length';

@@ -4,10 +4,10 @@ import { fileURLToPath } from 'node:url';
 import { Queue, Worker } from 'bullmq';
 import { closeDatabase, pingDatabase } from '../db/queries/connection';
 import { getEnv } from '../lib/env';
-import { workerConnection } from '../lib/queue/connection';
-import { ANALYSIS_QUEUE } from '../lib/queue/names';
+import { workerConnection } from '../lib/server/queue/connection';
+import { ANALYSIS_QUEUE } from '../lib/server/queue/names';
 import { sweepAnalyses } from './sweeper';
-import { startWebhookDelivery, webhooksMayReachPrivate } from '../lib/webhooks/runner';
+import { startWebhookDelivery, webhooksMayReachPrivate } from '../lib/server/webhooks/runner';
 
 function numberArg(name: string, fallback: number): number {
   const arg = process.argv.find((a) => a.startsWith(`--${name}=`));

@@ -1,9 +1,8 @@
 import type { Queue } from 'bullmq';
-import { getDb } from '../db/index';
-import { listUnfinishedAnalyses } from '../db/queries/analyses';
+import { failAbandonedAnalysis, listUnfinishedAnalyses, requeueLostAnalysis } from '../db/queries/analyses';
 import { waitingRank } from '../db/queries/analysis-requests';
-import { addAnalysisJob } from '../lib/queue/jobs';
-import { analysisJobId } from '../lib/queue/names';
+import { addAnalysisJob } from '../lib/server/queue/jobs';
+import { analysisJobId } from '../lib/server/queue/names';
 
 /**
  * Puts back on the queue every unfinished analysis whose job Redis does not have (Redis restarted
@@ -19,14 +18,14 @@ export async function sweepAnalyses(queue: Queue, graceSeconds: number): Promise
       const state = await job.getState();
       // a job BullMQ gave up on while the row still says queued: the row catches up
       if (state === 'failed' && a.status !== 'running') {
-        await getDb()('analyses').where({ lab_id: a.labId, id: a.id }).whereIn('status', ['queued']).update({ status: 'failed', stage: 'failed', error: 'The analysis could not be completed. Run it again.', finished_at: getDb().fn.now() });
+        await failAbandonedAnalysis(a.labId, a.id);
       }
       continue;
     }
     if (a.status === 'running') {
-      await getDb()('analyses').where({ lab_id: a.labId, id: a.id, status: 'running' }).update({ status: 'queued', stage: 'queued', updated_at: getDb().fn.now() });
+      await requeueLostAnalysis(a.labId, a.id);
     }
-    // back at its lab's turn (lib/queue/jobs.ts fairPriority), not ahead of every lab
+    // back at its lab's turn (lib/server/queue/jobs.ts fairPriority), not ahead of every lab
     await addAnalysisJob(queue, { analysisId: a.id, labId: a.labId }, await waitingRank(a.labId, a.id));
     restored++;
   }

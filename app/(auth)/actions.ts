@@ -3,22 +3,22 @@
 import { ZodError } from 'zod';
 import { acceptInvitation, findOpenInvitation } from '@/db/queries/invitations';
 import { getUserByEmail, markEmailVerified } from '@/db/queries/users';
-import { sendVerification, SIGN_UP_ANSWER, signUp } from '@/lib/auth/accounts';
-import { echoValues, isFormData, type FormState } from '@/lib/auth/action';
-import { spend } from '@/lib/auth/limits';
+import { sendVerification, SIGN_UP_ANSWER, signUp } from '@/lib/server/auth/accounts';
+import { echoValues, isFormData, type FormState } from '@/lib/server/auth/action';
+import { spend } from '@/lib/server/auth/limits';
 import { hashPassword, verifyPassword } from '@/lib/auth/password';
 import { passwordProblems } from '@/lib/auth/password-rules';
-import { actionClientAddress } from '@/lib/auth/request-client';
-import { getUnverifiedUser } from '@/lib/auth/session';
+import { actionClientAddress } from '@/lib/server/auth/request-client';
+import { getUnverifiedUser } from '@/lib/server/auth/session';
 import { AppError, zodFieldErrors } from '@/lib/errors';
-import { RateLimited } from '@/lib/security/rate-limit';
+import { RateLimited } from '@/lib/server/security/rate-limit';
 import { hashSecret } from '@/lib/security/tokens';
 import { invitationAcceptSchema, newAccountSchema } from '@/lib/schemas/team';
 import { signUpSchema } from '@/lib/schemas/user';
 
 /**
  * Starts a lab (its creator becomes its admin) once the address is confirmed. The answer is the
- * same whether or not the address has an account (lib/auth/accounts.ts); the person signs in
+ * same whether or not the address has an account (lib/server/auth/accounts.ts); the person signs in
  * after opening the link in the mail.
  */
 export async function signUpAction(prevOrForm: FormState | FormData, maybeForm?: FormData): Promise<FormState> {

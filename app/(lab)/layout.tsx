@@ -2,7 +2,7 @@ import { Brand } from '@/components/shell/brand';
 import { NavLinks } from '@/components/shell/nav-links';
 import { SignOutButton } from '@/components/shell/sign-out-button';
 import { ROLE_LABELS } from '@/lib/auth/permissions';
-import { requireActor } from '@/lib/auth/session';
+import { requireActor } from '@/lib/server/auth/session';
 import { switchLabAction, toggleThemeAction } from './shell-actions';
 
 export default async function LabLayout({ children }: { children: React.ReactNode }) {

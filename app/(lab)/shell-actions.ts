@@ -2,7 +2,7 @@
 
 import { cookies } from 'next/headers';
 import { revalidatePath } from 'next/cache';
-import { requireActor, switchLab } from '@/lib/auth/session';
+import { requireActor, switchLab } from '@/lib/server/auth/session';
 import { uuidSchema } from '@/lib/schemas/common';
 
 export async function switchLabAction(form: FormData): Promise<void> {

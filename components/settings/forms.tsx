@@ -5,7 +5,7 @@ import { changeRoleAction, createTokenAction, inviteMemberAction, removeMemberAc
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { FormStatus } from '@/components/ui/form-status';
-import type { FormState } from '@/lib/auth/action';
+import type { FormState } from '@/lib/server/auth/action';
 import { ROLE_LABELS, ROLES, type Role } from '@/lib/auth/permissions';
 
 function RoleSelect({ name, defaultValue, label }: { name: string; defaultValue?: Role; label: string }) {

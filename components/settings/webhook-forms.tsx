@@ -5,7 +5,7 @@ import { createWebhookAction, deleteWebhookAction } from '@/app/(lab)/settings/w
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { FormStatus } from '@/components/ui/form-status';
-import type { FormState } from '@/lib/auth/action';
+import type { FormState } from '@/lib/server/auth/action';
 
 export function CreateWebhookForm() {
   const [state, action, pending] = useActionState<FormState, FormData>(createWebhookAction, {});

@@ -102,6 +102,16 @@ export async function markAnalysisRetrying(labId: string, id: string, message: s
   await getDb()('analyses').where({ lab_id: labId, id, status: 'running' }).update({ status: 'queued', stage: 'retrying', error: message, updated_at: getDb().fn.now() });
 }
 
+/** A queued analysis whose job the queue gave up on: the row catches up and says to run it again. */
+export async function failAbandonedAnalysis(labId: string, id: string): Promise<void> {
+  await getDb()('analyses').where({ lab_id: labId, id }).whereIn('status', ['queued']).update({ status: 'failed', stage: 'failed', error: 'The analysis could not be completed. Run it again.', finished_at: getDb().fn.now() });
+}
+
+/** A running analysis whose job is gone (Redis lost it): back to queued, to be enqueued again. */
+export async function requeueLostAnalysis(labId: string, id: string): Promise<void> {
+  await getDb()('analyses').where({ lab_id: labId, id, status: 'running' }).update({ status: 'queued', stage: 'queued', updated_at: getDb().fn.now() });
+}
+
 /**
  * Analyses that should be on the queue: queued (or running without progress for a while) and older
  * than a grace period, so the web app's own enqueue right after the insert is not raced.

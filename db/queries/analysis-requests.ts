@@ -6,7 +6,7 @@ import { recordAudit } from './audit';
 /**
  * Analyses a lab may have waiting or running at once; a request beyond answers 429. Room for a lab's
  * burst (the load test uploads 30 capture sets at once) while bounding the queue; fairness between
- * labs comes from the priorities (lib/queue/jobs.ts fairPriority), not from this limit.
+ * labs comes from the priorities (lib/server/queue/jobs.ts fairPriority), not from this limit.
  */
 export const LAB_ANALYSIS_LIMIT = 50;
 
@@ -48,7 +48,7 @@ async function inFlightFor(trx: Knex.Transaction, labId: string, captureSetId: s
  * (so concurrent requests from every web process see each other's rows): a set whose analysis is
  * already waiting or running gets that one back, a new one is recorded while the lab has fewer than
  * `limit` in flight, the rest are refused. Created ones carry their rank among the lab's waiting
- * analyses, which the queue turns into a priority (lib/queue/producer.ts).
+ * analyses, which the queue turns into a priority (lib/server/queue/producer.ts).
  */
 export async function recordAnalysisRequests(labId: string, userId: string | null, captureSetIds: readonly string[], limit = LAB_ANALYSIS_LIMIT): Promise<AnalysisRequestOutcome[]> {
   return getDb().transaction(async (trx) => {

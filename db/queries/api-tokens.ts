@@ -2,9 +2,9 @@ import { getDb } from '../index';
 import { recordAudit } from './audit';
 import { hashSecret, newSecret } from '../../lib/security/tokens';
 import type { Role } from '../../lib/auth/permissions';
-import type { TokenScope } from '../../lib/api-v1/scopes';
+import type { TokenScope } from '../../lib/server/api-v1/scopes';
 
-export { TOKEN_SCOPES, type TokenScope } from '../../lib/api-v1/scopes';
+export { TOKEN_SCOPES, type TokenScope } from '../../lib/server/api-v1/scopes';
 
 export type ApiToken = { id: string; name: string; prefix: string; scopes: TokenScope[]; lastUsedAt: Date | null; revokedAt: Date | null; createdAt: Date; userId: string; userEmail: string };
 type Row = { id: string; name: string; prefix: string; scopes: TokenScope[]; last_used_at: Date | null; revoked_at: Date | null; created_at: Date; user_id: string; email: string };

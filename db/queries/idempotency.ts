@@ -1,7 +1,7 @@
 import { getDb } from '../index';
 
 /**
- * Stored answers for the rig API's Idempotency-Key header (lib/api-v1/idempotency.ts). A key is
+ * Stored answers for the rig API's Idempotency-Key header (lib/server/api-v1/idempotency.ts). A key is
  * one caller's (a token, or a signed-in person) in one lab; the first request claims it with a
  * unique insert before doing anything, so two copies sent at once never both run.
  */

@@ -143,6 +143,20 @@ export async function recordTargetState(labId: string, targetId: string, revisio
   return (res.rows as unknown[]).length > 0;
 }
 
+/** Forgets a recorded target state, so the next reading judges it as news again (a mail that could not be sent). */
+export async function forgetTargetState(labId: string, targetId: string, revisionId: string, variant = ''): Promise<void> {
+  await getDb()('target_states').where({ lab_id: labId, revision_id: revisionId, target_id: targetId, variant }).delete();
+}
+
+/** The names a target mail needs for a revision of the lab, or null when the lab has no such revision. */
+export async function getRevisionForMail(labId: string, revisionId: string): Promise<{ projectId: string; projectName: string; label: string } | null> {
+  const row = await getDb()('revisions as r')
+    .join('projects as p', 'p.id', 'r.project_id')
+    .where({ 'r.lab_id': labId, 'r.id': revisionId })
+    .first<{ project_id: string; project_name: string; label: string } | undefined>('r.project_id', 'p.name as project_name', 'r.label');
+  return row ? { projectId: row.project_id, projectName: row.project_name, label: row.label } : null;
+}
+
 /** E-mail addresses of the lab's leads, who own targets. */
 export async function listLeadEmails(labId: string): Promise<string[]> {
   const rows = await getDb()('memberships as m').join('users as u', 'u.id', 'm.user_id').where({ 'm.lab_id': labId, 'm.role': 'lead' }).orderBy('u.email').select<{ email: string }[]>('u.email');

@@ -95,7 +95,7 @@ export async function createUserWithLab(input: { email: string; name: string; pa
 
 /**
  * Ends every session of a person: session tokens carry the version they were issued under, and
- * one that no longer matches the row is no session (lib/auth/session.ts).
+ * one that no longer matches the row is no session (lib/server/auth/session.ts).
  */
 export async function endSessions(userId: string, trx: Knex | Knex.Transaction = getDb()): Promise<void> {
   await trx('users').where({ id: userId }).update({ session_version: trx.raw('session_version + 1'), updated_at: trx.fn.now() });

@@ -3,7 +3,7 @@
 import { createAnalysis } from '../queries/analyses';
 import { createCaptureSet } from '../queries/capture-sets';
 import { replaceRegions } from '../queries/regions';
-import { ingestPhoto } from '../../lib/storage/ingest-photo';
+import { ingestPhoto } from '../../lib/server/storage/ingest-photo';
 import { getStackTemplate, type StackTemplateId } from '../../lib/optics';
 import { renderCapturePhotos, seededRandom, type SceneOptions } from '../../tests/fixtures/capture-generator';
 import { runAnalysis } from '../../worker/processors/run-analysis';

@@ -5,7 +5,7 @@ const PICK = ['ExposureTime', 'FNumber', 'ISO', 'ISOSpeedRatings', 'Photographic
 
 /**
  * What a camera can put in its EXIF; anything outside is dropped rather than taken as a fact about
- * the shot (a 10⁹ s exposure would scale the photo by a billion). The intake (lib/storage) and the
+ * the shot (a 10⁹ s exposure would scale the photo by a billion). The intake (lib/server/storage) and the
  * engine's own reading of the tags use the same bounds.
  */
 export const EXIF_BOUNDS = {

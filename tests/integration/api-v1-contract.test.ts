@@ -29,9 +29,9 @@ const { getDb, closeDb } = await import('../../db/index');
 const { createApiToken } = await import('../../db/queries/api-tokens');
 const { saveRegionTemplate } = await import('../../db/queries/region-templates');
 const { insertReading } = await import('../fixtures/readings-fixture');
-const { getAnalysisQueue } = await import('../../lib/queue/producer');
-const { openApiDocument } = await import('../../lib/api-v1/openapi');
-const { V1_ROUTE_LIST, routeFile } = await import('../../lib/api-v1/routes');
+const { getAnalysisQueue } = await import('../../lib/server/queue/producer');
+const { openApiDocument } = await import('../../lib/server/api-v1/openapi');
+const { V1_ROUTE_LIST, routeFile } = await import('../../lib/server/api-v1/routes');
 const { dispatch, handlerOf, matchV1 } = await import('../fixtures/v1-server');
 
 type Doc = { paths: Record<string, Record<string, { operationId: string; responses: Record<string, { content?: Record<string, { schema: { $ref?: string } }> }> }>> };

@@ -9,7 +9,7 @@ import { createTestLab } from '../fixtures/test-lab';
 const tmp = mkdtempSync(join(tmpdir(), 'vm-cameras-'));
 process.env.STORAGE_DIR = join(tmp, 'storage');
 
-type Mods = { db: typeof import('../../db/index'); ingest: typeof import('../../lib/storage/ingest-photo'); photos: typeof import('../../db/queries/photos'); cameras: typeof import('../../db/queries/camera-profiles'); image: typeof import('../../lib/image') };
+type Mods = { db: typeof import('../../db/index'); ingest: typeof import('../../lib/server/storage/ingest-photo'); photos: typeof import('../../db/queries/photos'); cameras: typeof import('../../db/queries/camera-profiles'); image: typeof import('../../lib/image') };
 let m: Mods;
 const labs: string[] = [];
 let userId = '';
@@ -22,7 +22,7 @@ const LONG: ExposureSetting = { exposureTime: 0.16, fNumber: 8, iso: 100 };
 const details = { patch: { x: 1, y: 1, w: 10, h: 10 }, meterCdm2: 250, meanY: 0.4, exposure: { ...REF, factor: 0.015625 }, photoName: 'patch.jpg', imageWidth: 400, imageHeight: 300 };
 
 beforeAll(async () => {
-  m = { db: await import('../../db/index'), ingest: await import('../../lib/storage/ingest-photo'), photos: await import('../../db/queries/photos'), cameras: await import('../../db/queries/camera-profiles'), image: await import('../../lib/image') };
+  m = { db: await import('../../db/index'), ingest: await import('../../lib/server/storage/ingest-photo'), photos: await import('../../db/queries/photos'), cameras: await import('../../db/queries/camera-profiles'), image: await import('../../lib/image') };
   const db = m.db.getDb();
   const tag = Math.random().toString(36).slice(2, 8);
   const a = await createTestLab(db, { tag: `cameras-${tag}`, name: 'Camera Test', project: 'Cameras', revision: 'C1' });

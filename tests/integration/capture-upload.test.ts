@@ -11,7 +11,7 @@ import { createTestLab } from '../fixtures/test-lab';
 const tmp = mkdtempSync(join(tmpdir(), 'vm-upload-'));
 process.env.STORAGE_DIR = join(tmp, 'storage');
 
-type Mods = { db: typeof import('../../db/index'); ingest: typeof import('../../lib/storage/ingest-photo'); photos: typeof import('../../db/queries/photos'); errors: typeof import('../../lib/errors') };
+type Mods = { db: typeof import('../../db/index'); ingest: typeof import('../../lib/server/storage/ingest-photo'); photos: typeof import('../../db/queries/photos'); errors: typeof import('../../lib/errors') };
 let m: Mods;
 let labId = '';
 let userId = '';
@@ -42,7 +42,7 @@ async function rowCount(): Promise<number> {
 }
 
 beforeAll(async () => {
-  m = { db: await import('../../db/index'), ingest: await import('../../lib/storage/ingest-photo'), photos: await import('../../db/queries/photos'), errors: await import('../../lib/errors') };
+  m = { db: await import('../../db/index'), ingest: await import('../../lib/server/storage/ingest-photo'), photos: await import('../../db/queries/photos'), errors: await import('../../lib/errors') };
   const db = m.db.getDb();
   const tag = Math.random().toString(36).slice(2, 8);
   let revisionId: string;

@@ -26,8 +26,8 @@ vi.mock('next/headers', () => ({ cookies: async () => ({ get: () => undefined, g
 const { getDb, closeDb } = await import('../../db/index');
 const { createApiToken, revokeApiToken } = await import('../../db/queries/api-tokens');
 const { saveRegionTemplate } = await import('../../db/queries/region-templates');
-const { getAnalysisQueue } = await import('../../lib/queue/producer');
-const { openApiDocument } = await import('../../lib/api-v1/openapi');
+const { getAnalysisQueue } = await import('../../lib/server/queue/producer');
+const { openApiDocument } = await import('../../lib/server/api-v1/openapi');
 const { dispatch, startV1Server } = await import('../fixtures/v1-server');
 
 let lab: { labId: string; userId: string; projectId: string; revisionId: string };

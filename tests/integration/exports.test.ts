@@ -5,9 +5,9 @@ import { closeDb, getDb } from '../../db/index';
 import { listExportRows } from '../../db/queries/exports';
 import { createTarget } from '../../db/queries/targets';
 import { createUserWithLab } from '../../db/queries/users';
-import { comparisonReport, loadComparison, projectReport, revisionReport } from '../../lib/reports/build';
+import { comparisonReport, loadComparison, projectReport, revisionReport } from '../../lib/server/reports/build';
 import { formatChange } from '../../lib/targets/compare';
-import { CSV_HEADERS, readingsCsv } from '../../lib/reports/csv';
+import { CSV_HEADERS, readingsCsv } from '../../lib/server/reports/csv';
 import { insertFixtureProject, insertReading, type Fixture, removeTestLabs } from '../fixtures/readings-fixture';
 
 // Invented readings in real PostgreSQL; the exports must give back exactly what is stored.

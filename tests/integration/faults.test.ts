@@ -94,8 +94,8 @@ const allLogs = () => workers.flatMap((w) => logOf.get(w) ?? []).join('');
 type Mods = {
   db: typeof import('../../db/index');
   analyses: typeof import('../../db/queries/analyses');
-  producer: typeof import('../../lib/queue/producer');
-  names: typeof import('../../lib/queue/names');
+  producer: typeof import('../../lib/server/queue/producer');
+  names: typeof import('../../lib/server/queue/names');
 };
 let m: Mods;
 let labId = '';
@@ -164,8 +164,8 @@ beforeAll(async () => {
   m = {
     db: await import('../../db/index'),
     analyses: await import('../../db/queries/analyses'),
-    producer: await import('../../lib/queue/producer'),
-    names: await import('../../lib/queue/names'),
+    producer: await import('../../lib/server/queue/producer'),
+    names: await import('../../lib/server/queue/names'),
   };
   const db = m.db.getDb();
   ({ labId, userId, revisionId } = await createTestLab(db, { tag: prefix, name: 'Fault test', project: 'Fault rig', revision: 'F1' }));

@@ -14,7 +14,7 @@ process.env.STORAGE_DIR = join(tmp, 'storage');
 
 type Mods = {
   db: typeof import('../../db/index');
-  ingest: typeof import('../../lib/storage/ingest-photo');
+  ingest: typeof import('../../lib/server/storage/ingest-photo');
   photos: typeof import('../../db/queries/photos');
   errors: typeof import('../../lib/errors');
   image: typeof import('../../lib/image');
@@ -41,7 +41,7 @@ function filesIn(dir: string): string[] {
 beforeAll(async () => {
   m = {
     db: await import('../../db/index'),
-    ingest: await import('../../lib/storage/ingest-photo'),
+    ingest: await import('../../lib/server/storage/ingest-photo'),
     photos: await import('../../db/queries/photos'),
     errors: await import('../../lib/errors'),
     image: await import('../../lib/image'),

@@ -10,8 +10,8 @@ import { getProjectDataVersion, getProjectTrend, listNewestReadings } from '../.
 import { fromTrendAnswer, toTrendAnswer } from '../../lib/targets/trend-answer';
 import { createUserWithLab } from '../../db/queries/users';
 import { getEnv } from '../../lib/env';
-import { stageLabel } from '../../lib/queue/jobs';
-import { readingsCsv } from '../../lib/reports/csv';
+import { stageLabel } from '../../lib/server/queue/jobs';
+import { readingsCsv } from '../../lib/server/reports/csv';
 import { deleteFixtureProject, insertFixtureProject, insertReading, type Fixture, removeTestLabs } from '../fixtures/readings-fixture';
 
 // The route handlers run as in `next start`, with the request's cookies supplied here: a real
@@ -30,7 +30,7 @@ const { GET: trendGET } = await import('../../app/api/projects/[projectId]/trend
 const { GET: csvGET } = await import('../../app/api/projects/[projectId]/readings.csv/route');
 const { GET: pollGET } = await import('../../app/api/analyses/[analysisId]/route');
 const { GET: listGET } = await import('../../app/api/projects/[projectId]/readings/route');
-const { clearReadCache, readCacheStats } = await import('../../lib/cache/read-cache');
+const { clearReadCache, readCacheStats } = await import('../../lib/server/cache/read-cache');
 
 const tag = `${process.pid}-${Date.now()}`;
 let a: { userId: string; labId: string };

@@ -49,7 +49,7 @@ const { POST: resetPOST } = await import('../../app/api/password-reset/route');
 const { POST: resetCompletePOST } = await import('../../app/api/password-reset/complete/route');
 const actions = await import('../../app/(auth)/actions');
 const { default: InboxPage } = await import('../../app/(lab)/settings/inbox/page');
-const transport = await import('../../lib/mail/transport');
+const transport = await import('../../lib/server/mail/transport');
 
 const PEER = 'x-veilmeter-peer';
 const PASSWORD = 'violet-prism-bench-7';

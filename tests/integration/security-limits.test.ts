@@ -34,11 +34,11 @@ vi.mock('next/headers', () => ({
 const { getDb, closeDb } = await import('../../db/index');
 const { getEnv } = await import('../../lib/env');
 const { createApiToken } = await import('../../db/queries/api-tokens');
-const producer = await import('../../lib/queue/producer');
+const producer = await import('../../lib/server/queue/producer');
 const { getAnalysisQueue, requestAnalysis } = producer;
 // the per-lab limit; 50 where the module that sets it cannot be loaded
 const LAB_ANALYSIS_LIMIT: number = ((await import('../../db/queries/analysis-requests').catch(() => ({}))) as { LAB_ANALYSIS_LIMIT?: number }).LAB_ANALYSIS_LIMIT ?? 50;
-const { workerConnection } = await import('../../lib/queue/connection');
+const { workerConnection } = await import('../../lib/server/queue/connection');
 const projects = await import('../../app/api/projects/route');
 const project = await import('../../app/api/projects/[projectId]/route');
 const captures = await import('../../app/api/captures/route');

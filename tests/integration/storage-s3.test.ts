@@ -7,7 +7,7 @@ import { join } from 'node:path';
 import { S3Client } from '@aws-sdk/client-s3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { toErrorResponse } from '../../lib/errors';
-import { createS3Storage, isStorageUnavailable, s3ClientConfig, S3Storage } from '../../lib/storage/s3';
+import { createS3Storage, isStorageUnavailable, s3ClientConfig, S3Storage } from '../../lib/server/storage/s3';
 import type { Env } from '../../lib/env';
 import { freePort } from '../fixtures/free-port';
 

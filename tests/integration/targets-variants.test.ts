@@ -6,7 +6,7 @@ import { createUserWithLab } from '../../db/queries/users';
 import { uuidSchema } from '../../lib/schemas/common';
 import { refineTarget, targetSchema, toTargetWrite } from '../../lib/schemas/target';
 import { revisionVerdictText } from '../../lib/targets/evaluate';
-import { notifyTargetFailures } from '../../lib/targets/notify';
+import { notifyTargetFailures } from '../../lib/server/targets/notify';
 import { insertFixtureProject, type Fixture, removeTestLabs } from '../fixtures/readings-fixture';
 
 // Real PostgreSQL; every number is invented. The fixture's capture sets state an ambient level of

@@ -4,7 +4,7 @@ import { closeDb, getDb } from '../../db/index';
 import { createTarget, deleteTarget, listProjectTargetStatus, listTargets, updateTarget, checkRevisionTargets } from '../../db/queries/targets';
 import { createUserWithLab } from '../../db/queries/users';
 import { targetSchema } from '../../lib/schemas/target';
-import { notifyTargetFailures } from '../../lib/targets/notify';
+import { notifyTargetFailures } from '../../lib/server/targets/notify';
 import { insertFixtureProject, insertReading, type Fixture, removeTestLabs } from '../fixtures/readings-fixture';
 
 // Real PostgreSQL and the local mail catcher; every number here is invented.

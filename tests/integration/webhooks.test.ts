@@ -16,8 +16,8 @@ const { createWebhook } = await import('../../db/queries/webhooks');
 const { markAnalysisFailed } = await import('../../db/queries/analyses');
 const { recordTargetState } = await import('../../db/queries/targets');
 const { insertReading } = await import('../fixtures/readings-fixture');
-const { startWebhookDelivery } = await import('../../lib/webhooks/runner');
-const { deliverWebhook } = await import('../../lib/webhooks/deliver');
+const { startWebhookDelivery } = await import('../../lib/server/webhooks/runner');
+const { deliverWebhook } = await import('../../lib/server/webhooks/deliver');
 const { verifySignature } = await import('../../lib/webhooks/sign');
 const { checkWebhookUrl, isPrivateAddress } = await import('../../lib/webhooks/url-policy');
 

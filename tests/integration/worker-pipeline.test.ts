@@ -26,10 +26,10 @@ type Mods = {
   db: typeof import('../../db/index');
   analyses: typeof import('../../db/queries/analyses');
   readings: typeof import('../../db/queries/readings');
-  producer: typeof import('../../lib/queue/producer');
-  jobs: typeof import('../../lib/queue/jobs');
-  names: typeof import('../../lib/queue/names');
-  storage: typeof import('../../lib/storage');
+  producer: typeof import('../../lib/server/queue/producer');
+  jobs: typeof import('../../lib/server/queue/jobs');
+  names: typeof import('../../lib/server/queue/names');
+  storage: typeof import('../../lib/server/storage');
 };
 let m: Mods;
 let labId = '';
@@ -81,10 +81,10 @@ beforeAll(async () => {
     db: await import('../../db/index'),
     analyses: await import('../../db/queries/analyses'),
     readings: await import('../../db/queries/readings'),
-    producer: await import('../../lib/queue/producer'),
-    jobs: await import('../../lib/queue/jobs'),
-    names: await import('../../lib/queue/names'),
-    storage: await import('../../lib/storage'),
+    producer: await import('../../lib/server/queue/producer'),
+    jobs: await import('../../lib/server/queue/jobs'),
+    names: await import('../../lib/server/queue/names'),
+    storage: await import('../../lib/server/storage'),
   };
   const db = m.db.getDb();
   ({ labId, userId, revisionId } = await createTestLab(db, { tag: prefix, name: 'Worker test', project: 'Bench rig', revision: 'R1' }));

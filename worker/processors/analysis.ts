@@ -3,8 +3,8 @@
 import { UnrecoverableError, type SandboxedJob } from 'bullmq';
 import { markAnalysisFailed, markAnalysisRetrying } from '../../db/queries/analyses';
 import { isEngineInputError } from '../../lib/photometry/errors';
-import { analysisJobSchema } from '../../lib/queue/names';
-import { isStorageUnavailable } from '../../lib/storage/s3';
+import { analysisJobSchema } from '../../lib/server/queue/names';
+import { isStorageUnavailable } from '../../lib/server/storage/s3';
 import { runAnalysis, testerMessage, type RunOutcome } from './run-analysis';
 
 export const INTERNAL_FAILURE = 'The analysis stopped on an internal error after several tries. Run it again; if it fails again, tell your lab admin.';

@@ -8,8 +8,8 @@ import { analyzeFiles, type PhotoSource } from '../../lib/image';
 import { EngineInputError } from '../../lib/photometry/errors';
 import { photoEncoding } from '../../lib/schemas/capture-set';
 import type { PhotoRole } from '../../lib/photometry/types';
-import { artifactKey, getStorage } from '../../lib/storage';
-import { notifyTargetFailures } from '../../lib/targets/notify';
+import { artifactKey, getStorage } from '../../lib/server/storage';
+import { notifyTargetFailures } from '../../lib/server/targets/notify';
 
 export type RunOutcome = { status: 'done'; readingId: string } | { status: 'skipped' };
 

@@ -1,7 +1,7 @@
 import { redirect } from 'next/navigation';
 import { ResendVerificationForm } from '@/components/auth/resend-verification-form';
 import { SignOutButton } from '@/components/shell/sign-out-button';
-import { getActor, getUnverifiedUser } from '@/lib/auth/session';
+import { getActor, getUnverifiedUser } from '@/lib/server/auth/session';
 
 export const metadata = { title: 'Confirm your address' };
 export const dynamic = 'force-dynamic';

@@ -1,7 +1,7 @@
 import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
-import { openApiDocument, routeErrors } from '@/lib/api-v1/openapi';
-import { IDEMPOTENCY_TTL_HOURS, SCOPE_LABELS, TOKEN_SCOPES, V1_ROUTE_LIST, pathParams, type V1Route } from '@/lib/api-v1/routes';
-import { requireActor } from '@/lib/auth/session';
+import { openApiDocument, routeErrors } from '@/lib/server/api-v1/openapi';
+import { IDEMPOTENCY_TTL_HOURS, SCOPE_LABELS, TOKEN_SCOPES, V1_ROUTE_LIST, pathParams, type V1Route } from '@/lib/server/api-v1/routes';
+import { requireActor } from '@/lib/server/auth/session';
 
 export const metadata = { title: 'Rig API reference' };
 

@@ -5,7 +5,7 @@ import { parsePatternSize, PATTERN_INFO, patternUrl, showUrl } from '@/component
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { Notice, PageTitle, Panel } from '@/components/ui/panel';
-import { requireActor } from '@/lib/auth/session';
+import { requireActor } from '@/lib/server/auth/session';
 import { isPatternKind, PATTERN_KINDS, PATTERN_MAX_SIZE, PATTERN_MIN_SIZE, PATTERN_PRESETS, type PatternKind } from '@/lib/patterns';
 
 export const metadata: Metadata = { title: 'Test patterns' };

@@ -4,7 +4,7 @@ import { revalidatePath } from 'next/cache';
 import { redirect } from 'next/navigation';
 import { z } from 'zod';
 import { createProject, deleteProject, updateProject } from '@/db/queries/projects';
-import { formAction } from '@/lib/auth/action';
+import { formAction } from '@/lib/server/auth/action';
 import { notFound } from '@/lib/errors';
 import { uuidSchema } from '@/lib/schemas/common';
 import { projectCreateSchema, projectRenameSchema } from '@/lib/schemas/project';

@@ -4,7 +4,7 @@ import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
 import { listProjectLatest, listProjects } from '@/db/queries/projects';
 import { listProjectTargetStatus } from '@/db/queries/targets';
 import { can } from '@/lib/auth/permissions';
-import { requireActor } from '@/lib/auth/session';
+import { requireActor } from '@/lib/server/auth/session';
 import { formatDate } from '@/lib/format';
 import { formatMetricValue } from '@/lib/format';
 import { revisionVerdictText, verdictSortKey } from '@/lib/targets/evaluate';

@@ -4,12 +4,12 @@ import { revalidatePath } from 'next/cache';
 import { createApiToken, revokeApiToken, type TokenScope } from '@/db/queries/api-tokens';
 import { createInvitation, revokeInvitation } from '@/db/queries/invitations';
 import { changeMemberRole, listMembers, removeMember, type MemberChange } from '@/db/queries/members';
-import { formAction } from '@/lib/auth/action';
+import { formAction } from '@/lib/server/auth/action';
 import { can } from '@/lib/auth/permissions';
 import { getEnv } from '@/lib/env';
 import { AppError, notFound } from '@/lib/errors';
-import { sendMail } from '@/lib/mail/transport';
-import { invitationMail } from '@/lib/mail/templates';
+import { sendMail } from '@/lib/server/mail/transport';
+import { invitationMail } from '@/lib/server/mail/templates';
 import { apiTokenCreateSchema, idOnlySchema, invitationCreateSchema, memberRemoveSchema, memberRoleSchema } from '@/lib/schemas/team';
 
 function memberOutcome(r: MemberChange): void {

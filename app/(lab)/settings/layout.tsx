@@ -1,7 +1,7 @@
 import { SettingsTabs } from '@/components/settings/settings-tabs';
 import { PageTitle } from '@/components/ui/panel';
 import { can } from '@/lib/auth/permissions';
-import { requireActor } from '@/lib/auth/session';
+import { requireActor } from '@/lib/server/auth/session';
 import { getEnv } from '@/lib/env';
 
 export default async function SettingsLayout({ children }: { children: React.ReactNode }) {

@@ -3,7 +3,7 @@ import { DataTable } from '@/components/ui/data-table';
 import { Panel } from '@/components/ui/panel';
 import { listMembers } from '@/db/queries/members';
 import { can, ROLE_LABELS } from '@/lib/auth/permissions';
-import { requireActor } from '@/lib/auth/session';
+import { requireActor } from '@/lib/server/auth/session';
 import { formatDate } from '@/lib/format';
 
 export const metadata = { title: 'Lab settings' };

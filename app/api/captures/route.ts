@@ -1,7 +1,7 @@
 import { NextResponse } from 'next/server';
 import { z } from 'zod';
 import { createCaptureSet } from '@/db/queries/capture-sets';
-import { readJson, withAuth } from '@/lib/auth/with-auth';
+import { readJson, withAuth } from '@/lib/server/auth/with-auth';
 import { notFound } from '@/lib/errors';
 import { captureSetCreateSchema } from '@/lib/schemas/capture-set';
 import { uuidSchema } from '@/lib/schemas/common';

@@ -1,5 +1,5 @@
 import { NextResponse } from 'next/server';
-import { checkHealth } from '@/lib/health';
+import { checkHealth } from '@/lib/server/health';
 
 export const dynamic = 'force-dynamic';
 

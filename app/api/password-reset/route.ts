@@ -1,8 +1,8 @@
 import { NextResponse } from 'next/server';
-import { readJson, errorResponse } from '@/lib/auth/with-auth';
-import { requestPasswordReset, RESET_REQUESTED } from '@/lib/auth/password-reset';
+import { readJson, errorResponse } from '@/lib/server/auth/with-auth';
+import { requestPasswordReset, RESET_REQUESTED } from '@/lib/server/auth/password-reset';
 import { clientAddress } from '@/lib/security/client-ip';
-import { RateLimited } from '@/lib/security/rate-limit';
+import { RateLimited } from '@/lib/server/security/rate-limit';
 import { resetRequestSchema } from '@/lib/schemas/team';
 
 export async function POST(req: Request) {

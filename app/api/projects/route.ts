@@ -1,6 +1,6 @@
 import { NextResponse } from 'next/server';
 import { createProject, listProjects } from '@/db/queries/projects';
-import { readJson, withAuth } from '@/lib/auth/with-auth';
+import { readJson, withAuth } from '@/lib/server/auth/with-auth';
 import { projectCreateSchema } from '@/lib/schemas/project';
 
 export const GET = withAuth(async (_req, { actor }) => NextResponse.json({ projects: await listProjects(actor.labId) }), { permission: 'project.read' });

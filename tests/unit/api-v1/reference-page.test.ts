@@ -4,11 +4,11 @@ import { renderToStaticMarkup } from 'react-dom/server';
 import { describe, expect, it, vi } from 'vitest';
 
 vi.mock('server-only', () => ({}));
-vi.mock('@/lib/auth/session', () => ({ requireActor: async () => ({ labId: 'lab', role: 'viewer' }) }));
+vi.mock('@/lib/server/auth/session', () => ({ requireActor: async () => ({ labId: 'lab', role: 'viewer' }) }));
 
 const { default: ApiReferencePage } = await import('../../../app/(lab)/api-reference/page');
-const { V1_ROUTE_LIST } = await import('../../../lib/api-v1/routes');
-const { routeErrors } = await import('../../../lib/api-v1/openapi');
+const { V1_ROUTE_LIST } = await import('../../../lib/server/api-v1/routes');
+const { routeErrors } = await import('../../../lib/server/api-v1/openapi');
 
 const html = renderToStaticMarkup(await ApiReferencePage());
 const section = (id: string): string => {

@@ -1,6 +1,6 @@
 import { encode } from 'next-auth/jwt';
 import { describe, expect, it } from 'vitest';
-import { sessionToken, sessionUserId } from '../../../lib/auth/session-token';
+import { sessionToken, sessionUserId } from '../../../lib/server/auth/session-token';
 
 const SECRET = 'unit-test-secret-with-enough-length-000';
 const jar = (cookies: Record<string, string>) => ({ getAll: () => Object.entries(cookies).map(([name, value]) => ({ name, value })) });

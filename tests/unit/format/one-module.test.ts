@@ -2,7 +2,7 @@ import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { METRIC_FORMATS, formatMetricValue } from '../../../lib/format';
-import { CSV_HEADERS } from '../../../lib/reports/csv';
+import { CSV_HEADERS } from '../../../lib/server/reports/csv';
 import { pdfText } from '../../../lib/reports/pdf';
 import { METRIC_KEYS, formatMetric } from '../../../lib/targets/metrics';
 import { formatMeanCi } from '../../../lib/targets/series';
@@ -24,13 +24,13 @@ const SHOWN = [
   'components/stack',
   'components/revisions',
   'components/charts',
-  'lib/reports/build.ts',
+  'lib/server/reports/build.ts',
   'lib/reports/pdf.ts',
-  'lib/reports/csv.ts',
+  'lib/server/reports/csv.ts',
   'lib/targets/compare.ts',
   'lib/targets/evaluate.ts',
   'lib/targets/series.ts',
-  'lib/targets/notify.ts',
+  'lib/server/targets/notify.ts',
   'lib/targets/metrics.ts',
 ].flatMap(files).filter((f) => /\.(ts|tsx)$/.test(f));
 

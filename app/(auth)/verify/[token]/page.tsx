@@ -1,5 +1,5 @@
 import Link from 'next/link';
-import { confirmEmail } from '@/lib/auth/accounts';
+import { confirmEmail } from '@/lib/server/auth/accounts';
 
 export const metadata = { title: 'Address confirmed' };
 export const dynamic = 'force-dynamic';

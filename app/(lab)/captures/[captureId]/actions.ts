@@ -4,11 +4,11 @@ import { revalidatePath } from 'next/cache';
 import { redirect } from 'next/navigation';
 import { z } from 'zod';
 import { deleteCaptureSet, getCaptureSet, updateCaptureSet } from '@/db/queries/capture-sets';
-import { formAction } from '@/lib/auth/action';
+import { formAction } from '@/lib/server/auth/action';
 import { notFound } from '@/lib/errors';
 import { captureSetSchema } from '@/lib/schemas/capture-set';
 import { uuidSchema } from '@/lib/schemas/common';
-import { deleteKeys } from '@/lib/storage';
+import { deleteKeys } from '@/lib/server/storage';
 
 export const updateCaptureSetAction = formAction('capture.write', captureSetSchema.extend({ id: uuidSchema }), async (actor, input) => {
   const { id, ...fields } = input;

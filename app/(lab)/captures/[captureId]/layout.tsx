@@ -1,6 +1,6 @@
 import { notFound } from 'next/navigation';
 import { getCaptureSet } from '@/db/queries/capture-sets';
-import { requireActor } from '@/lib/auth/session';
+import { requireActor } from '@/lib/server/auth/session';
 import { uuidSchema } from '@/lib/schemas/common';
 
 // 404 decided before the capture page's loading skeleton streams: once it is sent the status is

@@ -16,7 +16,7 @@ import { compareVersions } from '@/db/queries/reanalyses';
 import { listRegions } from '@/db/queries/regions';
 import { ENGINE_VERSION } from '@/lib/photometry/version';
 import { can } from '@/lib/auth/permissions';
-import { requireActor } from '@/lib/auth/session';
+import { requireActor } from '@/lib/server/auth/session';
 import { uuidSchema } from '@/lib/schemas/common';
 
 export default async function CapturePage({ params, searchParams }: { params: Promise<{ captureId: string }>; searchParams: Promise<{ analysis?: string }> }) {

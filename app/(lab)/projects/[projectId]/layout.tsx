@@ -1,6 +1,6 @@
 import { notFound } from 'next/navigation';
 import { getProject } from '@/db/queries/projects';
-import { requireActor } from '@/lib/auth/session';
+import { requireActor } from '@/lib/server/auth/session';
 import { uuidSchema } from '@/lib/schemas/common';
 
 // Decides 404 before anything streams: the pages below show loading skeletons (loading.tsx), and

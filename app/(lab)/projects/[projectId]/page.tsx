@@ -11,7 +11,7 @@ import { listRevisions } from '@/db/queries/revisions';
 import { listProjectVariants, listTargets } from '@/db/queries/targets';
 import { getProjectTrend } from '@/db/queries/trends';
 import { can } from '@/lib/auth/permissions';
-import { requireActor } from '@/lib/auth/session';
+import { requireActor } from '@/lib/server/auth/session';
 import { uuidSchema } from '@/lib/schemas/common';
 import { checkTargetsOn } from '@/lib/targets/evaluate';
 import { isMetricKey } from '@/lib/targets/metrics';

@@ -3,7 +3,7 @@ import { DataTable } from '@/components/ui/data-table';
 import { EmptyState, Panel } from '@/components/ui/panel';
 import { listAuditEvents } from '@/db/queries/audit';
 import { can } from '@/lib/auth/permissions';
-import { requireActor } from '@/lib/auth/session';
+import { requireActor } from '@/lib/server/auth/session';
 import { formatDateTime } from '@/lib/format';
 
 export const metadata = { title: 'Audit trail' };

@@ -3,7 +3,7 @@ import { CalibrationForm, DeleteProfileButton, LinearityForm } from '@/component
 import { EmptyState, Notice, Panel } from '@/components/ui/panel';
 import { listCameraProfiles } from '@/db/queries/camera-profiles';
 import { can } from '@/lib/auth/permissions';
-import { requireActor } from '@/lib/auth/session';
+import { requireActor } from '@/lib/server/auth/session';
 import { formatDateTime } from '@/lib/format';
 import { roughCalibrationFactor } from '@/lib/photometry';
 

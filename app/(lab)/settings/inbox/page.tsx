@@ -1,8 +1,8 @@
 import { notFound } from 'next/navigation';
 import { EmptyState, Notice, Panel } from '@/components/ui/panel';
-import { requireActor } from '@/lib/auth/session';
+import { requireActor } from '@/lib/server/auth/session';
 import { getEnv } from '@/lib/env';
-import { listCaughtMailFor } from '@/lib/mail/inbox';
+import { listCaughtMailFor } from '@/lib/server/mail/inbox';
 
 export const metadata = { title: 'Local inbox' };
 export const dynamic = 'force-dynamic';

@@ -3,7 +3,7 @@ import { InviteForm, RevokeInvitationButton } from '@/components/settings/forms'
 import { EmptyState, Panel } from '@/components/ui/panel';
 import { listPendingInvitations } from '@/db/queries/invitations';
 import { can, ROLE_LABELS } from '@/lib/auth/permissions';
-import { requireActor } from '@/lib/auth/session';
+import { requireActor } from '@/lib/server/auth/session';
 import { formatDateTime } from '@/lib/format';
 
 export const metadata = { title: 'Invitations' };

@@ -4,7 +4,7 @@ import { CreateTokenForm, RevokeTokenButton } from '@/components/settings/forms'
 import { EmptyState, Panel } from '@/components/ui/panel';
 import { listApiTokens } from '@/db/queries/api-tokens';
 import { can } from '@/lib/auth/permissions';
-import { requireActor } from '@/lib/auth/session';
+import { requireActor } from '@/lib/server/auth/session';
 import { formatDateTime } from '@/lib/format';
 
 export const metadata = { title: 'API tokens' };

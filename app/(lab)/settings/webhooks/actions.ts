@@ -2,13 +2,13 @@
 
 import { revalidatePath } from 'next/cache';
 import { createWebhook, deleteWebhook, type WebhookEvent } from '@/db/queries/webhooks';
-import { formAction } from '@/lib/auth/action';
+import { formAction } from '@/lib/server/auth/action';
 import { getEnv } from '@/lib/env';
 import { AppError, notFound } from '@/lib/errors';
 import { idOnlySchema } from '@/lib/schemas/team';
 import { webhookCreateSchema } from '@/lib/schemas/webhook';
 import { newSecret } from '@/lib/security/tokens';
-import { webhooksMayReachPrivate } from '@/lib/webhooks/runner';
+import { webhooksMayReachPrivate } from '@/lib/server/webhooks/runner';
 import { checkWebhookUrl } from '@/lib/webhooks/url-policy';
 
 export const createWebhookAction = formAction('token.manage', webhookCreateSchema, async (actor, input) => {

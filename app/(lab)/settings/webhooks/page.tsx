@@ -3,9 +3,9 @@ import { CreateWebhookForm, DeleteWebhookButton } from '@/components/settings/we
 import { EmptyState, Panel } from '@/components/ui/panel';
 import { listWebhooks } from '@/db/queries/webhooks';
 import { can } from '@/lib/auth/permissions';
-import { requireActor } from '@/lib/auth/session';
+import { requireActor } from '@/lib/server/auth/session';
 import { formatDateTime } from '@/lib/format';
-import { WEBHOOK_ATTEMPTS } from '@/lib/webhooks/runner';
+import { WEBHOOK_ATTEMPTS } from '@/lib/server/webhooks/runner';
 
 export const metadata = { title: 'Webhooks' };
 

@@ -1,8 +1,8 @@
 import { NextResponse } from 'next/server';
 import { getAnalysisForPoll } from '@/db/queries/readings';
-import { withAuth } from '@/lib/auth/with-auth';
+import { withAuth } from '@/lib/server/auth/with-auth';
 import { notFound } from '@/lib/errors';
-import { stageLabel } from '@/lib/queue/jobs';
+import { stageLabel } from '@/lib/server/queue/jobs';
 import { idOr404 } from '../../captures/lookup';
 
 /** The status a client polls while an analysis runs; the reading's numbers come with it once done. */

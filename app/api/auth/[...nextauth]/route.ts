@@ -1,11 +1,11 @@
 import NextAuth from 'next-auth';
 import { NextRequest, NextResponse } from 'next/server';
-import { addressKey, clear, giveBack, signInDelayMs, spend, spent } from '@/lib/auth/limits';
-import { getAuthOptions } from '@/lib/auth/options';
+import { addressKey, clear, giveBack, signInDelayMs, spend, spent } from '@/lib/server/auth/limits';
+import { getAuthOptions } from '@/lib/server/auth/options';
 import { sameOriginPath } from '@/lib/auth/safe-next';
 import { getEnv } from '@/lib/env';
 import { clientAddress } from '@/lib/security/client-ip';
-import { consume, RateLimited } from '@/lib/security/rate-limit';
+import { consume, RateLimited } from '@/lib/server/security/rate-limit';
 
 type Ctx = { params: Promise<{ nextauth: string[] }> };
 
@@ -139,7 +139,7 @@ async function succeeded(res: Response): Promise<boolean> {
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 // Credential sign-ins are limited per client and address before next-auth sees them
-// (lib/auth/limits.ts says how); the client is the socket's peer, or what a trusted proxy reports.
+// (lib/server/auth/limits.ts says how); the client is the socket's peer, or what a trusted proxy reports.
 async function POST(req: Request, ctx: Ctx) {
   const foreign = clearForeignCallbackCookie(req);
   if (foreign) return foreign;

@@ -1,6 +1,6 @@
 import { NextResponse } from 'next/server';
 import { deleteCameraProfile } from '@/db/queries/camera-profiles';
-import { withAuth } from '@/lib/auth/with-auth';
+import { withAuth } from '@/lib/server/auth/with-auth';
 import { notFound } from '@/lib/errors';
 import { idOr404 } from '@/lib/reports/http';
 

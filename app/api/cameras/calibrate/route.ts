@@ -1,6 +1,6 @@
 import { NextResponse } from 'next/server';
 import { saveCameraCalibration } from '@/db/queries/camera-profiles';
-import { withAuth } from '@/lib/auth/with-auth';
+import { withAuth } from '@/lib/server/auth/with-auth';
 import { AppError } from '@/lib/errors';
 import { calibrateFromPatch, roughCalibrationFactor } from '@/lib/photometry';
 import { calibrationFormSchema } from '@/lib/schemas/camera-profile';

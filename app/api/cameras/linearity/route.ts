@@ -1,6 +1,6 @@
 import { NextResponse } from 'next/server';
 import { saveCameraLinearity } from '@/db/queries/camera-profiles';
-import { withAuth } from '@/lib/auth/with-auth';
+import { withAuth } from '@/lib/server/auth/with-auth';
 import { fitLinearity, readGreySteps } from '@/lib/photometry';
 import { GREY_STEP_LINEAR, GREY_STEPS } from '@/lib/patterns';
 import { linearityFormSchema, type LinearityDetails } from '@/lib/schemas/camera-profile';

@@ -2,10 +2,10 @@ import { NextResponse } from 'next/server';
 import { deleteCaptureSet, updateCaptureSet } from '@/db/queries/capture-sets';
 import { listPhotos } from '@/db/queries/photos';
 import { listRegions } from '@/db/queries/regions';
-import { readJson, withAuth } from '@/lib/auth/with-auth';
+import { readJson, withAuth } from '@/lib/server/auth/with-auth';
 import { notFound } from '@/lib/errors';
 import { captureSetUpdateSchema } from '@/lib/schemas/capture-set';
-import { deleteKeys } from '@/lib/storage';
+import { deleteKeys } from '@/lib/server/storage';
 import { captureSetOr404, idOr404 } from '../lookup';
 
 type P = { captureId: string };

@@ -4,7 +4,7 @@ import { attachBatchAnalyses, createReanalysisBatch, getBatchProgress, listOutda
 import { getRevision } from '@/db/queries/revision-edits';
 import { notFound } from '@/lib/errors';
 import { ENGINE_VERSION } from '@/lib/photometry/version';
-import { requestAnalyses } from '@/lib/queue/producer';
+import { requestAnalyses } from '@/lib/server/queue/producer';
 
 /**
  * Queues through the producer the batch's capture sets that are not queued yet. The lab's limit of

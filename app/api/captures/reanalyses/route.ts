@@ -1,5 +1,5 @@
 import { NextResponse } from 'next/server';
-import { readJson, withAuth } from '@/lib/auth/with-auth';
+import { readJson, withAuth } from '@/lib/server/auth/with-auth';
 import { ENGINE_VERSION } from '@/lib/photometry/version';
 import { reanalyseSchema } from '@/lib/schemas/capture-set';
 import { batchView } from '@/db/queries/reanalyses';

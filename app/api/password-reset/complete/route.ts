@@ -1,6 +1,6 @@
 import { NextResponse } from 'next/server';
-import { completePasswordReset } from '@/lib/auth/password-reset';
-import { errorResponse, readJson } from '@/lib/auth/with-auth';
+import { completePasswordReset } from '@/lib/server/auth/password-reset';
+import { errorResponse, readJson } from '@/lib/server/auth/with-auth';
 import { resetCompleteSchema } from '@/lib/schemas/team';
 
 export async function POST(req: Request) {

@@ -1,9 +1,9 @@
 import 'server-only';
-import { ByteLru } from '@/lib/cache/lru';
+import { ByteLru } from '@/lib/server/cache/lru';
 import { TooBusy } from '@/lib/errors';
 import { patternPng } from '@/lib/image/pattern-png';
 import type { PatternKind } from '@/lib/patterns';
-import { spend } from '@/lib/security/work-limit';
+import { spend } from '@/lib/server/security/work-limit';
 
 // Rendered PNGs by kind and size. A pattern's pixels depend on nothing else, so an entry never goes
 // stale; 64 MB holds every size a lab uses many times over (an 8192 × 8192 white PNG is well under 1 MB).
@@ -31,7 +31,7 @@ async function oneAtATime<T>(work: () => Promise<T>): Promise<T> {
 
 /**
  * The PNG of a pattern at a size, and whether it came from the cache. A miss spends the client's
- * megapixel budget (lib/security/work-limit.ts) before drawing; requests for a size being drawn
+ * megapixel budget (lib/server/security/work-limit.ts) before drawing; requests for a size being drawn
  * wait for that one drawing instead of starting their own.
  */
 export async function cachedPatternPng(kind: PatternKind, width: number, height: number, client: string): Promise<{ png: Buffer; cache: 'hit' | 'miss' }> {

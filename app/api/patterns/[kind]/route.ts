@@ -1,11 +1,11 @@
 import { NextResponse } from 'next/server';
 import { kindFromSegment, parsePatternSize } from '@/components/patterns/params';
-import { errorResponse } from '@/lib/auth/with-auth';
+import { errorResponse } from '@/lib/server/auth/with-auth';
 import { AppError } from '@/lib/errors';
 import { PATTERN_KINDS } from '@/lib/patterns';
 import { clientAddress } from '@/lib/security/client-ip';
-import { RateLimited } from '@/lib/security/rate-limit';
-import { spend } from '@/lib/security/work-limit';
+import { RateLimited } from '@/lib/server/security/rate-limit';
+import { spend } from '@/lib/server/security/work-limit';
 import { cachedPatternPng } from './render-cache';
 
 // Public on purpose: a pattern holds no lab data, and the device showing it is often not signed in.

@@ -1,6 +1,6 @@
 import { NextResponse } from 'next/server';
 import { deleteProject, getProject, updateProject } from '@/db/queries/projects';
-import { readJson, withAuth } from '@/lib/auth/with-auth';
+import { readJson, withAuth } from '@/lib/server/auth/with-auth';
 import { notFound } from '@/lib/errors';
 import { idOr404 } from '@/lib/ids';
 import { projectUpdateSchema } from '@/lib/schemas/project';

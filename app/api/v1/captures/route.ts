@@ -1,6 +1,6 @@
 import { createCaptureSet } from '@/db/queries/capture-sets';
 import { markCaptureSetFromToken } from '@/db/queries/idempotency';
-import { rigRoute, v1Answer } from '@/lib/api-v1/handler';
+import { rigRoute, v1Answer } from '@/lib/server/api-v1/handler';
 import { notFound } from '@/lib/errors';
 
 /** Creates a capture set in a revision of the lab; the token that made it may later delete it. */

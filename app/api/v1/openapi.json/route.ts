@@ -1,4 +1,4 @@
-import { openApiDocument } from '@/lib/api-v1/openapi';
+import { openApiDocument } from '@/lib/server/api-v1/openapi';
 
 /** The rig API's OpenAPI 3.1 document: public, so a client can be generated before a token exists. */
 export async function GET(): Promise<Response> {

@@ -1,6 +1,6 @@
 import { listProjects } from '@/db/queries/projects';
 import { listRevisions } from '@/db/queries/revisions';
-import { rigRoute, v1Answer } from '@/lib/api-v1/handler';
+import { rigRoute, v1Answer } from '@/lib/server/api-v1/handler';
 
 /** The lab's projects with their revisions, so a rig can find where its captures belong. */
 export const GET = rigRoute(

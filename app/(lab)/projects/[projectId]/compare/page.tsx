@@ -9,7 +9,7 @@ import { getComparisonGroup, listGroupOptions, type GroupOption } from '@/db/que
 import { getProject } from '@/db/queries/projects';
 import { listTargets } from '@/db/queries/targets';
 import { can } from '@/lib/auth/permissions';
-import { requireActor } from '@/lib/auth/session';
+import { requireActor } from '@/lib/server/auth/session';
 import { uuidSchema } from '@/lib/schemas/common';
 import { changeTone, compareGroups, decodeGroup, encodeGroup, summariseComparison, type ChangeTone } from '@/lib/targets/compare';
 import { METRIC_KEYS, METRICS } from '@/lib/targets/metrics';

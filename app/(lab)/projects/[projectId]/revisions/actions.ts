@@ -4,7 +4,7 @@ import { revalidatePath } from 'next/cache';
 import { redirect } from 'next/navigation';
 import { createCaptureSet } from '@/db/queries/capture-sets';
 import { createRevision, updateRevision } from '@/db/queries/revision-edits';
-import { formAction } from '@/lib/auth/action';
+import { formAction } from '@/lib/server/auth/action';
 import { notFound } from '@/lib/errors';
 import { captureSetCreateSchema } from '@/lib/schemas/capture-set';
 import { uuidSchema } from '@/lib/schemas/common';

@@ -3,7 +3,7 @@
 import { revalidatePath } from 'next/cache';
 import { z } from 'zod';
 import { createTarget, deleteTarget, updateTarget } from '@/db/queries/targets';
-import { formAction } from '@/lib/auth/action';
+import { formAction } from '@/lib/server/auth/action';
 import { AppError, notFound } from '@/lib/errors';
 import { uuidSchema } from '@/lib/schemas/common';
 import { refineTarget, targetSchema, toTargetWrite } from '@/lib/schemas/target';

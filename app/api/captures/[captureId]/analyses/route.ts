@@ -1,9 +1,9 @@
 import { NextResponse } from 'next/server';
 import { listAnalyses } from '@/db/queries/analyses';
 import { listPhotos } from '@/db/queries/photos';
-import { withAuth } from '@/lib/auth/with-auth';
+import { withAuth } from '@/lib/server/auth/with-auth';
 import { AppError } from '@/lib/errors';
-import { requestAnalysis } from '@/lib/queue/producer';
+import { requestAnalysis } from '@/lib/server/queue/producer';
 import { photoEncoding } from '@/lib/schemas/capture-set';
 import { captureSetOr404 } from '../../lookup';
 

@@ -1,10 +1,10 @@
 import { NextResponse } from 'next/server';
 import { listPhotos } from '@/db/queries/photos';
-import { withAuth } from '@/lib/auth/with-auth';
+import { withAuth } from '@/lib/server/auth/with-auth';
 import { AppError } from '@/lib/errors';
 import { isEngineInputError } from '@/lib/photometry/errors';
 import { photoEncoding } from '@/lib/schemas/capture-set';
-import { getStorage } from '@/lib/storage';
+import { getStorage } from '@/lib/server/storage';
 import { captureSetOr404 } from '../../lookup';
 import { detectScreenRect } from './detect';
 

@@ -1,9 +1,9 @@
 import { NextResponse } from 'next/server';
-import { withAuth } from '@/lib/auth/with-auth';
+import { withAuth } from '@/lib/server/auth/with-auth';
 import { AppError } from '@/lib/errors';
 import { photoEncodingSchema } from '@/lib/schemas/capture-set';
 import { photoRoleSchema } from '@/lib/schemas/upload';
-import { ingestPhoto } from '@/lib/storage/ingest-photo';
+import { ingestPhoto } from '@/lib/server/storage/ingest-photo';
 import { readUploadBody, uploadFileName } from '@/lib/security/upload-body';
 import { captureSetOr404 } from '../../lookup';
 

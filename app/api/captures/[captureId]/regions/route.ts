@@ -1,7 +1,7 @@
 import { NextResponse } from 'next/server';
 import { listPhotos } from '@/db/queries/photos';
 import { listRegions, replaceRegions } from '@/db/queries/regions';
-import { readJson, withAuth } from '@/lib/auth/with-auth';
+import { readJson, withAuth } from '@/lib/server/auth/with-auth';
 import { AppError } from '@/lib/errors';
 import { regionsOutside, regionsPutSchema } from '@/lib/schemas/region';
 import { captureSetOr404 } from '../../lookup';

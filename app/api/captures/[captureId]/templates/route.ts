@@ -2,7 +2,7 @@ import { NextResponse } from 'next/server';
 import { listPhotos } from '@/db/queries/photos';
 import { listRegionTemplates, saveRegionTemplate } from '@/db/queries/region-templates';
 import { listRegions } from '@/db/queries/regions';
-import { readJson, withAuth } from '@/lib/auth/with-auth';
+import { readJson, withAuth } from '@/lib/server/auth/with-auth';
 import { AppError } from '@/lib/errors';
 import { templateSaveSchema } from '@/lib/schemas/region';
 import { captureSetOr404 } from '../../lookup';

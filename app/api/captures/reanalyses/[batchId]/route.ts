@@ -1,7 +1,7 @@
 import { NextResponse } from 'next/server';
 import { batchView, getBatchProgress } from '@/db/queries/reanalyses';
 import { can } from '@/lib/auth/permissions';
-import { withAuth } from '@/lib/auth/with-auth';
+import { withAuth } from '@/lib/server/auth/with-auth';
 import { notFound } from '@/lib/errors';
 import { idOr404 } from '../../lookup';
 import { queueWaiting } from '../reanalyse';

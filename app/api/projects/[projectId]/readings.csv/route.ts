@@ -1,9 +1,9 @@
 import { listExportRows } from '@/db/queries/exports';
 import { getProject } from '@/db/queries/projects';
-import { withAuth } from '@/lib/auth/with-auth';
-import { projectAnswer } from '@/lib/cache/project-answer';
+import { withAuth } from '@/lib/server/auth/with-auth';
+import { projectAnswer } from '@/lib/server/cache/project-answer';
 import { notFound } from '@/lib/errors';
-import { csvBytes, csvHeaders, fileSlug, readingsCsv } from '@/lib/reports/csv';
+import { csvBytes, csvHeaders, fileSlug, readingsCsv } from '@/lib/server/reports/csv';
 import { idOr404 } from '@/lib/reports/http';
 
 export const GET = withAuth<{ projectId: string }>(

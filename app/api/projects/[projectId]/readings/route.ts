@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { listNewestReadingsPage } from '@/db/queries/trends';
-import { withAuth } from '@/lib/auth/with-auth';
-import { projectAnswer } from '@/lib/cache/project-answer';
+import { withAuth } from '@/lib/server/auth/with-auth';
+import { projectAnswer } from '@/lib/server/cache/project-answer';
 import { AppError, zodFieldErrors } from '@/lib/errors';
 import { idOr404 } from '@/lib/reports/http';
 

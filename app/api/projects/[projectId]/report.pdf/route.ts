@@ -1,6 +1,6 @@
-import { withAuth } from '@/lib/auth/with-auth';
-import { projectReport } from '@/lib/reports/build';
-import { fileSlug } from '@/lib/reports/csv';
+import { withAuth } from '@/lib/server/auth/with-auth';
+import { projectReport } from '@/lib/server/reports/build';
+import { fileSlug } from '@/lib/server/reports/csv';
 import { idOr404 } from '@/lib/reports/http';
 import { pdfResponse } from '@/lib/reports/pdf';
 

@@ -1,7 +1,7 @@
 import { listTargets } from '@/db/queries/targets';
 import { getProjectTrend } from '@/db/queries/trends';
-import { withAuth } from '@/lib/auth/with-auth';
-import { projectAnswer } from '@/lib/cache/project-answer';
+import { withAuth } from '@/lib/server/auth/with-auth';
+import { projectAnswer } from '@/lib/server/cache/project-answer';
 import { AppError, notFound } from '@/lib/errors';
 import { idOr404 } from '@/lib/reports/http';
 import { trendMetricSchema } from '@/lib/schemas/target';

@@ -1,8 +1,8 @@
 import { listExportRows } from '@/db/queries/exports';
 import { getRevision } from '@/db/queries/revision-edits';
-import { withAuth } from '@/lib/auth/with-auth';
+import { withAuth } from '@/lib/server/auth/with-auth';
 import { notFound } from '@/lib/errors';
-import { csvResponse, fileSlug, readingsCsv } from '@/lib/reports/csv';
+import { csvResponse, fileSlug, readingsCsv } from '@/lib/server/reports/csv';
 import { idOr404 } from '@/lib/reports/http';
 
 export const GET = withAuth<{ revisionId: string }>(

@@ -1,8 +1,8 @@
 import { getAnalysisForPoll } from '@/db/queries/readings';
-import { rigRoute, v1Answer } from '@/lib/api-v1/handler';
-import { idOr404 } from '@/lib/api-v1/lookup';
+import { rigRoute, v1Answer } from '@/lib/server/api-v1/handler';
+import { idOr404 } from '@/lib/server/api-v1/lookup';
 import { notFound } from '@/lib/errors';
-import { stageLabel } from '@/lib/queue/jobs';
+import { stageLabel } from '@/lib/server/queue/jobs';
 
 /** The status a rig polls while an analysis runs; the reading comes with it once done. */
 export const GET = rigRoute(

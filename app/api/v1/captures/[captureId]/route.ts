@@ -2,11 +2,11 @@ import { deleteCaptureSet } from '@/db/queries/capture-sets';
 import { captureSetToken } from '@/db/queries/idempotency';
 import { listPhotos } from '@/db/queries/photos';
 import { listRegions } from '@/db/queries/regions';
-import { rigRoute, v1Answer } from '@/lib/api-v1/handler';
-import { captureSetOr404 } from '@/lib/api-v1/lookup';
+import { rigRoute, v1Answer } from '@/lib/server/api-v1/handler';
+import { captureSetOr404 } from '@/lib/server/api-v1/lookup';
 import { can } from '@/lib/auth/permissions';
 import { AppError, notFound } from '@/lib/errors';
-import { deleteKeys } from '@/lib/storage';
+import { deleteKeys } from '@/lib/server/storage';
 
 export const GET = rigRoute(
   'getCaptureSet',

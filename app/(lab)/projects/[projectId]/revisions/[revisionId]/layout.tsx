@@ -1,6 +1,6 @@
 import { notFound } from 'next/navigation';
 import { getRevision } from '@/db/queries/revision-edits';
-import { requireActor } from '@/lib/auth/session';
+import { requireActor } from '@/lib/server/auth/session';
 import { uuidSchema } from '@/lib/schemas/common';
 
 // 404 decided before the revision's loading skeleton streams (see ../../layout.tsx): a revision of

@@ -13,7 +13,7 @@ import { getRevision } from '@/db/queries/revision-edits';
 import { listTargets } from '@/db/queries/targets';
 import { listNewestReadings } from '@/db/queries/trends';
 import { can } from '@/lib/auth/permissions';
-import { requireActor } from '@/lib/auth/session';
+import { requireActor } from '@/lib/server/auth/session';
 import { ENGINE_VERSION } from '@/lib/photometry/version';
 import { uuidSchema } from '@/lib/schemas/common';
 import { formatIlluminance, formatMetricMeanCi, formatMetricSpread, formatMetricValue, metricHeading, TABLE_METRICS } from '@/lib/format';

@@ -1,7 +1,7 @@
 import { getReadingForAnalysis } from '@/db/queries/readings';
-import { withAuth } from '@/lib/auth/with-auth';
+import { withAuth } from '@/lib/server/auth/with-auth';
 import { notFound } from '@/lib/errors';
-import { getStorage } from '@/lib/storage';
+import { getStorage } from '@/lib/server/storage';
 import { idOr404 } from '../../../../captures/lookup';
 
 export const GET = withAuth<{ analysisId: string; name: string }>(

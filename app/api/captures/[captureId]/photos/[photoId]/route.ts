@@ -1,9 +1,9 @@
 import { NextResponse } from 'next/server';
 import { deletePhoto, getPhoto, setPhotoEncoding } from '@/db/queries/photos';
-import { readJson, withAuth } from '@/lib/auth/with-auth';
+import { readJson, withAuth } from '@/lib/server/auth/with-auth';
 import { AppError, notFound } from '@/lib/errors';
 import { photoEncodingSchema } from '@/lib/schemas/capture-set';
-import { deleteKeys } from '@/lib/storage';
+import { deleteKeys } from '@/lib/server/storage';
 import { captureSetOr404, idOr404 } from '../../../lookup';
 
 type P = { captureId: string; photoId: string };

@@ -1,7 +1,7 @@
 import 'server-only';
 import { getPhoto } from '@/db/queries/photos';
 import { notFound } from '@/lib/errors';
-import { getStorage } from '@/lib/storage';
+import { getStorage } from '@/lib/server/storage';
 import { captureSetOr404, idOr404 } from '../../../lookup';
 
 const TYPES: Record<string, string> = { jpeg: 'image/jpeg', png: 'image/png', tiff: 'image/tiff', webp: 'image/webp' };

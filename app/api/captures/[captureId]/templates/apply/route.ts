@@ -2,7 +2,7 @@ import { NextResponse } from 'next/server';
 import { listPhotos } from '@/db/queries/photos';
 import { getRegionTemplate } from '@/db/queries/region-templates';
 import { replaceRegions } from '@/db/queries/regions';
-import { readJson, withAuth } from '@/lib/auth/with-auth';
+import { readJson, withAuth } from '@/lib/server/auth/with-auth';
 import { AppError, notFound } from '@/lib/errors';
 import { templateApplySchema, type RegionInput } from '@/lib/schemas/region';
 import { captureSetOr404 } from '../../../lookup';

@@ -1,6 +1,6 @@
-import { withAuth } from '@/lib/auth/with-auth';
-import { comparisonRows, loadComparison } from '@/lib/reports/build';
-import { csvResponse, fileSlug, readingsCsv } from '@/lib/reports/csv';
+import { withAuth } from '@/lib/server/auth/with-auth';
+import { comparisonRows, loadComparison } from '@/lib/server/reports/build';
+import { csvResponse, fileSlug, readingsCsv } from '@/lib/server/reports/csv';
 import { groupsFrom, idOr404 } from '@/lib/reports/http';
 
 export const GET = withAuth<{ projectId: string }>(

@@ -1,10 +1,10 @@
 import { listAnalyses } from '@/db/queries/analyses';
 import { listPhotos } from '@/db/queries/photos';
-import { rigRoute, v1Answer } from '@/lib/api-v1/handler';
-import { captureSetOr404 } from '@/lib/api-v1/lookup';
+import { rigRoute, v1Answer } from '@/lib/server/api-v1/handler';
+import { captureSetOr404 } from '@/lib/server/api-v1/lookup';
 import { AppError } from '@/lib/errors';
-import { stageLabel } from '@/lib/queue/jobs';
-import { requestAnalysis } from '@/lib/queue/producer';
+import { stageLabel } from '@/lib/server/queue/jobs';
+import { requestAnalysis } from '@/lib/server/queue/producer';
 import { photoEncoding } from '@/lib/schemas/capture-set';
 
 export const GET = rigRoute(

@@ -1,8 +1,8 @@
 import { listPhotos } from '@/db/queries/photos';
-import { rigRoute, v1Answer } from '@/lib/api-v1/handler';
-import { captureSetOr404 } from '@/lib/api-v1/lookup';
+import { rigRoute, v1Answer } from '@/lib/server/api-v1/handler';
+import { captureSetOr404 } from '@/lib/server/api-v1/lookup';
 import { uploadFileName } from '@/lib/security/upload-body';
-import { ingestPhoto } from '@/lib/storage/ingest-photo';
+import { ingestPhoto } from '@/lib/server/storage/ingest-photo';
 
 export const GET = rigRoute(
   'listPhotos',

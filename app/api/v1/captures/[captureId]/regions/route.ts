@@ -1,7 +1,7 @@
 import { listPhotos } from '@/db/queries/photos';
 import { listRegions, replaceRegions } from '@/db/queries/regions';
-import { rigRoute, v1Answer } from '@/lib/api-v1/handler';
-import { captureSetOr404 } from '@/lib/api-v1/lookup';
+import { rigRoute, v1Answer } from '@/lib/server/api-v1/handler';
+import { captureSetOr404 } from '@/lib/server/api-v1/lookup';
 import { AppError } from '@/lib/errors';
 import { regionsOutside } from '@/lib/schemas/region';
 

@@ -1,6 +1,6 @@
 import { listRegionTemplates } from '@/db/queries/region-templates';
-import { rigRoute, v1Answer } from '@/lib/api-v1/handler';
-import { captureSetOr404 } from '@/lib/api-v1/lookup';
+import { rigRoute, v1Answer } from '@/lib/server/api-v1/handler';
+import { captureSetOr404 } from '@/lib/server/api-v1/lookup';
 
 export const GET = rigRoute(
   'listTemplates',

@@ -1,9 +1,9 @@
 import { listExportRows } from '@/db/queries/exports';
 import { getProject } from '@/db/queries/projects';
-import { conditionalProjectRead, rigRoute } from '@/lib/api-v1/handler';
-import { idOr404 } from '@/lib/api-v1/lookup';
+import { conditionalProjectRead, rigRoute } from '@/lib/server/api-v1/handler';
+import { idOr404 } from '@/lib/server/api-v1/lookup';
 import { notFound } from '@/lib/errors';
-import { csvBytes, csvHeaders, fileSlug, readingsCsv } from '@/lib/reports/csv';
+import { csvBytes, csvHeaders, fileSlug, readingsCsv } from '@/lib/server/reports/csv';
 
 /** The project's readings as the app's CSV export; ETag from the project's data version. */
 export const GET = rigRoute(

@@ -1,6 +1,6 @@
 import { listNewestReadingsPage } from '@/db/queries/trends';
-import { conditionalProjectRead, rigRoute, v1Bytes } from '@/lib/api-v1/handler';
-import { idOr404 } from '@/lib/api-v1/lookup';
+import { conditionalProjectRead, rigRoute, v1Bytes } from '@/lib/server/api-v1/handler';
+import { idOr404 } from '@/lib/server/api-v1/lookup';
 
 /** The readings list of a project, a page at a time: ?limit=1…500 (50) and ?offset=0…; ETag from the project's data version. */
 export const GET = rigRoute(

@@ -1,7 +1,7 @@
 import { listTargets } from '@/db/queries/targets';
 import { getProjectTrend } from '@/db/queries/trends';
-import { conditionalProjectRead, rigRoute, v1Bytes } from '@/lib/api-v1/handler';
-import { idOr404 } from '@/lib/api-v1/lookup';
+import { conditionalProjectRead, rigRoute, v1Bytes } from '@/lib/server/api-v1/handler';
+import { idOr404 } from '@/lib/server/api-v1/lookup';
 import { notFound } from '@/lib/errors';
 import { toTrendAnswer } from '@/lib/targets/trend-answer';
 

@@ -3,7 +3,7 @@
 import { revalidatePath } from 'next/cache';
 import { z } from 'zod';
 import { getRevisionStack, saveRevisionStack } from '@/db/queries/stacks';
-import { formAction } from '@/lib/auth/action';
+import { formAction } from '@/lib/server/auth/action';
 import { AppError, notFound, zodFieldErrors } from '@/lib/errors';
 import { uuidSchema } from '@/lib/schemas/common';
 import { stackSchema, variantStacksSchema, type VariantStacks } from '@/lib/schemas/stack';

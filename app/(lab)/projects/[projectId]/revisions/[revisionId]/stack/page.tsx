@@ -11,7 +11,7 @@ import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
 import { getProject } from '@/db/queries/projects';
 import { getRevisionStack, listMeasuredForPlanner, listRevisionsWithStacks } from '@/db/queries/stacks';
 import { can } from '@/lib/auth/permissions';
-import { requireActor } from '@/lib/auth/session';
+import { requireActor } from '@/lib/server/auth/session';
 import { uuidSchema } from '@/lib/schemas/common';
 
 export const metadata: Metadata = { title: 'Stack planner' };

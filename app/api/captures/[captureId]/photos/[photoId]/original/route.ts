@@ -1,4 +1,4 @@
-import { withAuth } from '@/lib/auth/with-auth';
+import { withAuth } from '@/lib/server/auth/with-auth';
 import { servePhoto } from '../serve';
 
 export const GET = withAuth<{ captureId: string; photoId: string }>(

@@ -1,6 +1,6 @@
 import { getPhoto, setPhotoEncoding } from '@/db/queries/photos';
-import { rigRoute, v1Answer } from '@/lib/api-v1/handler';
-import { captureSetOr404, idOr404 } from '@/lib/api-v1/lookup';
+import { rigRoute, v1Answer } from '@/lib/server/api-v1/handler';
+import { captureSetOr404, idOr404 } from '@/lib/server/api-v1/lookup';
 import { AppError, notFound } from '@/lib/errors';
 
 /** Declares how this photo's values encode light ({ encoding: 'linear' | 'srgb' | null }); null follows the set and the file. */

@@ -1,8 +1,8 @@
 import { listPhotos } from '@/db/queries/photos';
 import { getRegionTemplate } from '@/db/queries/region-templates';
 import { replaceRegions } from '@/db/queries/regions';
-import { rigRoute, v1Answer } from '@/lib/api-v1/handler';
-import { captureSetOr404 } from '@/lib/api-v1/lookup';
+import { rigRoute, v1Answer } from '@/lib/server/api-v1/handler';
+import { captureSetOr404 } from '@/lib/server/api-v1/lookup';
 import { AppError, notFound } from '@/lib/errors';
 import type { RegionInput } from '@/lib/schemas/region';
 
