@@ -5,5 +5,6 @@ export { checkerboardPattern, checkerboardCell } from './checkerboard';
 export { GREY_STEPS, GREY_STEP_LINEAR, greyStepAt, greyStepsPattern, type GreyStep } from './grey-steps';
 export { uniformityPattern, uniformityPoint, UNIFORMITY_MARK_LEVEL } from './uniformity';
 export { orientationPattern, orientationLayout, type OrientationLayout } from './orientation';
+export { slantedEdgePattern, slantedEdgeLayout, SLANTED_EDGE_ANGLE_DEG, SLANTED_EDGE_SQUARE_SHARE, type SlantedEdgeLayout } from './slanted-edge';
 export { PATTERN_PRESETS, type PatternPreset } from './presets';
 export { PATTERN_KINDS, isPatternKind, renderPattern, type PatternKind } from './render-pattern';

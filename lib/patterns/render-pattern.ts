@@ -1,6 +1,7 @@
 import { checkerboardPattern } from './checkerboard';
 import { greyStepsPattern } from './grey-steps';
 import { orientationPattern } from './orientation';
+import { slantedEdgePattern } from './slanted-edge';
 import { blackPattern, whitePattern } from './solid';
 import type { RgbImage } from './types';
 import { uniformityPattern } from './uniformity';
@@ -14,6 +15,7 @@ export const PATTERN_KINDS = [
   'uniformity',
   'grey-steps',
   'orientation',
+  'slanted-edge',
 ] as const;
 
 export type PatternKind = (typeof PATTERN_KINDS)[number];
@@ -40,6 +42,8 @@ export function renderPattern(kind: PatternKind, width: number, height: number):
       return greyStepsPattern(width, height);
     case 'orientation':
       return orientationPattern(width, height);
+    case 'slanted-edge':
+      return slantedEdgePattern(width, height);
     default:
       throw new RangeError(`Unknown pattern kind: ${String(kind)}`);
   }

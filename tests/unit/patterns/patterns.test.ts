@@ -13,7 +13,7 @@ import {
 import { equal, grey, mirrorX, mirrorY, px, rotate180, rotate90 } from './helpers';
 
 describe('every pattern kind', () => {
-  it('lists the seven kinds the route serves', () => {
+  it('lists the eight kinds the route serves', () => {
     expect([...PATTERN_KINDS]).toEqual([
       'white',
       'black',
@@ -22,6 +22,7 @@ describe('every pattern kind', () => {
       'uniformity',
       'grey-steps',
       'orientation',
+      'slanted-edge',
     ]);
   });
   for (const kind of PATTERN_KINDS) {
