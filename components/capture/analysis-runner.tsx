@@ -5,8 +5,12 @@ import { useRouter } from 'next/navigation';
 import { useEffect, useRef, useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { useAnalysisStatus, useStartAnalysis } from '@/lib/hooks/use-analysis';
+import { useRegionDraft } from './region-editor-draft';
 
-/** "Analyse" and the live progress of the newest analysis; the page reloads its readings when it ends. */
+/**
+ * "Analyse" and the live progress of the newest analysis; the page reloads its readings when it ends.
+ * Region edits not yet saved are saved first, and a failed save analyses nothing.
+ */
 export function AnalysisRunner({
   captureSetId,
   current,
@@ -27,7 +31,9 @@ export function AnalysisRunner({
   const [analysisId, setAnalysisId] = useState<string | null>(current);
   const [notice, setNotice] = useState<string | null>(null);
   const [error, setError] = useState<string | null>(null);
+  const [savingRegions, setSavingRegions] = useState(false);
   const start = useStartAnalysis(captureSetId);
+  const draft = useRegionDraft();
   const status = useAnalysisStatus(analysisId);
   const a = status.data?.analysis;
   const finished = useRef<string | null>(null);
@@ -39,12 +45,21 @@ export function AnalysisRunner({
     router.refresh();
   }, [a, router]);
 
-  const busy = a?.status === 'queued' || a?.status === 'running';
+  const busy = savingRegions || a?.status === 'queued' || a?.status === 'running';
   const percent = a ? (a.status === 'done' ? 100 : a.progress) : 0;
 
   const run = async () => {
     setError(null);
     setNotice(null);
+    if (draft) {
+      setSavingRegions(true);
+      const saved = await draft.flush();
+      setSavingRegions(false);
+      if (!saved.ok) {
+        setError(`Nothing was analysed: the region edits could not be saved. ${saved.message}`);
+        return;
+      }
+    }
     try {
       const out = await start.mutateAsync();
       finished.current = null;
@@ -64,7 +79,7 @@ export function AnalysisRunner({
           </span>
           {canRun ? (
             <Button type="button" tone="quiet" disabled={!ready || start.isPending || busy} onClick={run}>
-              {busy ? 'Re-analysing…' : `Re-analyse with engine ${outdated.currentEngine}`}
+              {savingRegions ? 'Saving regions…' : busy ? 'Re-analysing…' : `Re-analyse with engine ${outdated.currentEngine}`}
             </Button>
           ) : null}
         </div>
@@ -76,10 +91,20 @@ export function AnalysisRunner({
             disabled={!ready || start.isPending || busy}
             onClick={run}
           >
-            {start.isPending ? 'Queuing…' : busy ? 'Analysing…' : current ? 'Analyse again' : 'Analyse'}
+            {savingRegions ? 'Saving regions…' : start.isPending ? 'Queuing…' : busy ? 'Analysing…' : current ? 'Analyse again' : 'Analyse'}
           </Button>
           {!ready ? <span className="text-xs text-muted">{readyHint}</span> : null}
+          {ready && draft?.unsaved && !savingRegions ? (
+            <span className="text-xs text-warn" data-testid="unsaved-regions-hint">
+              The region edits are not saved yet: analysing saves them first.
+            </span>
+          ) : null}
         </div>
+      ) : null}
+      {savingRegions ? (
+        <p role="status" className="text-sm text-ink" data-testid="saving-regions">
+          Saving regions…
+        </p>
       ) : null}
       {notice ? (
         <p role="status" className="rounded-md border border-warn/50 bg-warn/10 px-3 py-2 text-sm text-ink">

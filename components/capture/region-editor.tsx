@@ -2,24 +2,71 @@
 
 import clsx from 'clsx';
 import { useRouter } from 'next/navigation';
-import { useRef, useState } from 'react';
+import { useCallback, useEffect, useLayoutEffect, useRef, useState } from 'react';
 import { Button } from '@/components/ui/button';
+import { ApiRequestError } from '@/lib/hooks/api';
 import { useApplyTemplate, useDetectScreen, useSaveRegions, useSaveTemplate, useTemplates, type EditableRegion } from '@/lib/hooks/use-regions';
 import { REGION_KINDS, type RegionKind } from '@/lib/schemas/region';
-import { dragRegion, ghostRect, handleSize, hitTest, nudgeRegion, putRegion, screenToPhoto, strokeWidth, type Drag, type Rect } from './region-editor-model';
+import { useRegionDraft, type FlushResult } from './region-editor-draft';
+import {
+  applyDrag,
+  checkDraft,
+  cursorFor,
+  dashArray,
+  draftChanged,
+  draftOf,
+  dragHint,
+  ghostRect,
+  handleSize,
+  hitTest,
+  KEY_HINT,
+  keyAction,
+  putRegion,
+  RECT_FIELDS,
+  REGION_STYLE,
+  sameRegions,
+  screenToPhoto,
+  strokeWidth,
+  toolTarget,
+  TOOLS,
+  type Drag,
+  type Hit,
+  type KeyMode,
+  type Rect,
+  type RectDraft,
+  type RectField,
+  type Tool,
+} from './region-editor-model';
 
-const COLOURS: Record<RegionKind, string> = { screen: 'rgb(var(--beam))', background: 'rgb(var(--pass))', ghost: 'rgb(var(--glow))' };
-const KIND_TEXT: Record<RegionKind, string> = { screen: 'Screen', background: 'Background', ghost: 'Ghost' };
 const ZOOMS = [1, 2, 4, 8];
+const FIELD_TEXT: Record<RectField, string> = { x: 'x', y: 'y', w: 'width', h: 'height' };
+const UNMARKED: Record<RegionKind, string> = {
+  screen: 'not marked: the worker will detect it',
+  background: 'not marked: transmission is taken over the screen',
+  ghost: 'not marked: the worker looks for one',
+};
+// a drawing shorter than this many screen pixels on both axes is a click, not a rectangle
+const MIN_DRAW_SCREEN_PX = 4;
 
 /** The ghost the shown reading detected: its offset from the screen that reading measured. */
 export type DetectedGhost = { screen: Rect; dx: number; dy: number; ratio: number; snr: number | null };
 
 const fmt1 = (v: number) => (Number.isInteger(v) ? String(v) : v.toFixed(1));
 
+/** A short line in a kind's colour and dash pattern, on black as on the photo: the legend's key. */
+export function RegionSwatch({ kind }: { kind: RegionKind }) {
+  const s = REGION_STYLE[kind];
+  return (
+    <svg width="30" height="12" viewBox="0 0 30 12" aria-hidden="true" className="inline-block shrink-0 rounded-sm bg-black align-middle" data-pattern={s.pattern}>
+      <line x1="3" y1="6" x2="27" y2="6" stroke={s.colour} strokeWidth="2.5" strokeDasharray={dashArray(s.pattern, 2.5)} />
+    </svg>
+  );
+}
+
 /**
  * The on photo's preview with the screen, background and ghost rectangles. Everything is kept in
  * full-resolution pixels: the SVG's viewBox is the photo's real size, whatever the preview's.
+ * The chosen tool decides what a drag does (`hitTest`), and the line above the photo says it.
  */
 export function RegionEditor({
   captureSetId,
@@ -38,104 +85,214 @@ export function RegionEditor({
   const W = photo.width;
   const H = photo.height;
   const [regions, setRegions] = useState<EditableRegion[]>(initial);
-  const [active, setActive] = useState<RegionKind>('screen');
+  const [saved, setSaved] = useState<EditableRegion[]>(initial);
+  const [tool, setTool] = useState<Tool>(() => (initial.some((r) => r.kind === 'screen') ? 'select' : 'screen'));
+  const [selected, setSelected] = useState<RegionKind | null>(() => (initial.some((r) => r.kind === 'screen') ? 'screen' : null));
+  const [keyMode, setKeyMode] = useState<KeyMode>('move');
+  const [hover, setHover] = useState<Hit | null>(null);
   const [zoom, setZoom] = useState(1);
-  const [dirty, setDirty] = useState(false);
+  const [drafts, setDrafts] = useState<Partial<Record<RegionKind, RectDraft>>>({});
+  const [draftErrors, setDraftErrors] = useState<Partial<Record<RegionKind, Partial<Record<RectField, string>>>>>({});
   const [note, setNote] = useState<{ tone: 'ok' | 'bad'; text: string } | null>(null);
   const [templateName, setTemplateName] = useState('');
   const svgRef = useRef<SVGSVGElement>(null);
-  const drag = useRef<Drag | null>(null);
+  const drag = useRef<(Drag & { before: EditableRegion[]; minDraw: number }) | null>(null);
   const save = useSaveRegions(captureSetId);
   const detect = useDetectScreen(captureSetId);
   const templates = useTemplates(captureSetId);
   const saveTemplate = useSaveTemplate(captureSetId);
   const applyTemplate = useApplyTemplate(captureSetId);
+  const draft = useRegionDraft();
 
   const handle = handleSize(W);
   const stroke = strokeWidth(W);
   const get = (kind: RegionKind) => regions.find((r) => r.kind === kind) ?? null;
-  const put = (r: EditableRegion) => {
-    setRegions((all) => putRegion(all, r, W, H));
-    setDirty(true);
+  const target = toolTarget(tool, selected);
+  const pendingKinds = REGION_KINDS.filter((k) => drafts[k] && draftChanged(drafts[k] as RectDraft, get(k)));
+  const unsaved = !sameRegions(regions, saved) || pendingKinds.length > 0;
+
+  // the page's Analyse button saves what is shown here first
+  const latest = useRef({ regions, saved, drafts });
+  useLayoutEffect(() => {
+    latest.current = { regions, saved, drafts };
+  }, [regions, saved, drafts]);
+  useEffect(() => {
+    draft?.setUnsaved(unsaved);
+  }, [draft, unsaved]);
+
+  const change = (next: EditableRegion[]) => {
+    setRegions(next);
     setNote(null);
   };
 
   const toPhoto = (e: React.PointerEvent) => screenToPhoto(e.clientX, e.clientY, (svgRef.current as SVGSVGElement).getBoundingClientRect(), W, H);
 
-  const onSvgDown = (e: React.PointerEvent<SVGSVGElement>) => {
-    if (!canWrite) return;
-    e.stopPropagation();
-    (e.target as Element).setPointerCapture?.(e.pointerId);
+  const onDown = (e: React.PointerEvent<SVGSVGElement>) => {
+    if (!canWrite || e.button !== 0) return;
+    e.preventDefault();
+    e.currentTarget.setPointerCapture?.(e.pointerId);
     const p = toPhoto(e);
-    const hit = hitTest(regions, p, active, handle);
-    setActive(hit.kind);
-    drag.current = { ...hit, start: p, orig: get(hit.kind) };
+    const hit = hitTest(regions, p, tool, handle, selected);
+    if (hit.mode === 'none') {
+      setSelected(null);
+      return;
+    }
+    if (tool === 'select') setSelected(hit.kind);
+    const box = (svgRef.current as SVGSVGElement).getBoundingClientRect();
+    const minDraw = box.width > 0 ? (MIN_DRAW_SCREEN_PX * W) / box.width : 0;
+    drag.current = { ...hit, start: p, orig: get(hit.kind), before: regions, minDraw };
   };
 
   const onMove = (e: React.PointerEvent) => {
+    const p = toPhoto(e);
     const d = drag.current;
-    if (!d) return;
-    const next = dragRegion(d, toPhoto(e));
-    if (next) put(next);
+    if (!d) {
+      if (canWrite) setHover(hitTest(regions, p, tool, handle, selected));
+      return;
+    }
+    change(applyDrag(regions, d, p, W, H, d.minDraw));
   };
 
   const onUp = () => {
     drag.current = null;
   };
 
-  // arrows move the selected rectangle by one pixel (Shift: 10); with Alt they change its size
   const onKey = (e: React.KeyboardEvent) => {
-    const r = get(active);
-    if (!r || !canWrite) return;
-    const next = nudgeRegion(r, e.key, { shift: e.shiftKey, alt: e.altKey });
-    if (!next) return;
+    if (!canWrite) return;
+    const a = keyAction(e, target ? get(target) : null, keyMode, W, H);
+    if (!a) return;
     e.preventDefault();
-    put(next);
+    if (a.type === 'toggle-mode') setKeyMode((m) => (m === 'move' ? 'resize' : 'move'));
+    else if (a.type === 'cancel') {
+      if (drag.current) change(drag.current.before);
+      drag.current = null;
+    } else change(putRegion(regions, a.region, W, H, keyMode === 'move' ? 'move' : 'crop'));
   };
 
-  const doSave = async () => {
-    try {
-      const out = await save.mutateAsync(regions);
-      setRegions(out.regions);
-      setDirty(false);
-      setNote({ tone: 'ok', text: 'Regions saved' });
-      router.refresh();
-    } catch (e) {
-      setNote({ tone: 'bad', text: (e as Error).message });
-    }
+  const pickTool = (t: Tool) => {
+    setTool(t);
+    if (t !== 'select') setSelected(t);
+    setHover(null);
   };
+
+  // typed values: kept as text while typed, applied on Enter or when the focus leaves the region's fields
+  const typeField = (kind: RegionKind, f: RectField, value: string) => {
+    setDrafts((all) => ({ ...all, [kind]: { ...(all[kind] ?? draftOf(get(kind))), [f]: value } }));
+    setDraftErrors((all) => ({ ...all, [kind]: { ...all[kind], [f]: undefined } }));
+  };
+
+  const commitDraft = (kind: RegionKind) => {
+    const d = drafts[kind];
+    if (!d || !draftChanged(d, get(kind))) {
+      setDrafts((all) => ({ ...all, [kind]: undefined }));
+      setDraftErrors((all) => ({ ...all, [kind]: undefined }));
+      return;
+    }
+    const c = checkDraft(d, W, H);
+    if (!c.ok) {
+      setDraftErrors((all) => ({ ...all, [kind]: c.errors }));
+      return;
+    }
+    change(putRegion(regions, { ...c.rect, kind, source: 'marked' }, W, H, 'crop'));
+    setDrafts((all) => ({ ...all, [kind]: undefined }));
+    setDraftErrors((all) => ({ ...all, [kind]: undefined }));
+    if (tool === 'select') setSelected(kind);
+  };
+
+  const storeRegions = useCallback(
+    async (next: EditableRegion[]): Promise<FlushResult> => {
+      try {
+        const out = await save.mutateAsync(next);
+        setRegions(out.regions);
+        setSaved(out.regions);
+        setDrafts({});
+        setDraftErrors({});
+        setNote({ tone: 'ok', text: 'Regions saved' });
+        router.refresh();
+        return { ok: true, saved: true };
+      } catch (e) {
+        const fields = e instanceof ApiRequestError && e.fieldErrors ? Object.values(e.fieldErrors).flat() : [];
+        const text = [(e as Error).message, ...fields].join(': ');
+        setNote({ tone: 'bad', text: `The regions were not saved. ${text}` });
+        return { ok: false, message: text };
+      }
+    },
+    [save, router],
+  );
+
+  /** Saves every edit shown, typed values not yet applied included; refuses when a typed value is wrong. */
+  const flush = useCallback(async (): Promise<FlushResult> => {
+    const { regions: shown, saved: stored, drafts: typed } = latest.current;
+    let next = shown;
+    for (const kind of REGION_KINDS) {
+      const d = typed[kind];
+      const current = shown.find((r) => r.kind === kind) ?? null;
+      if (!d || !draftChanged(d, current)) continue;
+      const c = checkDraft(d, W, H);
+      if (!c.ok) {
+        setDraftErrors((all) => ({ ...all, [kind]: c.errors }));
+        const first = Object.values(c.errors)[0] ?? 'a value is not valid';
+        return { ok: false, message: `The typed ${REGION_STYLE[kind].name.toLowerCase()} values are not valid: ${first}` };
+      }
+      next = putRegion(next, { ...c.rect, kind, source: 'marked' }, W, H, 'crop');
+    }
+    if (sameRegions(next, stored)) return { ok: true, saved: false };
+    setRegions(next);
+    return storeRegions(next);
+  }, [W, H, storeRegions]);
+
+  useEffect(() => {
+    if (!draft || !canWrite) return;
+    draft.register(flush);
+    return () => draft.register(null);
+  }, [draft, flush, canWrite]);
 
   const doDetect = async () => {
     try {
       const { screen } = await detect.mutateAsync();
-      put({ ...screen, kind: 'screen', source: 'detected' });
-      setActive('screen');
+      change(putRegion(regions, { ...screen, kind: 'screen', source: 'detected' }, W, H));
+      pickTool('screen');
       setNote({ tone: 'ok', text: `Screen found at ${screen.x}, ${screen.y}, ${screen.w} × ${screen.h} px: check it, then save` });
     } catch (e) {
       setNote({ tone: 'bad', text: (e as Error).message });
     }
   };
 
-  const sel = get(active);
+  const sel = target ? get(target) : null;
   // a ghost the reading detected (a marked one is drawn as a region already)
   const ghostOnPhoto = detectedGhost ? ghostRect(detectedGhost.screen, detectedGhost, W, H) : null;
+  const hint = hover
+    ? dragHint(hover, regions)
+    : tool === 'select'
+      ? 'Select: drag a rectangle to move it, a corner of the selected one to resize it.'
+      : `${REGION_STYLE[tool].name} tool: drag anywhere, also over another rectangle, to draw the ${tool}; drag inside the ${tool} to move it, a corner to resize it.`;
+  const label = (stroke * 7).toFixed(1);
 
   return (
     <div className="space-y-3">
       <div className="flex flex-wrap items-center gap-2" role="toolbar" aria-label="Region tools">
-        {REGION_KINDS.map((k) => (
-          <button
-            key={k}
-            type="button"
-            onClick={() => setActive(k)}
-            aria-pressed={active === k}
-            className={clsx('rounded-md border px-2.5 py-1 text-xs', active === k ? 'border-beam bg-beam/15 text-ink' : 'border-line text-muted hover:text-ink')}
-          >
-            <span className="mr-1 inline-block h-2 w-2 rounded-sm" style={{ background: COLOURS[k] }} />
-            {KIND_TEXT[k]}
-            {get(k) ? '' : ' (none)'}
-          </button>
-        ))}
+        {canWrite
+          ? TOOLS.map((t) => (
+              <button
+                key={t}
+                type="button"
+                onClick={() => pickTool(t)}
+                aria-pressed={tool === t}
+                data-tool={t}
+                className={clsx('inline-flex items-center gap-1.5 rounded-md border px-2.5 py-1 text-xs', tool === t ? 'border-beam bg-beam/15 text-ink' : 'border-line text-muted hover:text-ink')}
+              >
+                {t === 'select' ? (
+                  'Select / move'
+                ) : (
+                  <>
+                    {REGION_STYLE[t].name}
+                    <RegionSwatch kind={t} />
+                    {get(t) ? '' : ' (none)'}
+                  </>
+                )}
+              </button>
+            ))
+          : null}
         <span className="mx-1 h-5 w-px bg-line" />
         <span className="text-xs text-muted">Zoom</span>
         {ZOOMS.map((z) => (
@@ -149,23 +306,53 @@ export function RegionEditor({
             <Button type="button" tone="quiet" onClick={doDetect} disabled={detect.isPending}>
               {detect.isPending ? 'Detecting…' : 'Detect screen'}
             </Button>
-            {sel ? (
-              <Button type="button" tone="quiet" onClick={() => { setRegions((all) => all.filter((r) => r.kind !== active)); setDirty(true); }}>
-                Remove {KIND_TEXT[active].toLowerCase()}
+            {sel && target ? (
+              <Button
+                type="button"
+                tone="quiet"
+                onClick={() => {
+                  change(regions.filter((r) => r.kind !== target));
+                  setDrafts((all) => ({ ...all, [target]: undefined }));
+                }}
+              >
+                Remove {REGION_STYLE[target].name.toLowerCase()}
               </Button>
             ) : null}
-            <Button type="button" onClick={doSave} disabled={save.isPending || !dirty}>
-              {save.isPending ? 'Saving…' : dirty ? 'Save regions' : 'Saved'}
+            <Button
+              type="button"
+              onClick={async () => {
+                const out = await flush();
+                if (!out.ok) setNote({ tone: 'bad', text: `The regions were not saved. ${out.message}` });
+              }}
+              disabled={save.isPending || !unsaved}
+            >
+              {save.isPending ? 'Saving…' : unsaved ? 'Save regions' : 'Saved'}
             </Button>
           </>
         ) : null}
       </div>
 
+      {canWrite ? (
+        <div className="flex flex-wrap items-center justify-between gap-2 text-xs">
+          <p className="text-ink" data-testid="drag-hint" aria-live="polite">
+            {hint}
+          </p>
+          <div className="flex items-center gap-1" role="group" aria-label="Arrow keys">
+            <span className="text-muted">Arrow keys (R):</span>
+            {(['move', 'resize'] as const).map((m) => (
+              <button key={m} type="button" onClick={() => setKeyMode(m)} aria-pressed={keyMode === m} className={clsx('rounded px-2 py-0.5', keyMode === m ? 'bg-raised text-ink' : 'text-muted hover:text-ink')}>
+                {m === 'move' ? 'Move' : 'Resize'}
+              </button>
+            ))}
+          </div>
+        </div>
+      ) : null}
+
       <div
         className="max-h-[70vh] overflow-auto rounded-md border border-line bg-black outline-none focus-visible:ring-2 focus-visible:ring-beam"
         tabIndex={0}
         onKeyDown={onKey}
-        aria-label={`On photo, ${W} × ${H} pixels. Drag to draw the ${KIND_TEXT[active].toLowerCase()}; arrow keys move it, Alt+arrows resize, Shift for 10 px.`}
+        aria-label={`On photo, ${W} × ${H} pixels. ${canWrite ? KEY_HINT : ''}`}
         data-testid="region-canvas"
       >
         <div className="relative" style={{ width: `${zoom * 100}%` }}>
@@ -175,92 +362,162 @@ export function RegionEditor({
             ref={svgRef}
             viewBox={`0 0 ${W} ${H}`}
             preserveAspectRatio="none"
-            className={clsx('absolute inset-0 h-full w-full', canWrite && 'cursor-crosshair')}
-            onPointerDown={onSvgDown}
+            className="absolute inset-0 h-full w-full touch-none"
+            style={{ cursor: canWrite ? cursorFor(hover ?? (tool === 'select' ? { mode: 'none', kind: null } : { mode: 'draw', kind: tool })) : undefined }}
+            onPointerDown={onDown}
             onPointerMove={onMove}
             onPointerUp={onUp}
             onPointerCancel={onUp}
+            onPointerLeave={() => setHover(null)}
             data-testid="region-svg"
+            data-tool={tool}
           >
             {ghostOnPhoto && detectedGhost ? (
               <g data-testid="detected-ghost" pointerEvents="none">
-                <rect x={ghostOnPhoto.x} y={ghostOnPhoto.y} width={ghostOnPhoto.w} height={ghostOnPhoto.h} fill="none" stroke={COLOURS.ghost} strokeWidth={stroke} strokeDasharray={`${stroke * 2} ${stroke * 3}`} />
-                <text x={ghostOnPhoto.x + stroke * 3} y={ghostOnPhoto.y + ghostOnPhoto.h - stroke * 3} fill={COLOURS.ghost} fontSize={stroke * 9}>
+                <rect x={ghostOnPhoto.x} y={ghostOnPhoto.y} width={ghostOnPhoto.w} height={ghostOnPhoto.h} fill="none" stroke={REGION_STYLE.ghost.colour} strokeWidth={stroke} strokeDasharray={`${stroke * 4} ${stroke * 2} ${stroke} ${stroke * 2}`} />
+                <text x={ghostOnPhoto.x + stroke * 3} y={ghostOnPhoto.y + ghostOnPhoto.h - stroke * 3} fill={REGION_STYLE.ghost.colour} stroke="black" strokeWidth={stroke} paintOrder="stroke" fontSize={label}>
                   detected ghost
                 </text>
               </g>
             ) : null}
-            {regions.map((r) => (
-              <g key={r.kind} data-testid={`region-${r.kind}`}>
-                <rect
-                  x={r.x}
-                  y={r.y}
-                  width={r.w}
-                  height={r.h}
-                  fill={COLOURS[r.kind]}
-                  fillOpacity={r.kind === active ? 0.18 : 0.08}
-                  stroke={COLOURS[r.kind]}
-                  strokeWidth={r.kind === active ? stroke * 1.5 : stroke}
-                  strokeDasharray={r.source === 'detected' ? `${stroke * 4} ${stroke * 2}` : undefined}
-                  className={canWrite ? 'cursor-move' : undefined}
-                  data-mode="move"
-                  data-kind={r.kind}
-                />
-                {canWrite && r.kind === active
-                  ? (['nw', 'ne', 'sw', 'se'] as const).map((c) => (
-                      <rect
-                        key={c}
-                        x={(c.endsWith('w') ? r.x : r.x + r.w) - handle / 2}
-                        y={(c.startsWith('n') ? r.y : r.y + r.h) - handle / 2}
-                        width={handle}
-                        height={handle}
-                        fill="rgb(var(--canvas))"
-                        stroke={COLOURS[r.kind]}
-                        strokeWidth={stroke}
-                        className={c === 'nw' || c === 'se' ? 'cursor-nwse-resize' : 'cursor-nesw-resize'}
-                        data-mode="resize"
-                        data-kind={r.kind}
-                        data-corner={c}
-                      />
-                    ))
-                  : null}
-              </g>
-            ))}
+            {regions.map((r) => {
+              const s = REGION_STYLE[r.kind];
+              const on = r.kind === target;
+              const w = on ? stroke * 1.5 : stroke;
+              // labels at different corners, since a ghost nearly covers the screen
+              const atEnd = r.kind === 'ghost';
+              return (
+                <g key={r.kind} data-testid={`region-${r.kind}`} pointerEvents="none">
+                  <rect x={r.x} y={r.y} width={r.w} height={r.h} fill="none" stroke="black" strokeOpacity={0.6} strokeWidth={w * 2.5} />
+                  <rect
+                    x={r.x}
+                    y={r.y}
+                    width={r.w}
+                    height={r.h}
+                    fill={s.colour}
+                    fillOpacity={on ? 0.14 : 0.05}
+                    stroke={s.colour}
+                    strokeWidth={w}
+                    strokeDasharray={dashArray(s.pattern, w)}
+                    data-kind={r.kind}
+                    data-pattern={s.pattern}
+                    data-testid={`rect-${r.kind}`}
+                  />
+                  <text
+                    x={atEnd ? r.x + r.w - stroke * 3 : r.x + stroke * 3}
+                    y={atEnd ? r.y + r.h - stroke * 3 : r.y + stroke * 3 + Number(label)}
+                    textAnchor={atEnd ? 'end' : 'start'}
+                    fill={s.colour}
+                    stroke="black"
+                    strokeWidth={stroke}
+                    paintOrder="stroke"
+                    fontSize={label}
+                    fontWeight={600}
+                    data-testid={`label-${r.kind}`}
+                  >
+                    {s.name}
+                    {r.source === 'marked' ? '' : ` (${r.source})`}
+                  </text>
+                  {canWrite && on
+                    ? (['nw', 'ne', 'sw', 'se'] as const).map((c) => (
+                        <rect
+                          key={c}
+                          x={(c.endsWith('w') ? r.x : r.x + r.w) - handle / 2}
+                          y={(c.startsWith('n') ? r.y : r.y + r.h) - handle / 2}
+                          width={handle}
+                          height={handle}
+                          fill="black"
+                          stroke={s.colour}
+                          strokeWidth={stroke}
+                          data-corner={c}
+                        />
+                      ))
+                    : null}
+                </g>
+              );
+            })}
           </svg>
         </div>
       </div>
+      {canWrite ? <p className="text-xs text-muted">{KEY_HINT}</p> : null}
 
-      <div className="grid gap-2 text-xs sm:grid-cols-3">
+      <div className="grid gap-2 text-xs lg:grid-cols-3" aria-label="Regions, in the photo’s pixels">
         {REGION_KINDS.map((k) => {
           const r = get(k);
+          const s = REGION_STYLE[k];
+          const d = drafts[k] ?? draftOf(r);
+          const errs = draftErrors[k] ?? {};
           return (
-            <div key={k} className="rounded border border-line px-2 py-1.5" data-testid={`coords-${k}`}>
-              <span className="font-semibold" style={{ color: COLOURS[k] }}>
-                {KIND_TEXT[k]}
-              </span>{' '}
-              {r ? (
-                <span className="font-mono text-ink">
-                  x {r.x} · y {r.y} · {r.w} × {r.h} px <span className="text-muted">({r.source})</span>
+            <div
+              key={k}
+              className={clsx('rounded border px-2 py-1.5', k === target ? 'border-beam/60' : 'border-line')}
+              data-testid={`coords-${k}`}
+              onBlur={(e) => {
+                if (canWrite && !e.currentTarget.contains(e.relatedTarget as Node | null)) commitDraft(k);
+              }}
+            >
+              <div className="flex flex-wrap items-center gap-2">
+                <RegionSwatch kind={k} />
+                <span className="font-semibold text-ink">{s.name}</span>
+                <span className="text-muted">
+                  {s.colourName}, {s.pattern}
                 </span>
-              ) : (
-                <span className="text-muted">{k === 'screen' ? 'not marked: the worker will detect it' : k === 'background' ? 'not marked: transmission is taken over the screen' : 'not marked: the worker looks for one'}</span>
+                {r ? <span className="text-muted">({r.source})</span> : null}
+              </div>
+              {canWrite ? (
+                <div className="mt-1.5 grid grid-cols-4 gap-1.5">
+                  {RECT_FIELDS.map((f) => (
+                    <label key={f} className="block">
+                      <span className="block text-[10px] uppercase tracking-wider text-muted">{f}</span>
+                      <input
+                        type="number"
+                        inputMode="numeric"
+                        step={1}
+                        min={f === 'w' || f === 'h' ? 1 : 0}
+                        max={f === 'x' ? W - 1 : f === 'y' ? H - 1 : f === 'w' ? W : H}
+                        value={d[f]}
+                        aria-label={`${s.name} ${FIELD_TEXT[f]} (px)`}
+                        aria-invalid={errs[f] ? true : undefined}
+                        aria-describedby={errs[f] ? `${captureSetId}-${k}-${f}-err` : undefined}
+                        onChange={(e) => typeField(k, f, e.target.value)}
+                        onKeyDown={(e) => {
+                          if (e.key === 'Enter') {
+                            e.preventDefault();
+                            commitDraft(k);
+                          }
+                        }}
+                        className={clsx('w-full rounded border bg-canvas px-1.5 py-0.5 font-mono text-ink', errs[f] ? 'border-fail' : 'border-line')}
+                      />
+                    </label>
+                  ))}
+                </div>
+              ) : r ? (
+                <div className="mt-1 font-mono text-ink">
+                  x {r.x} · y {r.y} · {r.w} × {r.h} px
+                </div>
+              ) : null}
+              {RECT_FIELDS.map((f) =>
+                errs[f] ? (
+                  <p key={f} id={`${captureSetId}-${k}-${f}-err`} role="alert" className="mt-1 text-fail">
+                    {errs[f]}
+                  </p>
+                ) : null,
               )}
+              {r ? null : <p className="mt-1 text-muted">{UNMARKED[k]}</p>}
             </div>
           );
         })}
       </div>
+      {canWrite ? <p className="text-xs text-muted">Type a region’s x, y, width and height in the photo’s pixels (the photo is {W} × {H}); Enter or leaving its fields applies them.</p> : null}
       {detectedGhost ? (
         <p className="text-xs text-muted" data-testid="detected-ghost-note">
-          <span className="font-semibold" style={{ color: COLOURS.ghost }}>
-            Detected ghost
-          </span>{' '}
-          (dashed): the screen of the reading shown below, moved by ({fmt1(detectedGhost.dx)}, {fmt1(detectedGhost.dy)}) px, {(100 * detectedGhost.ratio).toFixed(2)}% of the display light
+          <span className="font-semibold text-ink">Detected ghost</span> (dash-dot): the screen of the reading shown below, moved by ({fmt1(detectedGhost.dx)}, {fmt1(detectedGhost.dy)}) px, {(100 * detectedGhost.ratio).toFixed(2)}% of the display light
           {detectedGhost.snr !== null ? `, ${detectedGhost.snr.toFixed(1)} standard errors above the noise` : ''}.
           {ghostOnPhoto ? '' : ' It lies outside the photo.'} Mark a ghost region only to measure a different one.
         </p>
       ) : null}
       {note ? (
-        <p role={note.tone === 'ok' ? 'status' : 'alert'} className={clsx('text-sm', note.tone === 'ok' ? 'text-pass' : 'text-fail')}>
+        <p role={note.tone === 'ok' ? 'status' : 'alert'} className={clsx('text-sm', note.tone === 'ok' ? 'text-pass' : 'text-fail')} data-testid="region-note">
           {note.text}
         </p>
       ) : null}
@@ -274,8 +531,8 @@ export function RegionEditor({
           <Button
             type="button"
             tone="quiet"
-            disabled={!templateName.trim() || saveTemplate.isPending || dirty}
-            title={dirty ? 'Save the regions first' : undefined}
+            disabled={!templateName.trim() || saveTemplate.isPending || unsaved}
+            title={unsaved ? 'Save the regions first' : undefined}
             onClick={async () => {
               try {
                 await saveTemplate.mutateAsync(templateName.trim());
@@ -301,7 +558,9 @@ export function RegionEditor({
                   try {
                     const out = await applyTemplate.mutateAsync(id);
                     setRegions(out.regions);
-                    setDirty(false);
+                    setSaved(out.regions);
+                    setDrafts({});
+                    setDraftErrors({});
                     setNote({ tone: 'ok', text: 'Template applied and saved' });
                     router.refresh();
                   } catch (err) {
