@@ -5,10 +5,10 @@ import { spawnSync, type ChildProcess } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, relative } from 'node:path';
-import { encode } from 'next-auth/jwt';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { renderCapture, type RenderedCapture } from '../fixtures/capture-generator';
+import { jar, sessionToken } from '../fixtures/request-context';
 import { createTestLab } from '../fixtures/test-lab';
 import { encodeTiff16 } from '../fixtures/tiff16';
 import { removeWorkerBuild, spawnReady, workerArgs } from '../fixtures/worker-process';
@@ -23,21 +23,13 @@ process.env.STORAGE_DIR = join(tmp, 'storage');
 process.env.STORAGE_DRIVER = 'local';
 process.env.QUEUE_PREFIX = prefix;
 
-const jar = new Map<string, string>();
 vi.mock('server-only', () => ({}));
-vi.mock('next/headers', () => ({
-  cookies: async () => ({
-    get: (name: string) => (jar.has(name) ? { name, value: jar.get(name) } : undefined),
-    getAll: () => [...jar].map(([name, value]) => ({ name, value })),
-    set: () => undefined,
-  }),
-}));
+vi.mock('next/headers', () => import('../fixtures/request-context').then((m) => m.nextHeaders));
 
 const { getDb, closeDb } = await import('../../db/index');
 const { getAnalysis } = await import('../../db/queries/analyses');
 const { getReadingForAnalysis } = await import('../../db/queries/readings');
 const { createApiToken } = await import('../../db/queries/api-tokens');
-const { getEnv } = await import('../../lib/env');
 const { getAnalysisQueue } = await import('../../lib/server/queue/producer');
 const createSet = await import('../../app/api/captures/route');
 const uploadPhoto = await import('../../app/api/captures/[captureId]/photos/route');
@@ -129,7 +121,7 @@ beforeAll(async () => {
   // a confirmed address and the user's current session version, as a real sign-in gives
   await getDb()('users').where({ id: lab.userId }).update({ email_verified_at: new Date() });
   const { session_version: sv } = await getDb()('users').where({ id: lab.userId }).first<{ session_version: number }>('session_version');
-  jar.set('next-auth.session-token', await encode({ token: { sub: lab.userId, sv }, secret: getEnv().NEXTAUTH_SECRET }));
+  jar.set('next-auth.session-token', await sessionToken(lab.userId, sv));
   token = (await createApiToken(lab.labId, lab.userId, 'linear rig', ['read', 'capture:write'])).token;
   const env = { ...process.env, QUEUE_PREFIX: prefix, STORAGE_DIR: join(tmp, 'storage'), STORAGE_DRIVER: 'local', WORKER_CONCURRENCY: '1' };
   await spawnReady(workerArgs('--sweep-every=1', '--sweep-grace=1'), { env, what: 'worker', log: logs, track: workers });

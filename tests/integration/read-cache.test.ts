@@ -1,5 +1,4 @@
 import { gunzipSync } from 'node:zlib';
-import { encode } from 'next-auth/jwt';
 import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from 'vitest';
 import { closeDb, getDb } from '../../db/index';
 import { getAnalysis } from '../../db/queries/analyses';
@@ -9,22 +8,15 @@ import { createTarget, listTargets, updateTarget } from '../../db/queries/target
 import { getProjectDataVersion, getProjectTrend, listNewestReadings } from '../../db/queries/trends';
 import { fromTrendAnswer, toTrendAnswer } from '../../lib/targets/trend-answer';
 import { createUserWithLab } from '../../db/queries/users';
-import { getEnv } from '../../lib/env';
 import { stageLabel } from '../../lib/server/queue/jobs';
 import { readingsCsv } from '../../lib/server/reports/csv';
+import { jar, signInAs } from '../fixtures/request-context';
 import { deleteFixtureProject, insertFixtureProject, insertReading, type Fixture, removeTestLabs } from '../fixtures/readings-fixture';
 
 // The route handlers run as in `next start`, with the request's cookies supplied here: a real
 // next-auth session token and the lab cookie.
-const jar = new Map<string, string>();
 vi.mock('server-only', () => ({}));
-vi.mock('next/headers', () => ({
-  cookies: async () => ({
-    get: (name: string) => (jar.has(name) ? { name, value: jar.get(name) } : undefined),
-    getAll: () => [...jar].map(([name, value]) => ({ name, value })),
-    set: () => undefined,
-  }),
-}));
+vi.mock('next/headers', () => import('../fixtures/request-context').then((m) => m.nextHeaders));
 
 const { GET: trendGET } = await import('../../app/api/projects/[projectId]/trend/route');
 const { GET: csvGET } = await import('../../app/api/projects/[projectId]/readings.csv/route');
@@ -37,12 +29,6 @@ let a: { userId: string; labId: string };
 let b: { userId: string; labId: string };
 let both: string;
 let fx: Fixture;
-
-async function signInAs(userId: string, labId?: string): Promise<void> {
-  jar.clear();
-  jar.set('next-auth.session-token', await encode({ token: { sub: userId }, secret: getEnv().NEXTAUTH_SECRET }));
-  if (labId) jar.set('vm-lab', labId);
-}
 
 type Handler = (req: Request, ctx: never) => Promise<Response>;
 async function call(get: Handler, url: string, params: Record<string, string>, headers: Record<string, string> = {}): Promise<{ status: number; headers: Headers; text: string; bytes: Buffer }> {
@@ -192,10 +178,10 @@ describe('read cache of the trend and the readings list', () => {
       expect(r.text).not.toContain('Cache visor');
     }
     // a member of both labs acting in the other one is refused too, though the body is warm
-    await signInAs(both, b.labId);
+    await signInAs(both, { labId: b.labId });
     expect((await trend(fx.projectId)).status).toBe(404);
     expect((await csv(fx.projectId)).status).toBe(404);
-    await signInAs(both, a.labId);
+    await signInAs(both, { labId: a.labId });
     expect((await trend(fx.projectId)).text).toBe(await uncachedTrend(a.labId, fx.projectId));
   });
 

@@ -5,10 +5,10 @@ import type { ChildProcess } from 'node:child_process';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { encode } from 'next-auth/jwt';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { renderCapture } from '../fixtures/capture-generator';
 import { insertReading } from '../fixtures/readings-fixture';
+import { signInAs as signInWithVersion } from '../fixtures/request-context';
 import { addCaptureSet, createTestLab } from '../fixtures/test-lab';
 import { removeWorkerBuild, spawnReady, workerArgs } from '../fixtures/worker-process';
 
@@ -18,18 +18,10 @@ process.env.STORAGE_DIR = join(tmp, 'storage');
 process.env.STORAGE_DRIVER = 'local';
 process.env.QUEUE_PREFIX = prefix;
 
-const jar = new Map<string, string>();
 vi.mock('server-only', () => ({}));
-vi.mock('next/headers', () => ({
-  cookies: async () => ({
-    get: (name: string) => (jar.has(name) ? { name, value: jar.get(name) } : undefined),
-    getAll: () => [...jar].map(([name, value]) => ({ name, value })),
-    set: () => undefined,
-  }),
-}));
+vi.mock('next/headers', () => import('../fixtures/request-context').then((m) => m.nextHeaders));
 
 const { getDb, closeDb } = await import('../../db/index');
-const { getEnv } = await import('../../lib/env');
 const { ENGINE_VERSION } = await import('../../lib/photometry/version');
 const { getAnalysisQueue } = await import('../../lib/server/queue/producer');
 const { compareVersions } = await import('../../db/queries/reanalyses');
@@ -54,8 +46,7 @@ const sets: Record<string, string> = {};
 async function signInAs(userId: string): Promise<void> {
   await getDb()('users').where({ id: userId }).update({ email_verified_at: new Date() });
   const { session_version: sv } = await getDb()('users').where({ id: userId }).first<{ session_version: number }>('session_version');
-  jar.clear();
-  jar.set('next-auth.session-token', await encode({ token: { sub: userId, sv }, secret: getEnv().NEXTAUTH_SECRET }));
+  await signInWithVersion(userId, { sessionVersion: sv });
 }
 
 async function post(body: unknown): Promise<{ status: number; json: { batch: Batch | null; message?: string; error?: { message: string } } }> {

@@ -2,9 +2,9 @@ import { execFileSync } from 'node:child_process';
 import { mkdtempSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { encode } from 'next-auth/jwt';
 import { renderToStaticMarkup } from 'react-dom/server';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import { jar, setRequestHeaders, signInAs as signInWithVersion } from '../fixtures/request-context';
 
 // Accounts and sign-in against real PostgreSQL and Redis: the route handlers, server actions and
 // pages run as in `next start`, with the request's cookies and headers supplied here. Limits are
@@ -16,17 +16,8 @@ process.env.DATA_DIR = dataDir;
 process.env.MAIL_CATCHER = '1';
 delete process.env.SMTP_HOST;
 
-const jar = new Map<string, string>();
-let requestHeaders = new Headers();
 vi.mock('server-only', () => ({}));
-vi.mock('next/headers', () => ({
-  cookies: async () => ({
-    get: (name: string) => (jar.has(name) ? { name, value: jar.get(name) } : undefined),
-    getAll: () => [...jar].map(([name, value]) => ({ name, value })),
-    set: () => undefined,
-  }),
-  headers: async () => requestHeaders,
-}));
+vi.mock('next/headers', () => import('../fixtures/request-context').then((m) => m.nextHeaders));
 // pages redirect by throwing; the test reads where to
 vi.mock('next/navigation', () => ({
   redirect: (to: string) => {
@@ -69,8 +60,7 @@ async function person(name: string, opts: { verified?: boolean; password?: strin
 /** Signs in as next-auth would after a password check: a session JWT carrying the user's session version. */
 async function signInAs(userId: string): Promise<void> {
   const row = await getDb()('users').where({ id: userId }).first<{ session_version?: number }>('*');
-  jar.clear();
-  jar.set('next-auth.session-token', await encode({ token: { sub: userId, sv: row?.session_version ?? 0 }, secret: getEnv().NEXTAUTH_SECRET }));
+  await signInWithVersion(userId, { sessionVersion: row?.session_version ?? 0 });
 }
 
 async function listProjects(): Promise<{ status: number; body: { error?: { code?: string } } }> {
@@ -79,7 +69,7 @@ async function listProjects(): Promise<{ status: number; body: { error?: { code?
 }
 
 function asClient(address: string): void {
-  requestHeaders = new Headers({ [PEER]: address });
+  setRequestHeaders({ [PEER]: address });
 }
 
 function form(fields: Record<string, string>): FormData {

@@ -6,9 +6,9 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Worker } from 'bullmq';
-import { encode } from 'next-auth/jwt';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { renderCapture, type RenderedCapture } from '../fixtures/capture-generator';
+import { jar, sessionToken } from '../fixtures/request-context';
 import { addCaptureSet } from '../fixtures/test-lab';
 
 const tmp = mkdtempSync(join(tmpdir(), 'vm-limits-'));
@@ -18,18 +18,9 @@ process.env.QUEUE_PREFIX = `vmlimits${process.pid}${Date.now().toString(36)}`;
 // one reverse proxy in front of the app, whose X-Forwarded-* headers count (nobody else's do)
 process.env.TRUSTED_PROXIES = '10.0.0.1';
 
-const jar = new Map<string, string>();
 vi.mock('server-only', () => ({}));
 vi.mock('next/cache', () => ({ revalidatePath: () => undefined, revalidateTag: () => undefined }));
-vi.mock('next/headers', () => ({
-  cookies: async () => ({
-    get: (name: string) => (jar.has(name) ? { name, value: jar.get(name) } : undefined),
-    getAll: () => [...jar].map(([name, value]) => ({ name, value })),
-    set: () => undefined,
-    has: (name: string) => jar.has(name),
-  }),
-  headers: async () => new Headers(),
-}));
+vi.mock('next/headers', () => import('../fixtures/request-context').then((m) => m.nextHeaders));
 
 const { getDb, closeDb } = await import('../../db/index');
 const { getEnv } = await import('../../lib/env');
@@ -72,7 +63,7 @@ async function makeLab(name: string): Promise<Lab> {
   const [p] = await db('projects').insert({ lab_id: labId, name: `Visor ${tag}` }).returning<{ id: string }[]>('id');
   const [r] = await db('revisions').insert({ lab_id: labId, project_id: p!.id, label: 'R1', position: 1 }).returning<{ id: string }[]>('id');
   const row = (await db('users').where({ id: userId }).first()) as { session_version?: number };
-  const token = await encode({ token: { sub: userId, sv: row.session_version ?? 0 }, secret: getEnv().NEXTAUTH_SECRET });
+  const token = await sessionToken(userId, row.session_version ?? 0);
   const out = { labId, userId, projectId: p!.id, revisionId: r!.id, cookie: `next-auth.session-token=${token}; vm-lab=${labId}` };
   labs.push(out);
   return out;
