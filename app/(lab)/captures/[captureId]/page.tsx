@@ -6,6 +6,7 @@ import { ProtocolChecklist } from '@/components/capture/protocol-checklist';
 import { QueryProvider } from '@/components/capture/query-provider';
 import { ReadingsPanel } from '@/components/capture/readings-panel';
 import { RegionEditor } from '@/components/capture/region-editor';
+import { RegionDraftProvider } from '@/components/capture/region-editor-draft';
 import { UploadPanel } from '@/components/capture/upload-panel';
 import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
 import { listAnalyses } from '@/db/queries/analyses';
@@ -51,6 +52,7 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
 
   return (
     <QueryProvider>
+      <RegionDraftProvider>
       <PageTitle
         kicker={
           <Link href={`/projects/${set.projectId}/revisions/${set.revisionId}`} className="hover:text-beam">
@@ -132,6 +134,7 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
           </Panel>
         ) : null}
       </div>
+      </RegionDraftProvider>
     </QueryProvider>
   );
 }
