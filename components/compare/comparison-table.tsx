@@ -3,7 +3,7 @@
 import clsx from 'clsx';
 import { useMemo, useState } from 'react';
 import { downloadCsv, ExportCsvBar } from '@/components/ui/csv-download';
-import { SortButton } from '@/components/ui/sort-header';
+import { ariaSortOf, SortButton } from '@/components/ui/sort-header';
 import { formatMetricDifference, formatMetricMeanCi, metricHeading } from '@/lib/format';
 import { formatChange, orderComparisons, testFigures, type ChangeTone, type ComparisonOrder, type MetricComparison } from '@/lib/targets/compare';
 import { TONE_CLASS } from './comparison-chart';
@@ -44,7 +44,7 @@ export function ComparisonTable({ rows, aLabel, bLabel, csvName, tones = {} }: {
       ['Metric', 'n A', `A mean ± CI (${aLabel})`, 'n B', `B mean ± CI (${bLabel})`, 'B − A ± CI', 'Change', 'Welch t', 'df', 'p', 'Verdict'],
       sorted.map((r) => [metricHeading(r.metric), String(r.a.n), formatMetricMeanCi(r.metric, r.a), String(r.b.n), formatMetricMeanCi(r.metric, r.b), differenceText(r), formatChange(r), ...testFigures(r), r.verdict]),
     );
-  const ariaSort = (o: ComparisonOrder) => (o === order ? (reverse ? 'descending' : 'ascending') : 'none');
+  const ariaSort = (o: ComparisonOrder) => ariaSortOf(o === order, reverse);
   return (
     <div>
       <ExportCsvBar onExport={exportCsv} />

@@ -4,7 +4,7 @@ import clsx from 'clsx';
 import Link from 'next/link';
 import { useMemo, useState } from 'react';
 import { downloadCsv, ExportCsvBar } from './csv-download';
-import { SortButton } from './sort-header';
+import { ariaSortOf, SortButton } from './sort-header';
 
 export type Column = { key: string; label: string; numeric?: boolean };
 /**
@@ -47,14 +47,15 @@ export function DataTable({ columns, rows, csvName, empty, testId }: { columns: 
   return (
     <div>
       <ExportCsvBar onExport={exportCsv} />
-      <div className="overflow-x-auto rounded-md border border-line">
+      {/* a table wider than its panel scrolls inside it, never the page */}
+      <div className="overflow-x-auto rounded-md border border-line" data-table-scroll>
         <table className="w-full text-sm" data-testid={testId}>
           <thead className="bg-raised text-left text-xs uppercase tracking-wider text-muted">
             <tr>
               {columns.map((c) => {
                 const active = sortKey === c.key;
                 return (
-                  <th key={c.key} scope="col" className={clsx('px-3 py-2 font-medium', c.numeric && 'text-right')} aria-sort={active ? (desc ? 'descending' : 'ascending') : 'none'}>
+                  <th key={c.key} scope="col" className={clsx('px-3 py-2 align-bottom font-medium', c.numeric && 'text-right')} aria-sort={ariaSortOf(active, desc)}>
                     <SortButton
                       label={c.label}
                       active={active}
@@ -79,7 +80,7 @@ export function DataTable({ columns, rows, csvName, empty, testId }: { columns: 
                   const cell = r.cells[c.key];
                   const text = cell?.node ?? cell?.text ?? '';
                   return (
-                    <td key={c.key} className={clsx('px-3 py-2', c.numeric ? 'whitespace-nowrap text-right font-mono tabular-nums' : i > 0 && 'whitespace-nowrap')}>
+                    <td key={c.key} className={clsx('px-3 py-2 align-top', c.numeric ? 'whitespace-nowrap text-right font-mono tabular-nums' : 'min-w-[6rem] break-words')}>
                       {i === 0 && r.href ? (
                         <Link href={r.href} className="font-medium text-ink hover:text-beam">
                           {text}
