@@ -6,7 +6,7 @@ import { closeDatabase, pingDatabase } from '../db/queries/connection';
 import { getEnv } from '../lib/env';
 import { workerConnection } from '../lib/server/queue/connection';
 import { ANALYSIS_QUEUE } from '../lib/server/queue/names';
-import { sweepAnalyses } from './sweeper';
+import { sweepAnalyses, sweepReanalyses } from './sweeper';
 import { startWebhookDelivery, webhooksMayReachPrivate } from '../lib/server/webhooks/runner';
 
 function numberArg(name: string, fallback: number): number {
@@ -51,6 +51,8 @@ async function main(): Promise<void> {
     try {
       const n = await sweepAnalyses(queue, sweepGrace);
       if (n > 0) console.log(`[worker ${process.pid}] sweeper re-enqueued ${n} analyses`);
+      const m = await sweepReanalyses(queue);
+      if (m > 0) console.log(`[worker ${process.pid}] sweeper queued ${m} waiting re-analyses`);
     } catch (e) {
       // Redis or the database is away; the next sweep tries again
       console.warn(`[worker ${process.pid}] sweep skipped: ${e instanceof Error ? e.message : String(e)}`);
@@ -59,6 +61,8 @@ async function main(): Promise<void> {
     }
   };
   const timer = setInterval(() => void sweep(), Math.max(0.2, sweepEvery) * 1000);
+  // a finished job frees room in its lab's queue: waiting re-analyses go on without the next tick
+  worker.on('completed', () => void sweep());
   const webhooks = startWebhookDelivery({ connection: queueRedis, prefix: env.QUEUE_PREFIX, allowPrivate: webhooksMayReachPrivate(env) });
   void sweep();
   console.log(`[worker ${process.pid}] ready (queue ${env.QUEUE_PREFIX}:${ANALYSIS_QUEUE}, concurrency ${env.WORKER_CONCURRENCY})`);

@@ -3,6 +3,7 @@ import { failAbandonedAnalysis, listUnfinishedAnalyses, requeueLostAnalysis } fr
 import { waitingRank } from '../db/queries/analysis-requests';
 import { addAnalysisJob } from '../lib/server/queue/jobs';
 import { analysisJobId } from '../lib/server/queue/names';
+import { queueWaitingBatches } from '../lib/server/queue/reanalysis';
 
 /**
  * Puts back on the queue every unfinished analysis whose job Redis does not have (Redis restarted
@@ -30,4 +31,9 @@ export async function sweepAnalyses(queue: Queue, graceSeconds: number): Promise
     restored++;
   }
   return restored;
+}
+
+/** Re-analysis batches whose sets the lab's queue could not take yet: asked for again as room frees. */
+export async function sweepReanalyses(queue: Queue): Promise<number> {
+  return queueWaitingBatches(queue);
 }

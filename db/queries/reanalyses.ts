@@ -112,6 +112,21 @@ export async function getBatchProgress(labId: string, batchId: string): Promise<
 }
 
 /**
+ * Batches of every lab with capture sets not queued yet (the lab's queue was full when they were
+ * asked for), oldest first: the worker's sweeper asks for them again as room frees.
+ */
+export async function listBatchesWithWaiting(limit = 50): Promise<{ labId: string; batchId: string; requestedBy: string | null }[]> {
+  const rows: { lab_id: string; id: string; requested_by: string | null }[] = await getDb()('reanalysis_batches as b')
+    .whereExists(function waiting() {
+      this.select(getDb().raw('1')).from('reanalysis_items as i').whereRaw('i.batch_id = b.id AND i.lab_id = b.lab_id').whereNull('i.analysis_id');
+    })
+    .orderBy('b.created_at')
+    .limit(limit)
+    .select('b.lab_id', 'b.id', 'b.requested_by');
+  return rows.map((r) => ({ labId: r.lab_id, batchId: r.id, requestedBy: r.requested_by }));
+}
+
+/**
  * The newest batch over this revision (or the whole project) still running, or finished within
  * `recentMinutes`, so its page keeps showing how it ended; null when there is none.
  */

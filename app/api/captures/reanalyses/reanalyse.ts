@@ -1,23 +1,10 @@
 import 'server-only';
 import { getProject } from '@/db/queries/projects';
-import { attachBatchAnalyses, createReanalysisBatch, getBatchProgress, listOutdatedSets, type BatchProgress } from '@/db/queries/reanalyses';
+import { createReanalysisBatch, getBatchProgress, listOutdatedSets, type BatchProgress } from '@/db/queries/reanalyses';
 import { getRevision } from '@/db/queries/revision-edits';
 import { notFound } from '@/lib/errors';
 import { ENGINE_VERSION } from '@/lib/photometry/version';
-import { requestAnalyses } from '@/lib/server/queue/producer';
-
-/**
- * Queues through the producer the batch's capture sets that are not queued yet. The lab's limit of
- * analyses in flight may refuse some: they stay waiting and are asked for again on the next call.
- */
-export async function queueWaiting(labId: string, userId: string, batch: BatchProgress): Promise<BatchProgress> {
-  if (batch.waitingSetIds.length === 0) return batch;
-  const outcomes = await requestAnalyses(labId, userId, batch.waitingSetIds);
-  const queued = outcomes.flatMap((o) => (o.kind === 'refused' ? [] : [{ captureSetId: o.captureSetId, analysisId: o.analysis.id }]));
-  if (queued.length === 0) return batch;
-  await attachBatchAnalyses(labId, batch.id, queued);
-  return (await getBatchProgress(labId, batch.id)) ?? batch;
-}
+import { queueWaiting } from '@/lib/server/queue/reanalysis';
 
 /**
  * Re-analyses with the current engine every capture set of the project (or of one of its
