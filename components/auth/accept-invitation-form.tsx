@@ -6,7 +6,7 @@ import { useActionState, useEffect, useRef } from 'react';
 import { acceptInvitationAction } from '@/app/(auth)/actions';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
-import type { FormState } from '@/lib/server/auth/action';
+import type { FormState } from '@/lib/form-state';
 
 export function AcceptInvitationForm({ token, email, accountExists }: { token: string; email: string; accountExists: boolean }) {
   const [state, action, pending] = useActionState<FormState, FormData>(acceptInvitationAction, {});

@@ -3,7 +3,7 @@
 import { useActionState } from 'react';
 import { resendVerificationAction } from '@/app/(auth)/actions';
 import { Button } from '@/components/ui/button';
-import type { FormState } from '@/lib/server/auth/action';
+import type { FormState } from '@/lib/form-state';
 
 export function ResendVerificationForm() {
   const [state, action, pending] = useActionState<FormState, FormData>(() => resendVerificationAction(), {});

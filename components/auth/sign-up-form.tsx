@@ -5,7 +5,7 @@ import { useActionState } from 'react';
 import { signUpAction } from '@/app/(auth)/actions';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
-import type { FormState } from '@/lib/server/auth/action';
+import type { FormState } from '@/lib/form-state';
 
 export function SignUpForm() {
   const [state, action, pending] = useActionState<FormState, FormData>(signUpAction, {});

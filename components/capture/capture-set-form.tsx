@@ -6,7 +6,7 @@ import { createCaptureSetAction } from '@/app/(lab)/projects/[projectId]/revisio
 import { FormStatus, keepValues, SelectField, TextArea } from '@/components/revisions/revision-forms';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
-import type { FormState } from '@/lib/server/auth/action';
+import type { FormState } from '@/lib/form-state';
 
 type Values = { label?: string; variant?: string; pattern?: string; tiffEncoding?: string; ambientLux?: number; backgroundCdm2?: number; displayLevel?: string; notes?: string };
 

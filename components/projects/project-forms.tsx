@@ -5,7 +5,7 @@ import { createProjectAction, deleteProjectAction, renameProjectAction } from '@
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { FormStatus } from '@/components/ui/form-status';
-import type { FormState } from '@/lib/server/auth/action';
+import type { FormState } from '@/lib/form-state';
 
 export function CreateProjectForm() {
   const [state, action, pending] = useActionState<FormState, FormData>(createProjectAction, {});

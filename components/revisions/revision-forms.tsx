@@ -4,7 +4,7 @@ import { startTransition, useActionState, useEffect, useRef, type FormEvent } fr
 import { createRevisionAction, updateRevisionAction } from '@/app/(lab)/projects/[projectId]/revisions/actions';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
-import type { FormState } from '@/lib/server/auth/action';
+import type { FormState } from '@/lib/form-state';
 import { REVISION_STATUSES } from '@/lib/schemas/revision';
 
 /**

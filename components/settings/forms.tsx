@@ -5,7 +5,8 @@ import { changeRoleAction, createTokenAction, inviteMemberAction, removeMemberAc
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import { FormStatus } from '@/components/ui/form-status';
-import type { FormState } from '@/lib/server/auth/action';
+import { CheckRow, OneTimeSecret, RowActionButton, type CheckOption } from './one-time-secret';
+import type { FormState } from '@/lib/form-state';
 import { ROLE_LABELS, ROLES, type Role } from '@/lib/auth/permissions';
 
 function RoleSelect({ name, defaultValue, label }: { name: string; defaultValue?: Role; label: string }) {
@@ -70,17 +71,15 @@ export function InviteForm() {
 }
 
 export function RevokeInvitationButton({ id }: { id: string }) {
-  const [state, action, pending] = useActionState<FormState, FormData>(revokeInvitationAction, {});
-  return (
-    <form action={action} className="flex items-center gap-2">
-      <input type="hidden" name="id" value={id} />
-      <Button type="submit" tone="quiet" disabled={pending}>
-        Withdraw
-      </Button>
-      <FormStatus small state={state} />
-    </form>
-  );
+  return <RowActionButton id={id} label="Withdraw" tone="quiet" action={revokeInvitationAction} />;
 }
+
+const TOKEN_SCOPES: CheckOption[] = [
+  { name: 'scopeRead', label: 'read', defaultChecked: true },
+  { name: 'scopeCapture', label: 'capture:write', defaultChecked: true },
+  { name: 'scopeDelete', label: 'capture:delete', title: 'Delete capture sets this token created' },
+  { name: 'scopeExport', label: 'export', title: 'Download the readings CSV' },
+];
 
 export function CreateTokenForm() {
   const [state, action, pending] = useActionState<FormState, FormData>(createTokenAction, {});
@@ -88,49 +87,16 @@ export function CreateTokenForm() {
     <div className="space-y-3">
       <form action={action} className="flex flex-wrap items-end gap-3" noValidate>
         <Field label="Token name" name="name" placeholder="e.g. Bench rig 2" errors={state.fieldErrors?.name} className="min-w-64 flex-1" />
-        <fieldset className="flex items-center gap-3 text-sm">
-          <legend className="sr-only">Scopes</legend>
-          <label className="flex items-center gap-1">
-            <input type="checkbox" name="scopeRead" defaultChecked /> read
-          </label>
-          <label className="flex items-center gap-1">
-            <input type="checkbox" name="scopeCapture" defaultChecked /> capture:write
-          </label>
-          <label className="flex items-center gap-1" title="Delete capture sets this token created">
-            <input type="checkbox" name="scopeDelete" /> capture:delete
-          </label>
-          <label className="flex items-center gap-1" title="Download the readings CSV">
-            <input type="checkbox" name="scopeExport" /> export
-          </label>
-        </fieldset>
+        <CheckRow legend="Scopes" options={TOKEN_SCOPES} />
         <Button type="submit" disabled={pending}>
           Create token
         </Button>
       </form>
-      {state.fieldErrors?.scopes ? <p className="text-xs text-fail">{state.fieldErrors.scopes.join(' ')}</p> : null}
-      {state.secret ? (
-        <div className="rounded-md border border-glow/50 bg-glow/10 p-3 text-sm">
-          <p className="mb-2 text-ink">{state.message}</p>
-          <code data-testid="new-token" className="block break-all rounded bg-canvas px-2 py-1 font-mono text-xs text-glow">
-            {state.secret}
-          </code>
-        </div>
-      ) : (
-        <FormStatus small state={state} />
-      )}
+      <OneTimeSecret state={state} groupError="scopes" testId="new-token" />
     </div>
   );
 }
 
 export function RevokeTokenButton({ id }: { id: string }) {
-  const [state, action, pending] = useActionState<FormState, FormData>(revokeTokenAction, {});
-  return (
-    <form action={action} className="flex items-center gap-2">
-      <input type="hidden" name="id" value={id} />
-      <Button type="submit" tone="danger" disabled={pending}>
-        Revoke
-      </Button>
-      <FormStatus small state={state} />
-    </form>
-  );
+  return <RowActionButton id={id} label="Revoke" tone="danger" action={revokeTokenAction} />;
 }

@@ -5,7 +5,7 @@ import { adoptDefaultTargetAction, createTargetAction, deleteTargetAction, updat
 import { FormStatus, keepValues, SelectField } from '@/components/revisions/revision-forms';
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
-import type { FormState } from '@/lib/server/auth/action';
+import type { FormState } from '@/lib/form-state';
 import { exact, inputUnit, metricHeading, toShown } from '@/lib/format';
 import type { Target } from '@/lib/targets/evaluate';
 import { isMetricKey, METRIC_LIST, type MetricKey } from '@/lib/targets/metrics';

@@ -1,5 +1,5 @@
 import clsx from 'clsx';
-import type { FormState } from '@/lib/server/auth/action';
+import type { FormState } from '@/lib/form-state';
 
 /** A form's answer beside its button: announced politely on success, at once on failure. */
 export function FormStatus({ state, small = false }: { state: FormState; small?: boolean }) {

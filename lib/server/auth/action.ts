@@ -3,9 +3,10 @@ import { ZodError, type z } from 'zod';
 import { AppError, toErrorResponse, zodFieldErrors } from '../../errors';
 import { actorWith, type Actor } from './session';
 import type { Permission } from '../../auth/permissions';
+import type { FormState } from '../../form-state';
 
-/** What every form action returns: field errors to show beside inputs, or a message. */
-export type FormState = { ok?: boolean; message?: string; fieldErrors?: Record<string, string[]>; secret?: string; values?: Record<string, string> };
+// What every form action returns (field errors to show beside inputs, or a message): lib/form-state.ts
+export type { FormState };
 
 /** What the person typed, minus secrets, so a form that failed validation can show it again. */
 export function echoValues(form: FormData): Record<string, string> {
