@@ -47,6 +47,8 @@ ensure_system() {
   local pkgs=()
   [ -n "$PG_BIN" ] || pkgs+=(postgresql)
   command -v redis-server >/dev/null || pkgs+=(redis-server)
+  # camera raw photos are decoded by libraw's command-line tools (lib/image/raw.ts)
+  { command -v dcraw_emu >/dev/null && command -v raw-identify >/dev/null; } || pkgs+=(libraw-bin)
   if [ "${1:-}" = with-browser ] && [ ! -x /usr/bin/chromium ]; then pkgs+=(chromium); fi
   if [ "${#pkgs[@]}" -gt 0 ]; then apt_install "${pkgs[@]}"; find_pg_bin; fi
   [ -n "$PG_BIN" ] || fail "PostgreSQL server binaries not found after install"

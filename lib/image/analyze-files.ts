@@ -6,6 +6,7 @@ import type { CaptureResult } from '../photometry/result';
 import type { Offset, Pattern, PhotoRole, Rect } from '../photometry/types';
 import { renderArtifacts, renderMapImages, type Artifacts, type MapImages } from './artifacts';
 import { decodePhoto } from './decode';
+import { identifyRaw, setWhiteBalance, sniffRaw, type RawWhiteBalance } from './raw';
 
 /**
  * A photo by path or as bytes already in memory (the worker reads from storage). Bytes may carry
@@ -38,6 +39,21 @@ export interface AnalyzeFilesOptions {
 export interface FileAnalysis {
   result: CaptureResult & Pick<BracketedResult, 'brackets'>;
   artifacts: Artifacts | null;
+  /** The one white balance every camera raw photo of the set was decoded with; null without raw photos. */
+  rawWhiteBalance: RawWhiteBalance | null;
+}
+
+/**
+ * The white balance fixed for the whole set (lib/image/raw.ts): the daylight multipliers of its first
+ * raw photo in role order (on, off, ambient, dark; a bracket's first member first). Null without raw.
+ */
+async function setRawWhiteBalance(files: readonly { name: string; bytes: Uint8Array }[], roleOf: (k: number) => PhotoRole): Promise<RawWhiteBalance | null> {
+  for (let k = 0; k < files.length; k++) {
+    const f = files[k] as { name: string; bytes: Uint8Array };
+    const kind = sniffRaw(f.bytes, f.name);
+    if (kind) return setWhiteBalance(await identifyRaw(f.bytes, `the ${roleOf(k)} photo ${f.name}`, kind));
+  }
+  return null;
 }
 
 // a file of several pages (a multi-page TIFF): the decoder measured the first, and the reading says so
@@ -69,13 +85,16 @@ async function analyzeBrackets(options: AnalyzeFilesOptions): Promise<FileAnalys
   const list = (s: RoleSource | null | undefined): PhotoSource[] => (s === null || s === undefined ? [] : Array.isArray(s) ? [...(s as readonly PhotoSource[])] : [s as PhotoSource]);
   const byRole: [PhotoRole, PhotoSource[]][] = [['on', list(options.on)], ['off', list(options.off)], ['ambient', list(options.ambient)], ['dark', list(options.dark)]];
   progress('read', 0);
+  const loaded: [PhotoRole, PhotoSource[], { name: string; bytes: Uint8Array }[]][] = [];
+  for (const [role, sources] of byRole) loaded.push([role, sources, await Promise.all(sources.map((s) => load(s, role)))]);
+  const flat = loaded.flatMap(([role, , files]) => files.map((f) => [role, f] as const));
+  const rawWhiteBalance = await setRawWhiteBalance(flat.map(([, f]) => f), (k) => (flat[k] as readonly [PhotoRole, unknown])[0]);
   const photos: Partial<Record<PhotoRole, CapturePhoto>> = {};
-  for (const [role, sources] of byRole) {
+  for (const [role, sources, files] of loaded) {
     if (sources.length === 0) continue;
-    const files = await Promise.all(sources.map((s) => load(s, role)));
     const decoded = await Promise.all(
       files.map(async (f, i) => {
-        const d = await decodePhoto(f.bytes, { name: sources.length > 1 ? `the ${role} photo ${f.name} (bracket ${i + 1} of ${sources.length})` : `the ${role} photo ${f.name}`, linear16: linearOf(sources[i] as PhotoSource, options) });
+        const d = await decodePhoto(f.bytes, { name: sources.length > 1 ? `the ${role} photo ${f.name} (bracket ${i + 1} of ${sources.length})` : `the ${role} photo ${f.name}`, linear16: linearOf(sources[i] as PhotoSource, options), rawWhiteBalance });
         return { raster: d.raster, exposure: d.exposure, pages: pagesOf(d.pages) } satisfies CapturePhoto;
       }),
     );
@@ -98,7 +117,7 @@ async function analyzeBrackets(options: AnalyzeFilesOptions): Promise<FileAnalys
   });
   const artifacts = options.artifacts !== false ? await renderArtifacts(maps, null) : null;
   progress('done', 1);
-  return { result, artifacts };
+  return { result, artifacts, rawWhiteBalance };
 }
 
 async function analyzeSingles(options: AnalyzeFilesOptions & { on: PhotoSource; off: PhotoSource; ambient: PhotoSource | null; dark: PhotoSource | null }): Promise<FileAnalysis> {
@@ -108,12 +127,13 @@ async function analyzeSingles(options: AnalyzeFilesOptions & { on: PhotoSource; 
   if (options.dark) sources.push(['dark', options.dark]);
   progress('read', 0);
   const files = await Promise.all(sources.map(([role, s]) => load(s, role)));
+  const rawWhiteBalance = await setRawWhiteBalance(files, (k) => (sources[k] as [PhotoRole, PhotoSource])[0]);
   progress('decode', 0.05);
   // each photo's downsampled plane is made as soon as it is decoded, while the others still decode
   const decodeOne = async (k: number, onDecodeStarted?: () => void): Promise<readonly [PhotoRole, CapturePhoto]> => {
     const f = files[k] as { name: string; bytes: Uint8Array };
     const role = (sources[k] as [PhotoRole, PhotoSource])[0];
-    const decoded = await decodePhoto(f.bytes, { name: `the ${role} photo ${f.name}`, linear16: linearOf((sources[k] as [PhotoRole, PhotoSource])[1], options), onDecodeStarted });
+    const decoded = await decodePhoto(f.bytes, { name: `the ${role} photo ${f.name}`, linear16: linearOf((sources[k] as [PhotoRole, PhotoSource])[1], options), onDecodeStarted, rawWhiteBalance });
     const photo: CapturePhoto = { raster: decoded.raster, exposure: decoded.exposure, small: preparePhoto(decoded.raster), pages: pagesOf(decoded.pages) };
     return [role, photo] as const;
   };
@@ -168,5 +188,5 @@ async function analyzeSingles(options: AnalyzeFilesOptions & { on: PhotoSource; 
   });
   const artifacts = wantArtifacts ? await renderArtifacts(maps, early ? await early : null) : null;
   progress('done', 1);
-  return { result, artifacts };
+  return { result, artifacts, rawWhiteBalance };
 }

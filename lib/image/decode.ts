@@ -2,6 +2,7 @@ import sharp, { type Metadata, type OutputInfo } from 'sharp';
 import { EngineInputError } from '../photometry/errors';
 import type { ExposureTags, PhotoRaster } from '../photometry/types';
 import { readExposureTags } from './exif';
+import { decodeRaw, RAW_LIST, sniffRaw, type RawKind, type RawWhiteBalance } from './raw';
 import { refuseUnsupported } from './sniff';
 
 /** Largest photo accepted (docs/method.md §5.1). */
@@ -13,9 +14,11 @@ sharp.concurrency(2);
 export interface DecodedPhoto {
   raster: PhotoRaster;
   exposure: ExposureTags | null;
-  format: 'jpeg' | 'png' | 'tiff' | 'webp';
+  format: 'jpeg' | 'png' | 'tiff' | 'webp' | RawKind;
   /** Pages in the file; only the first (page 0) is decoded and measured. */
   pages: number;
+  /** For a camera raw photo: the white balance it was decoded with (lib/image/raw.ts). */
+  whiteBalance?: RawWhiteBalance;
 }
 
 export interface DecodeOptions {
@@ -25,13 +28,24 @@ export interface DecodeOptions {
   linear16?: boolean;
   /** Called once the pixel decode has been handed to sharp's threads (the caller may then keep the main thread busy). */
   onDecodeStarted?: () => void;
+  /** A camera raw photo is decoded with this white balance, the one fixed for its whole capture set (lib/image/raw.ts). */
+  rawWhiteBalance?: RawWhiteBalance | null;
 }
 
-const SEND = 'send JPEG, PNG, TIFF or WebP';
+const SEND = `send JPEG, PNG, TIFF or WebP, or the camera's raw file (${RAW_LIST})`;
 
-/** Decodes a JPEG/PNG/TIFF/WebP (8 or 16 bit) with EXIF orientation applied, and reads its exposure tags. */
+/**
+ * Decodes a JPEG/PNG/TIFF/WebP (8 or 16 bit) with EXIF orientation applied, and reads its exposure
+ * tags; a camera raw photo is decoded to linear 16-bit by the libraw tools (lib/image/raw.ts), always
+ * read as linear whatever `linear16` says.
+ */
 export async function decodePhoto(buf: Uint8Array, options: DecodeOptions = {}): Promise<DecodedPhoto> {
   const name = options.name ?? 'photo';
+  const rawKind = sniffRaw(buf, name);
+  if (rawKind) {
+    const d = await decodeRaw(buf, { name, kind: rawKind, whiteBalance: options.rawWhiteBalance, onDecodeStarted: options.onDecodeStarted });
+    return { raster: d.raster, exposure: d.exposure, format: rawKind, pages: 1, whiteBalance: d.whiteBalance };
+  }
   refuseUnsupported(buf, name);
   let meta: Metadata;
   try {
@@ -69,7 +83,7 @@ export async function decodePhoto(buf: Uint8Array, options: DecodeOptions = {}):
   }
   const { data, info } = out;
   const channels = info.channels;
-  if (channels !== 1 && channels !== 3) throw new EngineInputError('unsupported-format', `${name} has ${channels} colour channels: ${SEND} in RGB`);
+  if (channels !== 1 && channels !== 3) throw new EngineInputError('unsupported-format', `${name} has ${channels} colour channels: send JPEG, PNG, TIFF or WebP in RGB`);
   const pixels = sixteen
     ? new Uint16Array(data.buffer, data.byteOffset, data.byteLength / 2)
     : new Uint8Array(data.buffer, data.byteOffset, data.byteLength);

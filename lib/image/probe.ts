@@ -3,11 +3,13 @@ import sharp, { type Metadata } from 'sharp';
 import { EngineInputError } from '../photometry/errors';
 import { MAX_PIXELS } from './decode';
 import { encodingFromFile, type FileEncoding } from './encoding';
+import { identifyRaw, RAW_LIST, RAW_TYPES, sniffRaw, type RawKind } from './raw';
 import { refuseUnsupported } from './sniff';
 
 export type ProbedPhoto = {
-  format: 'jpeg' | 'png' | 'tiff' | 'webp';
-  ext: 'jpg' | 'png' | 'tif' | 'webp';
+  /** A camera raw photo has its raw format here (dng, cr2, …): the worker decodes it (lib/image/raw.ts). */
+  format: 'jpeg' | 'png' | 'tiff' | 'webp' | RawKind;
+  ext: 'jpg' | 'png' | 'tif' | 'webp' | string;
   contentType: string;
   /** Size after EXIF orientation, which is how the engine and the editor see the photo. */
   width: number;
@@ -20,7 +22,7 @@ export type ProbedPhoto = {
   exif: { exposureTime?: number; fNumber?: number; iso?: number; make?: string; model?: string; lens?: string; takenAt?: string; orientation?: number };
 };
 
-const SEND = 'send JPEG, PNG, TIFF or WebP';
+const SEND = `send JPEG, PNG, TIFF or WebP, or the camera's raw file (${RAW_LIST})`;
 const TYPES = {
   jpeg: { ext: 'jpg', contentType: 'image/jpeg' },
   png: { ext: 'png', contentType: 'image/png' },
@@ -87,6 +89,8 @@ async function refuseCorrupt(bytes: Uint8Array, name: string, w: number, h: numb
  */
 export async function probePhoto(bytes: Uint8Array, name: string): Promise<ProbedPhoto> {
   if (bytes.length === 0) throw new EngineInputError('not-an-image', `${name} is empty (0 bytes): pick the photo file again`);
+  const rawKind = sniffRaw(bytes, name);
+  if (rawKind) return probeRaw(bytes, name, rawKind);
   refuseUnsupported(bytes, name);
   if (!looksLikeImage(bytes)) throw new EngineInputError('not-an-image', `${name} is not an image: ${SEND}`);
   let meta: Metadata;
@@ -118,5 +122,28 @@ export async function probePhoto(bytes: Uint8Array, name: string): Promise<Probe
     encoding: encodingFromFile({ format, sixteen, icc: meta.icc ?? null, bytes }),
     pages: Math.max(1, meta.pages ?? 1),
     exif: await exifSummary(bytes),
+  };
+}
+
+/**
+ * A camera raw photo is checked from its header only (raw-identify: a format libraw reads, its size
+ * within the limits, its exposure tags); its pixels are decoded by the worker, always as linear light.
+ */
+async function probeRaw(bytes: Uint8Array, name: string, kind: RawKind): Promise<ProbedPhoto> {
+  const info = await identifyRaw(bytes, name, kind);
+  // lens and date from the EXIF where exifr reads the container (TIFF-based raws); the exposure
+  // tags, make and model from libraw, which reads every raw format the same way
+  const { lens, takenAt } = await exifSummary(bytes);
+  const exif: ProbedPhoto['exif'] = { ...(lens ? { lens } : {}), ...(takenAt ? { takenAt } : {}), ...(info.exposure ?? {}) };
+  return {
+    format: kind,
+    ext: RAW_TYPES[kind].ext,
+    contentType: RAW_TYPES[kind].contentType,
+    width: info.width,
+    height: info.height,
+    bitDepth: 16,
+    encoding: { encoding: 'linear', reason: `camera raw (${RAW_TYPES[kind].label}), decoded to linear 16-bit with one fixed white balance for the set` },
+    pages: 1,
+    exif,
   };
 }

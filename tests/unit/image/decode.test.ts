@@ -124,10 +124,11 @@ describe('decodePhoto refusals say what to send instead', () => {
     await expectInputError(decodePhoto(avif), 'unsupported-format', /AVIF is not supported/);
   });
 
-  it('camera raw by extension and by content (CR2)', async () => {
-    await expectInputError(decodePhoto(Buffer.alloc(64), { name: 'DSC_0001.NEF' }), 'unsupported-format', /camera raw.*16-bit TIFF/);
+  it('a raw name over other content, a raw format not read here, and a CR2 signature over no raw data', async () => {
+    await expectInputError(decodePhoto(Buffer.alloc(64), { name: 'DSC_0001.NEF' }), 'not-an-image', /DSC_0001\.NEF is named \.nef but its content is not a Nikon NEF raw file/);
+    await expectInputError(decodePhoto(Buffer.alloc(64), { name: 'IMG_1.X3F' }), 'unsupported-format', /camera raw \(\.x3f\) is not read here: convert it to DNG/);
     const cr2 = Buffer.concat([Buffer.from('II*\0'), Buffer.from([16, 0, 0, 0]), Buffer.from('CR'), Buffer.alloc(40)]);
-    await expectInputError(decodePhoto(cr2), 'unsupported-format', /CR2/);
+    await expectInputError(decodePhoto(cr2), 'not-an-image', /signature of a Canon CR2 file/);
   });
 
   it('more than 100 megapixels, before decoding a pixel', async () => {
