@@ -18,6 +18,7 @@ export function AnalysisRunner({
   ready,
   readyHint,
   outdated = null,
+  photosChanged = false,
 }: {
   captureSetId: string;
   current: string | null;
@@ -26,6 +27,8 @@ export function AnalysisRunner({
   readyHint: string;
   /** Set when the reading shown was made by an older engine than the current one. */
   outdated?: { readingEngine: string; currentEngine: string } | null;
+  /** Set when the newest reading was made before a photo was added, removed, replaced or read differently. */
+  photosChanged?: boolean;
 }) {
   const router = useRouter();
   const [analysisId, setAnalysisId] = useState<string | null>(current);
@@ -82,6 +85,12 @@ export function AnalysisRunner({
               {savingRegions ? 'Saving regions…' : busy ? 'Re-analysing…' : `Re-analyse with engine ${outdated.currentEngine}`}
             </Button>
           ) : null}
+        </div>
+      ) : null}
+      {photosChanged && !busy ? (
+        <div className="rounded-md border border-warn/50 bg-warn/10 px-3 py-2 text-sm text-ink" data-testid="photos-changed">
+          The photos changed after the newest reading was made (a photo was added, removed, replaced or read differently): its numbers describe the earlier photos.{' '}
+          {canRun ? 'Analyse again for a reading of these.' : 'Someone who may analyse can make a reading of these.'}
         </div>
       ) : null}
       {canRun ? (

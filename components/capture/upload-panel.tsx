@@ -5,9 +5,11 @@ import { useRouter } from 'next/navigation';
 import { useCallback, useState } from 'react';
 import { useDropzone } from 'react-dropzone';
 import { apiJson } from '@/lib/hooks/api';
-import { uploadPhoto } from '@/lib/hooks/upload-photo';
+import { replacePhoto, uploadPhoto } from '@/lib/hooks/upload-photo';
 import { photoEncoding, type TiffEncodingSetting } from '@/lib/schemas/capture-set';
 import { MAX_UPLOAD_BYTES, PHOTO_ROLES, ROLE_HINTS, ROLE_LABELS, roleFromFileName, type PhotoRole } from '@/lib/schemas/upload';
+import { PhotoActions, PhotoThumbnail } from './upload-photo-card';
+import { dismissItem, mergeQueue, retryItem, sendOrder, type UploadItem } from './upload-queue';
 
 export type PhotoCard = {
   id: string;
@@ -25,7 +27,7 @@ export type PhotoCard = {
   exif: { exposureTime?: number; fNumber?: number; iso?: number; make?: string; model?: string; lens?: string; takenAt?: string };
 };
 
-type Item = { key: string; name: string; role: PhotoRole | null; progress: number; state: 'waiting' | 'sending' | 'done' | 'refused'; message?: string; file: File };
+type Item = UploadItem<File>;
 
 const mb = (n: number) => `${(n / 1048576).toFixed(n < 10 * 1048576 ? 1 : 0)} MB`;
 
@@ -45,9 +47,8 @@ export function exifLine(e: PhotoCard['exif']): string {
 export function UploadPanel({ captureSetId, photos, canWrite, tiffEncoding = 'auto' }: { captureSetId: string; photos: PhotoCard[]; canWrite: boolean; tiffEncoding?: TiffEncodingSetting }) {
   const router = useRouter();
   const [items, setItems] = useState<Item[]>([]);
-  const byRole = new Map(photos.map((p) => [p.role, p]));
   // several photos of a role at different exposures form a bracket
-  const bracketCount = (role: PhotoRole) => photos.filter((p) => p.role === role).length;
+  const ofRole = (role: PhotoRole) => photos.filter((p) => p.role === role);
 
   const patch = (key: string, p: Partial<Item>) => setItems((all) => all.map((i) => (i.key === key ? { ...i, ...p } : i)));
 
@@ -61,11 +62,12 @@ export function UploadPanel({ captureSetId, photos, canWrite, tiffEncoding = 'au
           patch(item.key, { state: 'refused', message: `${item.name} is ${mb(item.file.size)}; the limit is 60 MB a photo: export a JPEG at high quality or a compressed TIFF.` });
           continue;
         }
-        patch(item.key, { state: 'sending', progress: 0 });
-        const out = await uploadPhoto(captureSetId, item.role, item.file, (f) => patch(item.key, { progress: f }));
+        patch(item.key, { state: 'sending', progress: 0, message: undefined });
+        const onProgress = (f: number) => patch(item.key, { progress: f });
+        const out = item.replaces ? await replacePhoto(captureSetId, item.replaces.id, item.file, onProgress) : await uploadPhoto(captureSetId, item.role, item.file, onProgress);
         if (out.ok) {
           any = true;
-          patch(item.key, { state: 'done', progress: 1, message: out.duplicate ? 'Already uploaded: kept as it is.' : 'Uploaded.' });
+          patch(item.key, { state: 'done', progress: 1, message: out.duplicate ? 'Already uploaded: kept as it is.' : item.replaces ? `Uploaded in place of ${item.replaces.name}.` : 'Uploaded.' });
         } else patch(item.key, { state: 'refused', message: out.message });
       }
       if (any) router.refresh();
@@ -83,14 +85,26 @@ export function UploadPanel({ captureSetId, photos, canWrite, tiffEncoding = 'au
         state: 'waiting',
         file,
       }));
-      // on first: later photos are checked against its size
-      const order: Record<string, number> = { on: 0, off: 1, ambient: 2, dark: 3 };
-      batch.sort((a, b) => (order[a.role ?? ''] ?? 9) - (order[b.role ?? ''] ?? 9));
-      setItems((all) => [...batch, ...all.filter((i) => i.state === 'sending')]);
-      void send(batch);
+      // on first: later photos are checked against its size; refused files stay listed
+      const ordered = sendOrder(batch);
+      setItems((all) => mergeQueue(all, ordered));
+      void send(ordered);
     },
     [send],
   );
+
+  const replace = (photo: PhotoCard, file: File) => {
+    const item: Item = { key: `${Date.now()}-replace-${photo.id}`, name: file.name, role: photo.role, progress: 0, state: 'waiting', file, replaces: { id: photo.id, name: photo.originalName || `the ${photo.role} photo` } };
+    setItems((all) => mergeQueue(all, [item]));
+    void send([item]);
+  };
+
+  const retry = (item: Item) => {
+    const again = retryItem(item);
+    if (!again) return;
+    setItems((all) => mergeQueue(all, [again]));
+    void send([again]);
+  };
 
   const assign = (item: Item, role: PhotoRole) => {
     const next = { ...item, role };
@@ -103,7 +117,7 @@ export function UploadPanel({ captureSetId, photos, canWrite, tiffEncoding = 'au
       {canWrite ? <MultiDrop onFiles={(f) => enqueue(f, 'auto')} /> : null}
       <div className="grid gap-3 sm:grid-cols-2 xl:grid-cols-4">
         {PHOTO_ROLES.map((role) => (
-          <RoleSlot key={role} role={role} photo={byRole.get(role) ?? null} captureSetId={captureSetId} canWrite={canWrite} bracket={bracketCount(role)} tiffEncoding={tiffEncoding} onFiles={(f) => enqueue(f, role)} />
+          <RoleSlot key={role} role={role} photos={ofRole(role)} captureSetId={captureSetId} canWrite={canWrite} tiffEncoding={tiffEncoding} onFiles={(f) => enqueue(f, role)} onReplace={replace} />
         ))}
       </div>
       {items.length ? (
@@ -112,7 +126,20 @@ export function UploadPanel({ captureSetId, photos, canWrite, tiffEncoding = 'au
             <li key={i.key} data-testid="upload-item" className="rounded-md border border-line bg-canvas px-3 py-2 text-sm">
               <div className="flex flex-wrap items-center justify-between gap-2">
                 <span className="font-mono text-xs text-ink">{i.name}</span>
-                <span className="text-xs text-muted">{i.role ? ROLE_LABELS[i.role] : 'Role?'}</span>
+                <span className="flex items-center gap-2 text-xs text-muted">
+                  {i.role ? ROLE_LABELS[i.role] : 'Role?'}
+                  {i.replaces ? <span> · replaces {i.replaces.name}</span> : null}
+                  {i.state === 'refused' && i.role ? (
+                    <button type="button" onClick={() => retry(i)} className="rounded border border-line px-2 py-0.5 text-ink hover:border-beam">
+                      Try again
+                    </button>
+                  ) : null}
+                  {i.state === 'refused' || i.state === 'done' ? (
+                    <button type="button" onClick={() => setItems((all) => dismissItem(all, i.key))} className="rounded border border-line px-2 py-0.5 text-ink hover:border-beam" aria-label={`Dismiss ${i.name}`}>
+                      Dismiss
+                    </button>
+                  ) : null}
+                </span>
               </div>
               {i.role === null && i.state === 'waiting' ? (
                 <div className="mt-2 flex flex-wrap items-center gap-2 text-xs">
@@ -162,12 +189,29 @@ function MultiDrop({ onFiles }: { onFiles: (files: File[]) => void }) {
   );
 }
 
-function RoleSlot({ role, photo, captureSetId, canWrite, onFiles, bracket = 1, tiffEncoding }: { role: PhotoRole; photo: PhotoCard | null; captureSetId: string; canWrite: boolean; onFiles: (files: File[]) => void; bracket?: number; tiffEncoding: TiffEncodingSetting }) {
+function RoleSlot({
+  role,
+  photos,
+  captureSetId,
+  canWrite,
+  onFiles,
+  onReplace,
+  tiffEncoding,
+}: {
+  role: PhotoRole;
+  photos: PhotoCard[];
+  captureSetId: string;
+  canWrite: boolean;
+  onFiles: (files: File[]) => void;
+  onReplace: (photo: PhotoCard, file: File) => void;
+  tiffEncoding: TiffEncodingSetting;
+}) {
   const { getRootProps, getInputProps, isDragActive } = useDropzone({ onDrop: onFiles, multiple: true, disabled: !canWrite, noClick: !canWrite });
+  const bracket = photos.length;
   return (
     <div
       {...getRootProps({
-        className: clsx('rounded-lg border bg-canvas p-3 text-sm', isDragActive ? 'border-beam bg-beam/10' : photo ? 'border-line' : 'border-dashed border-line', canWrite && 'cursor-pointer hover:border-beam/60'),
+        className: clsx('rounded-lg border bg-canvas p-3 text-sm', isDragActive ? 'border-beam bg-beam/10' : bracket ? 'border-line' : 'border-dashed border-line', canWrite && 'cursor-pointer hover:border-beam/60'),
       })}
       data-testid={`slot-${role}`}
     >
@@ -179,27 +223,39 @@ function RoleSlot({ role, photo, captureSetId, canWrite, onFiles, bracket = 1, t
           {bracket > 1 ? <span data-testid={`bracket-${role}`}> · bracket of {bracket}</span> : null}
         </span>
       </div>
-      {photo ? (
-        <div className="mt-2 space-y-1 text-xs">
-          <div className="truncate font-mono text-ink" title={photo.originalName}>
-            {photo.originalName}
-          </div>
-          <div className="text-muted">
-            {photo.width} × {photo.height} · {photo.format.toUpperCase()} {photo.bitDepth}-bit · {mb(photo.bytes)}
-          </div>
-          <div className="text-muted" data-testid={`exif-${role}`}>
-            {exifLine(photo.exif)}
-          </div>
-          <EncodingLine photo={photo} captureSetId={captureSetId} canWrite={canWrite} tiffEncoding={tiffEncoding} />
-          {photo.pages > 1 ? (
-            <div className="text-warn" data-testid={`pages-${role}`}>
-              This TIFF holds {photo.pages} pages: only the first is measured. Export the view you mean as a single-page file if that is not it.
-            </div>
-          ) : null}
-          <a href={`/api/captures/${captureSetId}/photos/${photo.id}/original`} onClick={(e) => e.stopPropagation()} className="text-beam hover:underline">
-            Download original
-          </a>
-        </div>
+      {photos.length ? (
+        <ul className="mt-2 space-y-3">
+          {photos.map((photo) => (
+            <li key={photo.id} className="space-y-1 text-xs" data-testid={`photo-${role}`} data-photo-id={photo.id}>
+              <div className="flex gap-2">
+                <PhotoThumbnail captureSetId={captureSetId} photo={photo} />
+                <div className="min-w-0 space-y-1">
+                  <div className="truncate font-mono text-ink" title={photo.originalName}>
+                    {photo.originalName}
+                  </div>
+                  <div className="text-muted">
+                    {photo.width} × {photo.height} · {photo.format.toUpperCase()} {photo.bitDepth}-bit · {mb(photo.bytes)}
+                  </div>
+                  <div className="text-muted" data-testid={`exif-${role}`}>
+                    {exifLine(photo.exif)}
+                  </div>
+                </div>
+              </div>
+              <EncodingLine photo={photo} captureSetId={captureSetId} canWrite={canWrite} tiffEncoding={tiffEncoding} />
+              {photo.pages > 1 ? (
+                <div className="text-warn" data-testid={`pages-${role}`}>
+                  This TIFF holds {photo.pages} pages: only the first is measured. Export the view you mean as a single-page file if that is not it.
+                </div>
+              ) : null}
+              <div className="flex flex-wrap items-center gap-3">
+                <a href={`/api/captures/${captureSetId}/photos/${photo.id}/original`} onClick={(e) => e.stopPropagation()} className="text-beam hover:underline">
+                  Download original
+                </a>
+                {canWrite ? <PhotoActions captureSetId={captureSetId} photo={photo} onReplace={(file) => onReplace(photo, file)} /> : null}
+              </div>
+            </li>
+          ))}
+        </ul>
       ) : (
         <p className="mt-2 text-xs text-muted">{ROLE_HINTS[role]}{canWrite ? ' — drop or click to pick.' : '.'}</p>
       )}

@@ -83,12 +83,15 @@ export function replacesInBracket(earlier: PhotoExif, incoming: PhotoExif): bool
 /**
  * Stores a photo of a role as part of its bracket: earlier photos of the role taken with the same
  * exposure (a reshoot) are replaced, photos at other exposures are kept. Without full exposure
- * EXIF nothing can tell the shots apart, so the role keeps only the new photo.
+ * EXIF nothing can tell the shots apart, so the role keeps only the new photo. `replaces` names a
+ * photo of the role that goes whatever its exposure (a replacement picked on the page); null when
+ * that photo is no longer there, and nothing is stored then.
  */
-export async function putPhoto(labId: string, userId: string, captureSetId: string, p: PhotoWrite): Promise<{ photo: Photo; replacedKeys: string[]; bracketSize: number }> {
+export async function putPhoto(labId: string, userId: string, captureSetId: string, p: PhotoWrite, replaces?: string): Promise<{ photo: Photo; replacedKeys: string[]; bracketSize: number } | null> {
   return getDb().transaction(async (trx) => {
     const rows: Row[] = await trx('photos').where({ lab_id: labId, capture_set_id: captureSetId, role: p.role }).forUpdate();
-    const old = rows.filter((r) => replacesInBracket(r.exif ?? {}, p.exif));
+    if (replaces && !rows.some((r) => r.id === replaces)) return null;
+    const old = rows.filter((r) => r.id === replaces || replacesInBracket(r.exif ?? {}, p.exif));
     if (old.length) await trx('photos').whereIn('id', old.map((o) => o.id)).delete();
     const [row] = await trx('photos')
       .insert({
@@ -113,7 +116,7 @@ export async function putPhoto(labId: string, userId: string, captureSetId: stri
       .returning<Row[]>('*');
     if (!row) throw new Error('insert returned nothing');
     const bracketSize = rows.length - old.length + 1;
-    await recordAudit({ labId, userId, action: 'photo.upload', targetType: 'photo', targetId: row.id, details: { captureSetId, role: p.role, bytes: p.bytes, bracketSize } }, trx);
+    await recordAudit({ labId, userId, action: 'photo.upload', targetType: 'photo', targetId: row.id, details: { captureSetId, role: p.role, bytes: p.bytes, bracketSize, ...(replaces ? { replaces } : {}) } }, trx);
     return { photo: toPhoto(row), replacedKeys: old.flatMap((o) => [o.storage_key, ...(o.preview_key ? [o.preview_key] : [])]), bracketSize };
   });
 }

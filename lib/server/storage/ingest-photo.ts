@@ -19,7 +19,7 @@ const refuse = (message: string, code = 'photo_refused', status = 422) => new Ap
  * the set's other photos, not already in the lab), stores the original and a preview under fresh
  * keys, then records it. A refused file leaves no row and no stored object behind.
  */
-export async function ingestPhoto(input: { labId: string; userId: string; captureSetId: string; role: PhotoRole; name: string; bytes: Uint8Array; encoding?: 'linear' | 'srgb' | null }): Promise<IngestResult> {
+export async function ingestPhoto(input: { labId: string; userId: string; captureSetId: string; role: PhotoRole; name: string; bytes: Uint8Array; encoding?: 'linear' | 'srgb' | null; replaces?: string }): Promise<IngestResult> {
   const { labId, userId, captureSetId, role, bytes } = input;
   const name = input.name.trim().slice(0, 200) || `${role} photo`;
   if (bytes.length > MAX_UPLOAD_BYTES) throw refuse(`${name} is ${(bytes.length / 1048576).toFixed(0)} MB; the limit is 60 MB a photo: export a JPEG at high quality or a compressed TIFF`, 'too_large', 413);
@@ -48,7 +48,8 @@ export async function ingestPhoto(input: { labId: string; userId: string; captur
   // bracket members share the size of every other photo in the set, whatever their role; a photo
   // this upload replaces (same role, same exposure) is not compared
   const exif = plausibleExif(probed.exif);
-  const others = (await listPhotos(labId, captureSetId)).filter((p) => p.role !== role || !replacesInBracket(p.exif, exif));
+  // (nor is the photo it was picked to replace, `input.replaces`, whatever its exposure)
+  const others = (await listPhotos(labId, captureSetId)).filter((p) => p.id !== input.replaces && (p.role !== role || !replacesInBracket(p.exif, exif)));
   const mismatch = others.find((p) => p.width !== probed.width || p.height !== probed.height);
   if (mismatch) {
     throw refuse(`${name} is ${probed.width} × ${probed.height} pixels but the ${mismatch.role} photo is ${mismatch.width} × ${mismatch.height}: shoot every role with the same camera and settings, uncropped`, 'size_mismatch');
@@ -70,7 +71,7 @@ export async function ingestPhoto(input: { labId: string; userId: string; captur
     written.push(original);
     await storage.put(small, preview.webp, { contentType: 'image/webp' });
     written.push(small);
-    const { photo, replacedKeys, bracketSize } = await putPhoto(labId, userId, captureSetId, {
+    const put = await putPhoto(labId, userId, captureSetId, {
       role,
       storageKey: original,
       previewKey: small,
@@ -86,7 +87,9 @@ export async function ingestPhoto(input: { labId: string; userId: string; captur
       pages: probed.pages,
       exif,
       originalName: name,
-    });
+    }, input.replaces);
+    if (!put) throw refuse('The photo to replace was removed in the meantime: nothing was stored. Upload the file as a new photo.', 'gone', 409);
+    const { photo, replacedKeys, bracketSize } = put;
     await deleteKeys(replacedKeys);
     return { photo, duplicate: false, bracketSize };
   } catch (e) {

@@ -11,6 +11,7 @@ import { UploadPanel } from '@/components/capture/upload-panel';
 import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
 import { listAnalyses } from '@/db/queries/analyses';
 import { getCaptureSet } from '@/db/queries/capture-sets';
+import { getPhotosChangedAt, madeBeforePhotoChange } from '@/db/queries/photo-changes';
 import { listPhotos } from '@/db/queries/photos';
 import { getLatestReading, getReadingForAnalysis } from '@/db/queries/readings';
 import { compareVersions } from '@/db/queries/reanalyses';
@@ -27,10 +28,13 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
   if (!uuidSchema.safeParse(captureId).success) notFound();
   const set = await getCaptureSet(actor.labId, captureId);
   if (!set) notFound();
-  const [photos, regions, analyses] = await Promise.all([listPhotos(actor.labId, set.id), listRegions(actor.labId, set.id), listAnalyses(actor.labId, set.id)]);
+  const [photos, regions, analyses, photosChangedAt] = await Promise.all([listPhotos(actor.labId, set.id), listRegions(actor.labId, set.id), listAnalyses(actor.labId, set.id), getPhotosChangedAt(actor.labId, set.id)]);
   const selected = wanted && uuidSchema.safeParse(wanted).success ? await getReadingForAnalysis(actor.labId, wanted) : null;
   const latest = await getLatestReading(actor.labId, set.id);
   const reading = selected ?? latest;
+  // the newest reading was made from photos that have since been added, removed, replaced or read differently
+  const latestAnalysis = latest ? analyses.find((a) => a.id === latest.analysisId) : undefined;
+  const photosChanged = !!latestAnalysis && madeBeforePhotoChange(photosChangedAt, latestAnalysis);
   const on = photos.find((p) => p.role === 'on');
   const hasOff = photos.some((p) => p.role === 'off');
   // the ghost the shown reading detected, drawn on the on photo when that reading was made from a photo of its size
@@ -111,6 +115,7 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
               readyHint="Upload the on and off photos first."
               // the set's newest reading decides: an earlier one picked from the history is just history
               outdated={latest && compareVersions(latest.engineVersion, ENGINE_VERSION) < 0 ? { readingEngine: latest.engineVersion, currentEngine: ENGINE_VERSION } : null}
+              photosChanged={photosChanged}
             />
             <ReadingsPanel reading={reading} analyses={analyses} captureSetId={set.id} selectedId={reading?.analysisId ?? null} />
           </div>
