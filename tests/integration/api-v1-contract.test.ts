@@ -4,8 +4,7 @@
 // the document does not list, or a documented route without its file, fails here. Also: retries
 // with Idempotency-Key, concurrent duplicates, ETag/304 on project reads, scopes, and deleting only
 // a token's own capture sets.
-import { mkdtempSync, readdirSync, rmSync, statSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readdirSync, rmSync, statSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { Validator } from '@seriousme/openapi-schema-validator';
 import Ajv2020 from 'ajv/dist/2020';
@@ -13,13 +12,10 @@ import addFormats from 'ajv-formats';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { renderCapture } from '../fixtures/capture-generator';
 import { createTestLab } from '../fixtures/test-lab';
+import { isolateRun } from '../fixtures/isolated-run';
 
 const root = join(import.meta.dirname, '..', '..');
-const tmp = mkdtempSync(join(tmpdir(), 'vm-v1-'));
-const prefix = `vmv1${Math.random().toString(36).slice(2, 8)}`;
-process.env.STORAGE_DIR = join(tmp, 'storage');
-process.env.STORAGE_DRIVER = 'local';
-process.env.QUEUE_PREFIX = prefix;
+const { tmp, prefix } = isolateRun('v1');
 
 vi.mock('server-only', () => ({}));
 // no session cookie: only tokens act here

@@ -3,8 +3,7 @@
 // worker process: it gets a reading; a connection cut in the middle of an upload and the same
 // command run again make no second capture set, photo or analysis; its exit statuses.
 import { spawn, type ChildProcess } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import Ajv2020 from 'ajv/dist/2020';
 import addFormats from 'ajv-formats';
@@ -12,13 +11,10 @@ import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { renderCapture, type RenderedCapture } from '../fixtures/capture-generator';
 import { createTestLab } from '../fixtures/test-lab';
 import { removeWorkerBuild, spawnReady, workerArgs } from '../fixtures/worker-process';
+import { isolateRun } from '../fixtures/isolated-run';
 
 const root = join(import.meta.dirname, '..', '..');
-const tmp = mkdtempSync(join(tmpdir(), 'vm-push-'));
-const prefix = `vmpush${Math.random().toString(36).slice(2, 8)}`;
-process.env.STORAGE_DIR = join(tmp, 'storage');
-process.env.STORAGE_DRIVER = 'local';
-process.env.QUEUE_PREFIX = prefix;
+const { tmp, prefix } = isolateRun('push');
 
 vi.mock('server-only', () => ({}));
 vi.mock('next/headers', () => ({ cookies: async () => ({ get: () => undefined, getAll: () => [], set: () => undefined }) }));

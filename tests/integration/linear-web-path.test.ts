@@ -2,8 +2,7 @@
 // by a real worker process, must read exactly what the CLI reads with --linear16 on the same files,
 // and match the generator's linear truth within 0.5%.
 import { spawnSync, type ChildProcess } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { rmSync, writeFileSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
@@ -12,16 +11,13 @@ import { jar, sessionToken } from '../fixtures/request-context';
 import { createTestLab } from '../fixtures/test-lab';
 import { encodeTiff16 } from '../fixtures/tiff16';
 import { removeWorkerBuild, spawnReady, workerArgs } from '../fixtures/worker-process';
+import { isolateRun } from '../fixtures/isolated-run';
 
 const root = join(import.meta.dirname, '..', '..');
 // the CLI runs compiled, as `npx veilmeter` runs it, built into a folder of this file's own
 const cliDir = join(root, '.build', `cli-linear-${process.pid}`);
-const tmp = mkdtempSync(join(tmpdir(), 'vm-linear-'));
-const prefix = `vmlin${Math.random().toString(36).slice(2, 8)}`;
 // environment first: lib/env.ts reads it once, at first use
-process.env.STORAGE_DIR = join(tmp, 'storage');
-process.env.STORAGE_DRIVER = 'local';
-process.env.QUEUE_PREFIX = prefix;
+const { tmp, prefix } = isolateRun('linear');
 
 vi.mock('server-only', () => ({}));
 vi.mock('next/headers', () => import('../fixtures/request-context').then((m) => m.nextHeaders));

@@ -2,8 +2,7 @@
 // route handlers (a real session), the producer and a real worker process; progress n of m; only
 // for roles that may analyse; another lab's data is neither counted, touched nor shown.
 import type { ChildProcess } from 'node:child_process';
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { renderCapture } from '../fixtures/capture-generator';
@@ -11,12 +10,9 @@ import { insertReading } from '../fixtures/readings-fixture';
 import { signInAs as signInWithVersion } from '../fixtures/request-context';
 import { addCaptureSet, createTestLab } from '../fixtures/test-lab';
 import { removeWorkerBuild, spawnReady, workerArgs } from '../fixtures/worker-process';
+import { isolateRun } from '../fixtures/isolated-run';
 
-const tmp = mkdtempSync(join(tmpdir(), 'vm-reanalyse-'));
-const prefix = `vmre${Math.random().toString(36).slice(2, 8)}`;
-process.env.STORAGE_DIR = join(tmp, 'storage');
-process.env.STORAGE_DRIVER = 'local';
-process.env.QUEUE_PREFIX = prefix;
+const { tmp, prefix } = isolateRun('reanalyse');
 
 vi.mock('server-only', () => ({}));
 vi.mock('next/headers', () => import('../fixtures/request-context').then((m) => m.nextHeaders));
