@@ -41,4 +41,5 @@ export const PATTERN_INFO: Record<PatternKind, { name: string; use: string }> = 
   uniformity: { name: '3 × 3 uniformity grid', use: 'Marks the nine points of the uniformity check on a white field.' },
   'grey-steps': { name: 'Grey steps', use: 'Camera linearity check: equal steps of linear light from black to white.' },
   orientation: { name: 'Orientation marker', use: 'Handedness: tells a normal, mirrored or rotated virtual image apart.' },
+  'slanted-edge': { name: 'Slanted edge', use: 'Sharpness (MTF50): a black square turned 5° on white, its four sides measured as slanted edges.' },
 };

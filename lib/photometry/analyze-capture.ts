@@ -11,6 +11,7 @@ import { findGhost } from './stages/ghost';
 import { cached, type AnalysisMemo } from './stages/memo';
 import { absoluteLuminance, clipping, contrastFigures, finiteOrNull, measureRegions, regionsOf, seeThrough, uniformityCells, type RegionTotals } from './stages/measure';
 import { normalise, type CaptureRoleInput, type Normalised } from './stages/normalise';
+import { checkOpticsOptions, opticsReadings, type OpticsOptions } from './stages/optics';
 import { uniformity } from './uniformity';
 import { ENGINE_VERSION } from './version';
 import { warpPlane } from './warp';
@@ -45,6 +46,8 @@ export interface CaptureInput {
    * pass over it.
    */
   ambientFollows?: boolean;
+  /** Camera profile's degrees per pixel and the stack's display resolution and white (field of view, pixels per degree, Δu′v′). */
+  optics?: OpticsOptions | null;
 }
 
 /** A reading whose roles were bracketed carries how each bracket was merged. */
@@ -178,6 +181,7 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
   const progress = input.onProgress ?? ((): void => undefined);
   const memo = input.memo ?? null;
   const pattern: Pattern = input.pattern ?? 'full';
+  checkOpticsOptions(input.optics ?? {});
   const n = normalise(input, memo);
   const warnings: EngineWarning[] = [...n.warnings];
   progress('registration', 0.1);
@@ -223,6 +227,8 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
   }
   const absolute = absoluteLuminance(n, levels, input.calibration, warnings);
 
+  const optics = opticsReadings(n, a, pattern, input.optics ?? {}, warnings, (darkSmall) => darkRoomShare(darkSmall, a.offSmall, a.mask, n.factor), memo);
+
   progress('maps', 0.85);
   const off = a.motion.off as Motion;
   const maps = analysisMaps(n, a.diffSmall, a.offSmall, `${n.key.on}:${n.key.off}:${off.dx},${off.dy},${off.angle}`, memo);
@@ -261,6 +267,9 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     warnings,
     alignment,
     edge: { spread: round1(a.spread.width), zone: a.spread.zone },
+    sharpness: optics.sharpness,
+    geometry: optics.geometry,
+    displayColour: optics.displayColour,
   };
   const brackets: Partial<Record<PhotoRole, BracketSummary>> = {};
   for (const role of n.roles) {

@@ -20,6 +20,7 @@ export const WARNING_CODES = [
   'transmission-above-one',
   'both-clipped',
   'display-off',
+  'sharpness-unmeasured',
 ] as const;
 
 export type WarningCode = (typeof WARNING_CODES)[number];
@@ -74,6 +75,48 @@ export interface GhostAndUniformity {
   uniformityCells: number[] | null;
 }
 
+/** Slanted-edge sharpness of the virtual image (docs/method.md §5.10). */
+export interface SharpnessResult {
+  /** Frequency where the MTF falls to 0.5, cycles per camera pixel. */
+  mtf50: number;
+  /** The same in cycles per degree of the view (null without a field of view). */
+  mtf50PerDegree: number | null;
+  /** Mean turn of the square's sides from the pixel rows and columns, degrees. */
+  edgeAngle: number;
+  /** MTF every 0.01 cycle per camera pixel from 0 to 1. */
+  curve: { f: number; mtf: number }[];
+}
+
+/** Field of view of the screen rectangle and angular resolution (docs/method.md §5.11). */
+export interface GeometryResult {
+  /** Degrees across the screen's middle row, middle column and diagonal. */
+  fovH: number;
+  fovV: number;
+  fovD: number;
+  /** Angle of one camera pixel at the frame's centre, degrees. */
+  degreesPerPixel: number;
+  source: 'camera-profile' | 'exif-focal-sensor' | 'exif-35mm';
+  /** Display pixels per degree along the screen's horizontal (null without the display's resolution). */
+  pixelsPerDegree: number | null;
+}
+
+/** The display's colour through the optics (docs/method.md §5.12). */
+export interface DisplayColourResult {
+  /** CIE 1931 chromaticity. */
+  x: number;
+  y: number;
+  /** CIE 1976 u′, v′. */
+  u: number;
+  v: number;
+  /** Correlated colour temperature, K (null off the Planckian locus or outside 2000–10 000 K). */
+  cct: number | null;
+  /** Δu′v′ from the reference white. */
+  duvFromWhite: number;
+  whiteRef: 'D65' | 'display';
+  /** Largest Δu′v′ between two cells of the 3 × 3 grid (full-white pattern only). */
+  uniformityDuv: number | null;
+}
+
 /** One reading of the engine: the JSON shape of docs/method.md §5 plus a few extra keys. */
 export interface CaptureResult {
   engineVersion: string;
@@ -104,6 +147,12 @@ export interface CaptureResult {
   alignment?: Partial<Record<'off' | 'ambient' | 'dark', AlignmentDetail>>;
   /** The screen's edge spread (10–90% rise, px) and the edge zone left out of ghost bands (px). */
   edge?: { spread: number; zone: number };
+  /** Slanted-edge MTF, with pattern slanted-edge (engine 1.2.0 on). */
+  sharpness?: SharpnessResult | null;
+  /** Field of view from a camera profile or the EXIF focal length (engine 1.2.0 on). */
+  geometry?: GeometryResult | null;
+  /** The display's chromaticity, CCT and colour uniformity (engine 1.2.0 on). */
+  displayColour?: DisplayColourResult | null;
 }
 
 /** Downsampled planes behind the artifacts. */

@@ -37,7 +37,15 @@ export interface ExposureTags {
   iso?: number;
   make?: string;
   model?: string;
+  /** Lens focal length, mm. */
+  focalLength?: number;
+  /** The 35 mm equivalent focal length, mm. */
+  focalLength35mm?: number;
+  /** Sensor pixels per mm on the focal plane (EXIF FocalPlaneXResolution in mm). */
+  focalPlanePxPerMm?: number;
+  /** The longer side of the image the camera recorded, px (EXIF PixelXDimension/PixelYDimension). */
+  exifLongSide?: number;
 }
 
 export type PhotoRole = 'on' | 'off' | 'ambient' | 'dark';
-export type Pattern = 'full' | 'checkerboard';
+export type Pattern = 'full' | 'checkerboard' | 'slanted-edge';

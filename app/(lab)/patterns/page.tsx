@@ -17,6 +17,7 @@ const MEASUREMENTS: { what: string; kind: PatternKind; note: string }[] = [
   { what: 'Uniformity', kind: 'white', note: 'Nine cells of the screen compared' },
   { what: 'Ghost ratio', kind: 'white', note: 'The lit screen’s displaced copy is measured' },
   { what: 'ANSI contrast', kind: 'checkerboard', note: 'Capture set pattern “checkerboard”' },
+  { what: 'Sharpness (MTF50)', kind: 'slanted-edge', note: 'Capture set pattern “slanted-edge”' },
   { what: 'Camera linearity check', kind: 'grey-steps', note: 'Confirms the camera’s response before trusting ratios' },
   { what: 'Image handedness', kind: 'orientation', note: 'Normal, mirrored or rotated, compared with the stack' },
 ];

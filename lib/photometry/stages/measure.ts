@@ -132,7 +132,7 @@ export function contrastFigures(n: Normalised, t: RegionTotals, pattern: Pattern
   let checker: CaptureResult['checkerboard'] = null;
   if (pattern === 'full') {
     mich = finiteOrNull(michelson(lOn, lOff));
-  } else {
+  } else if (pattern === 'checkerboard') {
     // ANSI/IEC checkerboard: each cell over its central 50% × 50%
     const cells = (idx.on as Index).checker.map((k) => meanOf(t, 'on', k));
     const cb = checkerboardContrast(cells);

@@ -86,7 +86,7 @@ export function normalise(
   memo: AnalysisMemo | null,
 ): Normalised {
   const pattern = input.pattern ?? 'full';
-  if (pattern !== 'full' && pattern !== 'checkerboard') throw new EngineInputError('bad-argument', `unknown pattern "${String(pattern)}": use full or checkerboard`);
+  if (pattern !== 'full' && pattern !== 'checkerboard' && pattern !== 'slanted-edge') throw new EngineInputError('bad-argument', `unknown pattern "${String(pattern)}": use full, checkerboard or slanted-edge`);
   if (input.calibration !== undefined && input.calibration !== null && !(Number.isFinite(input.calibration) && input.calibration > 0)) {
     throw new EngineInputError('bad-argument', 'the calibration factor must be a positive number');
   }
