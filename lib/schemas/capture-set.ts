@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { isRawFormat } from '../image/raw-formats';
 import { optionalStrictNumber, safe } from './common';
 
 export const CAPTURE_PATTERNS = ['full', 'checkerboard'] as const;
@@ -81,6 +82,8 @@ const isSixteenBitTiff = (p: { format: string; bitDepth: number }): boolean => p
  * 'auto' the file decides (photos stored before files were asked keep the old reading, sRGB).
  */
 export function photoEncoding(setting: TiffEncodingSetting, p: PhotoEncodingFacts): PhotoEncodingDecision {
+  // a camera raw photo is decoded to linear light by the worker, whatever the set or the photo says
+  if (isRawFormat(p.format)) return { linear: true, by: 'file', conflict: null };
   if (p.encodingDeclared) return { linear: p.encodingDeclared === 'linear' && isSixteenBitTiff(p), by: 'photo', conflict: null };
   if (setting === 'srgb') return { linear: false, by: 'set', conflict: null };
   if (setting === 'linear') {

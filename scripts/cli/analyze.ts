@@ -110,7 +110,7 @@ async function run(args: string[], out: NodeJS.WritableStream): Promise<void> {
     throw new EngineInputError('bad-argument', `--calibration must be a positive number, got "${cal}"`);
   }
   const wantArtifacts = str('artifacts');
-  const { result, artifacts } = await analyzeFiles({
+  const { result, artifacts, rawWhiteBalance } = await analyzeFiles({
     on,
     off,
     ambient: role('ambient'),
@@ -124,7 +124,10 @@ async function run(args: string[], out: NodeJS.WritableStream): Promise<void> {
     artifacts: wantArtifacts !== undefined,
   });
   if (wantArtifacts !== undefined && artifacts) await writeArtifacts(wantArtifacts, artifacts);
-  out.write(values.json === true ? `${JSON.stringify(result)}\n` : `${table(result)}\n`);
+  // the white balance raw photos were decoded with goes with the JSON reading (absent without raw photos)
+  const reading = rawWhiteBalance ? { ...result, rawWhiteBalance } : result;
+  const rawLine = rawWhiteBalance ? `\nraw white balance  ${rawWhiteBalance.source === 'daylight' ? 'the camera\'s daylight multipliers' : 'unity (no colour data for this camera)'} R ${rawWhiteBalance.multipliers[0].toFixed(3)}, G ${rawWhiteBalance.multipliers[1].toFixed(3)}, B ${rawWhiteBalance.multipliers[2].toFixed(3)}, the same for every raw photo` : '';
+  out.write(values.json === true ? `${JSON.stringify(reading)}\n` : `${table(result)}${rawLine}\n`);
 }
 
 const help = `Usage: veilmeter analyze --on FILE --off FILE [options]
@@ -132,8 +135,11 @@ const help = `Usage: veilmeter analyze --on FILE --off FILE [options]
 Measures one capture from its photos (display on, display off, and optionally ambient and dark)
 and prints the readings as a table, or as one JSON object with --json.
 
-Photos (JPEG, PNG, TIFF or WebP, 8 or 16 bits; the same camera settings for all; repeat an option to
-give a bracket of one role at different exposures):
+Photos (JPEG, PNG, TIFF or WebP, 8 or 16 bits, or camera raw: DNG, CR2, CR3, NEF, ARW, RAF, ORF,
+RW2, PEF, SRW; the same camera settings for all; repeat an option to give a bracket of one role at
+different exposures). Raw files are decoded to linear 16-bit by libraw's dcraw_emu (Debian package
+libraw-bin), all of them with one fixed white balance: the first raw photo's daylight multipliers
+(never the camera's as-shot or automatic balance); --linear16 is not needed for them:
   --on FILE               display on, showing the test pattern, lighting as under test (required)
   --off FILE              the same view with the display dark (required)
   --ambient FILE          the same scene with the optics out of the path: the reference for

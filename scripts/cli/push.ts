@@ -285,7 +285,8 @@ Where:
   --token TOKEN           a lab API token, vmk_… (or VEILMETER_TOKEN): scopes read and capture:write
   --revision ID           the revision's id (GET /api/v1/projects lists projects and revisions)
 
-Photos (JPEG, PNG or TIFF, at most 60 MB each; the same camera settings for all):
+Photos (JPEG, PNG, TIFF, WebP or camera raw — DNG, CR2, CR3, NEF, ARW, RAF, ORF, RW2, PEF, SRW —
+at most 60 MB each; the same camera settings for all):
   --on FILE               display on, showing the test pattern (required)
   --off FILE              the same view with the display dark (required)
   --ambient FILE          the same scene with the optics out of the path

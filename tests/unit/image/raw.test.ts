@@ -8,6 +8,7 @@ import { analyzeFiles, decodePhoto } from '../../../lib/image';
 import { decodeRaw, identifyRaw, parseIdentify, parsePpm, sniffRaw } from '../../../lib/image/raw';
 import { refuseUnsupported } from '../../../lib/image/sniff';
 import { EngineInputError } from '../../../lib/photometry';
+import { photoEncoding } from '../../../lib/schemas/capture-set';
 import { encodeDng, FIXTURE_CAMERA, renderDngCapture } from '../../fixtures/dng-writer';
 import { encodeTiff16 } from '../../fixtures/tiff16';
 
@@ -119,6 +120,14 @@ describe('parseIdentify and parsePpm', () => {
     const p8 = Buffer.concat([Buffer.from('P6 # comment\n1 1 255\n'), Buffer.from([1, 2, 3])]);
     expect(Array.from(parsePpm(p8)?.data ?? [])).toEqual([1, 2, 3]);
     expect(parsePpm(p16.subarray(0, p16.length - 1))).toBeNull();
+  });
+});
+
+describe('how a stored raw photo is read', () => {
+  it('as linear light whatever the set or the photo declares (a 16-bit TIFF follows them)', () => {
+    const raw = { role: 'on' as const, originalName: 'on.nef', format: 'nef', bitDepth: 16, encodingFile: 'linear' as const, encodingReason: '', encodingDeclared: 'srgb' as const };
+    for (const setting of ['auto', 'linear', 'srgb'] as const) expect(photoEncoding(setting, raw)).toEqual({ linear: true, by: 'file', conflict: null });
+    expect(photoEncoding('srgb', { ...raw, format: 'tiff', encodingDeclared: null }).linear).toBe(false);
   });
 });
 
