@@ -100,6 +100,12 @@ export async function listCaptureSets(labId: string, revisionId: string): Promis
   }));
 }
 
+/** The variants the capture sets of a revision name (not the empty one), sorted; [] for a revision of another lab. */
+export async function listRevisionVariants(labId: string, revisionId: string): Promise<string[]> {
+  const rows: { variant: string }[] = await getDb()('capture_sets').where({ lab_id: labId, revision_id: revisionId }).whereNot('variant', '').distinct('variant');
+  return rows.map((r) => r.variant).sort((a, b) => a.localeCompare(b));
+}
+
 export type CaptureSetWrite = { label?: string; variant?: string; pattern?: 'full' | 'checkerboard'; tiffEncoding?: TiffEncodingSetting; notes?: string } & Partial<Conditions>;
 
 function conditionsOf(input: Partial<Conditions>, previous: Conditions = { displayLevel: '' }): Conditions {

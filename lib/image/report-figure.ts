@@ -4,8 +4,8 @@ import { MAX_PIXELS } from './decode';
 /** The longest side of a figure in a report, px: about 190 dpi across the printed half-page width. */
 export const REPORT_FIGURE_SIDE = 640;
 
-/** Palette sizes: a photo keeps its tones with 64 colours; a false-colour map has few to begin with. */
-export const REPORT_PALETTE = { photo: 64, map: 32 } as const;
+/** Palette sizes: a photo keeps its tones with 48 colours; a false-colour map reads well in 16 steps of its ramp (its caption gives the scale). */
+export const REPORT_PALETTE = { photo: 48, map: 16 } as const;
 
 export type ReportFigure = { png: Buffer; width: number; height: number };
 

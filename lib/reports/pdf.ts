@@ -72,12 +72,13 @@ export type FigureRegion = { kind: 'screen' | 'background' | 'ghost'; x: number;
 /** A picture for `figures`: palette PNG bytes (lib/image/report-figure.ts), its size in px, a caption. */
 export type PdfFigure = { png: Buffer; width: number; height: number; caption: string; regions?: FigureRegion[] };
 
-// Okabe–Ito colours (common practice for palettes read alike with the common colour-vision
-// deficiencies), a name on each outline and a dashed ghost, so no region is told by colour alone
-export const REGION_STYLE: Record<FigureRegion['kind'], { colour: string; label: string; dash: boolean }> = {
-  screen: { colour: '#E69F00', label: 'screen', dash: false },
-  background: { colour: '#0072B2', label: 'background', dash: false },
-  ghost: { colour: '#CC79A7', label: 'ghost', dash: true },
+// The region editor's colours and strokes (components/capture/region-editor-model.ts): Okabe–Ito
+// hues (common practice for palettes read alike with the common colour-vision deficiencies), each
+// with a stroke pattern and a name on the outline, so no region is told by colour alone
+export const REGION_STYLE: Record<FigureRegion['kind'], { colour: string; label: string; pattern: 'solid' | 'dashed' | 'dotted' }> = {
+  screen: { colour: '#56B4E9', label: 'screen', pattern: 'solid' },
+  background: { colour: '#F0E442', label: 'background', pattern: 'dashed' },
+  ghost: { colour: '#D55E00', label: 'ghost', pattern: 'dotted' },
 };
 
 const INK = '#18202c';
@@ -395,7 +396,8 @@ export class ReportWriter {
     const rw = Math.max(1, Math.min(1 - Math.max(0, r.x), r.w) * w);
     const rh = Math.max(1, Math.min(1 - Math.max(0, r.y), r.h) * h);
     d.save();
-    if (style.dash) d.dash(3, { space: 2 });
+    if (style.pattern === 'dashed') d.dash(4, { space: 2 });
+    if (style.pattern === 'dotted') d.dash(1.2, { space: 1.8 });
     d.rect(x, y, rw, rh).lineWidth(1.2).strokeColor(style.colour).stroke();
     d.undash();
     d.font(this.fb).fontSize(6);
@@ -405,7 +407,7 @@ export class ReportWriter {
     const lx = r.kind === 'ghost' ? Math.max(x0, Math.min(x + rw - lw, x0 + w - lw)) : Math.min(x, x0 + w - lw);
     const ly = r.kind === 'ghost' ? (y + rh + 9 <= y0 + h ? y + rh + 1 : y + rh - 9) : y - 9 >= y0 ? y - 9 : y + 1;
     d.rect(lx, ly, lw, 8).fillColor(style.colour).fill();
-    d.fillColor('#ffffff').text(label, lx + 2, ly + 1, { lineBreak: false });
+    d.fillColor(INK).text(label, lx + 2, ly + 1, { lineBreak: false });
     d.restore();
   }
 

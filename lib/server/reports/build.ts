@@ -14,6 +14,7 @@ import { METRICS, type MetricKey } from '../../targets/metrics';
 import { revisionStatistics, trendByVariant, variantLabel, type Trend } from '../../targets/series';
 import { REPORT_CAUTIONS } from '../../reports/cautions';
 import { ReportWriter, type ChartGroup, type ChartSpec } from '../../reports/pdf';
+import { revisionFigures } from './figures';
 
 export type ReportOptions = { labName: string; compress?: boolean; now?: Date };
 
@@ -75,6 +76,14 @@ function trendChart(trend: Trend, targets: Target[], highlight: string | null, c
   };
 }
 
+async function writeRevisionFigures(w: ReportWriter, labId: string, rows: ExportRow[]): Promise<void> {
+  const { figures, missing, left } = await revisionFigures(labId, rows);
+  w.heading('Photos and contrast maps');
+  w.figures(figures, 2);
+  const notes = [missing.length ? `Not shown: ${missing.join('; ')}.` : '', left ? `${left} more capture set${left === 1 ? '' : 's'} not shown here: each capture set’s own report has its photo and maps.` : ''].filter(Boolean);
+  if (notes.length) w.paragraph(notes.join(' '), { muted: true, size: 8 });
+}
+
 /** The PDF of one revision: target status, statistics per metric, the trend chart, readings, cautions. */
 export async function revisionReport(labId: string, revisionId: string, opts: ReportOptions): Promise<{ bytes: Buffer; name: string }> {
   const revision = await getRevision(labId, revisionId);
@@ -107,8 +116,8 @@ export async function revisionReport(labId: string, revisionId: string, opts: Re
   w.heading('Readings');
   if (rows.length) writeReadings(w, rows, false);
   else w.paragraph('No capture set of this revision has been analysed yet.', { muted: true });
-  w.heading('Cautions');
-  w.bullets(REPORT_CAUTIONS);
+  if (rows.length) await writeRevisionFigures(w, labId, rows);
+  w.closingSection('Cautions', REPORT_CAUTIONS);
   const bytes = await w.finish(`Veilmeter · ${revision.projectName} · ${revision.label}`);
   return { bytes, name: `${revision.projectName}-${revision.label}-report` };
 }
@@ -135,8 +144,7 @@ export async function projectReport(labId: string, projectId: string, opts: Repo
   w.heading('Readings');
   if (rows.length) writeReadings(w, rows, true);
   else w.paragraph('Nothing has been analysed in this project yet.', { muted: true });
-  w.heading('Cautions');
-  w.bullets(REPORT_CAUTIONS);
+  w.closingSection('Cautions', REPORT_CAUTIONS);
   const bytes = await w.finish(`Veilmeter · ${project.name}`);
   return { bytes, name: `${project.name}-report` };
 }
@@ -203,8 +211,7 @@ export async function comparisonReport(labId: string, projectId: string, a: Grou
   w.heading('Readings');
   const rows = await comparisonRows(labId, project.id, cmp.a, cmp.b);
   writeReadings(w, rows.map((r) => r.row), true);
-  w.heading('Cautions');
-  w.bullets(REPORT_CAUTIONS);
+  w.closingSection('Cautions', REPORT_CAUTIONS);
   const bytes = await w.finish(`Veilmeter · ${project.name} · comparison`);
   return { bytes, name: `${project.name}-${cmp.b.label}-vs-${cmp.a.label}` };
 }

@@ -10,7 +10,7 @@ import { RegionDraftProvider } from '@/components/capture/region-editor-draft';
 import { UploadPanel } from '@/components/capture/upload-panel';
 import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
 import { listAnalyses } from '@/db/queries/analyses';
-import { getCaptureSet } from '@/db/queries/capture-sets';
+import { getCaptureSet, listRevisionVariants } from '@/db/queries/capture-sets';
 import { getPhotosChangedAt, madeBeforePhotoChange } from '@/db/queries/photo-changes';
 import { listPhotos } from '@/db/queries/photos';
 import { getLatestReading, getReadingForAnalysis } from '@/db/queries/readings';
@@ -29,6 +29,8 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
   const set = await getCaptureSet(actor.labId, captureId);
   if (!set) notFound();
   const [photos, regions, analyses, photosChangedAt] = await Promise.all([listPhotos(actor.labId, set.id), listRegions(actor.labId, set.id), listAnalyses(actor.labId, set.id), getPhotosChangedAt(actor.labId, set.id)]);
+  // the edit form offers the revision's variants, as the new-set form does
+  const variants = await listRevisionVariants(actor.labId, set.revisionId);
   const selected = wanted && uuidSchema.safeParse(wanted).success ? await getReadingForAnalysis(actor.labId, wanted) : null;
   const latest = await getLatestReading(actor.labId, set.id);
   const reading = selected ?? latest;
@@ -64,7 +66,13 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
           </Link>
         }
         title={<span data-testid="capture-label">{set.label}</span>}
-      />
+      >
+        {can(actor.role, 'export.create') ? (
+          <a href={`/api/captures/${set.id}/report.pdf`} className="rounded-md border border-line bg-raised px-3 py-1.5 text-sm text-ink hover:border-beam/60">
+            PDF report
+          </a>
+        ) : null}
+      </PageTitle>
       <p className="-mt-4 mb-6 text-sm text-muted">
         {set.variant ? <span className="mr-2 rounded bg-raised px-1.5 py-0.5 text-ink">{set.variant}</span> : null}
         {conditions.join(' · ')}
@@ -130,6 +138,7 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
                     <EditCaptureSetForm
                       id={set.id}
                       values={{ label: set.label, variant: set.variant, pattern: set.pattern, tiffEncoding: set.tiffEncoding, ambientLux: c.ambientLux, backgroundCdm2: c.backgroundCdm2, displayLevel: c.displayLevel, notes: set.notes }}
+                      variants={variants}
                     />
                   </div>
                 </details>
