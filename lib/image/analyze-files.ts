@@ -3,6 +3,7 @@ import { basename } from 'node:path';
 import { analyzeCaptureDetailed, preparePhoto, resolveRolePhoto, type AnalysisMemo, type BracketedResult, type CapturePhoto } from '../photometry/analyze-capture';
 import { EngineInputError } from '../photometry/errors';
 import type { CaptureResult } from '../photometry/result';
+import type { OpticsOptions } from '../photometry/stages/optics';
 import type { Offset, Pattern, PhotoRole, Rect } from '../photometry/types';
 import { renderArtifacts, renderMapImages, type Artifacts, type MapImages } from './artifacts';
 import { decodePhoto } from './decode';
@@ -29,6 +30,8 @@ export interface AnalyzeFilesOptions {
   background?: Rect | null;
   ghostOffset?: Offset | 'none' | null;
   calibration?: number | null;
+  /** Camera profile's degrees per pixel, the display's resolution and white (field of view, pixels per degree, Δu′v′). */
+  optics?: OpticsOptions | null;
   /** Declare 16-bit TIFFs linear instead of sRGB-encoded. */
   linear16?: boolean;
   /** Skip the PNG maps (faster when only numbers are wanted). */
@@ -113,6 +116,7 @@ async function analyzeBrackets(options: AnalyzeFilesOptions): Promise<FileAnalys
     background: options.background ?? null,
     ghostOffset: options.ghostOffset ?? null,
     calibration: options.calibration ?? null,
+    optics: options.optics ?? null,
     onProgress: (stage, f) => progress(stage, 0.4 + 0.5 * f),
   });
   const artifacts = options.artifacts !== false ? await renderArtifacts(maps, null) : null;
@@ -143,6 +147,7 @@ async function analyzeSingles(options: AnalyzeFilesOptions & { on: PhotoSource; 
     background: options.background ?? null,
     ghostOffset: options.ghostOffset ?? null,
     calibration: options.calibration ?? null,
+    optics: options.optics ?? null,
   } as const;
   const wantArtifacts = options.artifacts !== false;
   const memo: AnalysisMemo = new Map();

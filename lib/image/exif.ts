@@ -1,7 +1,7 @@
 import exifr from 'exifr';
 import type { ExposureTags } from '../photometry/types';
 
-const PICK = ['ExposureTime', 'FNumber', 'ISO', 'ISOSpeedRatings', 'PhotographicSensitivity', 'Make', 'Model'];
+const PICK = ['ExposureTime', 'FNumber', 'ISO', 'ISOSpeedRatings', 'PhotographicSensitivity', 'Make', 'Model', 'FocalLength', 'FocalLengthIn35mmFormat', 'FocalPlaneXResolution', 'FocalPlaneResolutionUnit', 'ExifImageWidth', 'ExifImageHeight'];
 
 /**
  * What a camera can put in its EXIF; anything outside is dropped rather than taken as a fact about
@@ -13,6 +13,11 @@ export const EXIF_BOUNDS = {
   fNumber: [0.5, 256],
   iso: [1, 1e7],
   orientation: [1, 8],
+  focalLength: [0.5, 5000],
+  focalLength35mm: [1, 10000],
+  // 0.5 µm to 50 µm pixels
+  focalPlanePxPerMm: [20, 2000],
+  exifLongSide: [1, 100_000],
 } as const satisfies Record<string, readonly [number, number]>;
 
 export function withinBounds(v: number | undefined, [lo, hi]: readonly [number, number]): v is number {
@@ -30,7 +35,21 @@ function num(v: unknown): number | undefined {
   return undefined;
 }
 
-/** Exposure time, f-number, ISO, make and model from a photo's EXIF; null when it has none. */
+/**
+ * Millimetres per EXIF FocalPlaneResolutionUnit (exifr gives its name, other readers its code): inch
+ * when the tag is missing, as EXIF 2.32 defines; null for 'None' or anything unknown.
+ */
+export function focalPlaneUnitMm(unit: unknown): number | null {
+  if (unit === undefined || unit === null) return 25.4;
+  const u = typeof unit === 'string' ? unit.trim().toLowerCase() : unit;
+  if (u === 2 || u === 'inch' || u === 'inches') return 25.4;
+  if (u === 3 || u === 'centimeter' || u === 'centimetre' || u === 'cm') return 10;
+  if (u === 4 || u === 'millimeter' || u === 'millimetre' || u === 'mm') return 1;
+  if (u === 5 || u === 'micrometer' || u === 'micrometre' || u === 'µm' || u === 'um') return 0.001;
+  return null;
+}
+
+/** Exposure time, f-number, ISO, make, model, focal length and the focal plane's pixels per mm from a photo's EXIF; null when it has none. */
 export async function readExposureTags(buf: Uint8Array): Promise<ExposureTags | null> {
   let tags: Record<string, unknown> | undefined;
   try {
@@ -50,5 +69,18 @@ export async function readExposureTags(buf: Uint8Array): Promise<ExposureTags | 
   const model = typeof tags.Model === 'string' ? exifText(tags.Model) : undefined;
   if (make) out.make = make;
   if (model) out.model = model;
+  const f = num(tags.FocalLength);
+  const f35 = num(tags.FocalLengthIn35mmFormat);
+  const res = num(tags.FocalPlaneXResolution);
+  const mmPerUnit = focalPlaneUnitMm(tags.FocalPlaneResolutionUnit);
+  const pxPerMm = res !== undefined && mmPerUnit !== null ? res / mmPerUnit : undefined;
+  const long = Math.max(num(tags.ExifImageWidth) ?? 0, num(tags.ExifImageHeight) ?? 0);
+  if (withinBounds(f, EXIF_BOUNDS.focalLength)) out.focalLength = f;
+  if (withinBounds(f35, EXIF_BOUNDS.focalLength35mm)) out.focalLength35mm = f35;
+  if (withinBounds(pxPerMm, EXIF_BOUNDS.focalPlanePxPerMm)) {
+    out.focalPlanePxPerMm = pxPerMm;
+    // the recorded size the focal plane resolution refers to (only of use beside it)
+    if (withinBounds(long, EXIF_BOUNDS.exifLongSide)) out.exifLongSide = long;
+  }
   return Object.keys(out).length > 0 ? out : null;
 }

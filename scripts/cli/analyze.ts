@@ -23,6 +23,25 @@ function rect(name: string, text: string | undefined): Rect | null {
   return { x, y, w, h };
 }
 
+/** Two positive whole numbers "W×H" (or "W,H"), or null when the option is absent. */
+function resolution(name: string, text: string | undefined): { width: number; height: number } | null {
+  if (text === undefined) return null;
+  const m = /^\s*(\d+)\s*[x×,]\s*(\d+)\s*$/i.exec(text);
+  const width = m ? Number(m[1]) : Number.NaN;
+  const height = m ? Number(m[2]) : Number.NaN;
+  if (!(width >= 1 && height >= 1)) throw new EngineInputError('bad-argument', `--${name} needs the display's width and height in pixels as WxH, e.g. 1920x1080, got "${text}"`);
+  return { width, height };
+}
+
+/** A chromaticity "x,y", or null when the option is absent. */
+function chromaticityOption(name: string, text: string | undefined): { x: number; y: number } | null {
+  if (text === undefined) return null;
+  const parts = text.split(',').map((p) => Number(p.trim()));
+  const [x, y] = parts as [number, number];
+  if (parts.length !== 2 || !(x > 0 && y > 0 && x + y < 1)) throw new EngineInputError('bad-argument', `--${name} needs a chromaticity x,y with x > 0, y > 0 and x + y < 1, e.g. 0.3127,0.3290, got "${text}"`);
+  return { x, y };
+}
+
 function fmt(v: number | null | undefined, digits = 4): string {
   if (v === null || v === undefined) return '—';
   return Math.abs(v) >= 1000 || (Math.abs(v) < 1e-3 && v !== 0) ? v.toExponential(3) : v.toFixed(digits);
@@ -46,6 +65,22 @@ function table(r: CaptureResult): string {
     ['tint Δx, Δy / ΔE00', r.tint ? `${fmt(r.tint.dx, 4)}, ${fmt(r.tint.dy, 4)} / ${fmt(r.tint.deltaE00, 2)}` : '—'],
     ['clipped', `${(100 * r.clippedFraction).toFixed(3)}%`],
   ];
+  if (r.sharpness) {
+    const s = r.sharpness;
+    rows.push(['MTF50', `${fmt(s.mtf50, 3)} cycles/pixel${s.mtf50PerDegree === null ? '' : ` · ${fmt(s.mtf50PerDegree, 2)} cycles/degree`} (edge at ${fmt(s.edgeAngle, 2)}°)`]);
+  }
+  if (r.geometry) {
+    const g = r.geometry;
+    rows.push(['field of view H / V / D', `${fmt(g.fovH, 2)}° / ${fmt(g.fovV, 2)}° / ${fmt(g.fovD, 2)}° (${fmt(g.degreesPerPixel, 5)}°/pixel, from ${g.source})`]);
+    if (g.pixelsPerDegree !== null) rows.push(['display pixels per degree', fmt(g.pixelsPerDegree, 1)]);
+  }
+  if (r.displayColour) {
+    const c = r.displayColour;
+    rows.push(['display colour x, y / u′, v′', `${fmt(c.x)}, ${fmt(c.y)} / ${fmt(c.u)}, ${fmt(c.v)}`]);
+    rows.push(['CCT', c.cct === null ? '— (far from the Planckian locus or outside 2000–10000 K)' : `${fmt(c.cct, 0)} K`]);
+    rows.push([`Δu′v′ from ${c.whiteRef === 'D65' ? 'D65' : 'the display white'}`, fmt(c.duvFromWhite)]);
+    rows.push(['colour uniformity (max Δu′v′)', fmt(c.uniformityDuv)]);
+  }
   if (r.absoluteLuminance) {
     const a = r.absoluteLuminance;
     rows.push([`cd/m² on / off / ambient (${a.kind})`, `${fmt(a.on, 1)} / ${fmt(a.off, 1)} / ${fmt(a.ambient, 1)}`]);
@@ -74,6 +109,9 @@ async function run(args: string[], out: NodeJS.WritableStream): Promise<void> {
         background: { type: 'string' },
         'ghost-offset': { type: 'string' },
         calibration: { type: 'string' },
+        'degrees-per-pixel': { type: 'string' },
+        'display-resolution': { type: 'string' },
+        'display-white': { type: 'string' },
         linear16: { type: 'boolean', default: false },
         artifacts: { type: 'string' },
         json: { type: 'boolean', default: false },
@@ -96,7 +134,7 @@ async function run(args: string[], out: NodeJS.WritableStream): Promise<void> {
   const off = role('off');
   if (!on || !off) throw new EngineInputError('bad-argument', 'both --on FILE and --off FILE are required');
   const pattern = str('pattern') as Pattern;
-  if (pattern !== 'full' && pattern !== 'checkerboard') throw new EngineInputError('bad-argument', `--pattern must be full or checkerboard, got "${pattern}"`);
+  if (pattern !== 'full' && pattern !== 'checkerboard' && pattern !== 'slanted-edge') throw new EngineInputError('bad-argument', `--pattern must be full, checkerboard or slanted-edge, got "${pattern}"`);
   const go = str('ghost-offset');
   let ghostOffset: Offset | 'none' | null = null;
   if (go === 'none') ghostOffset = 'none';
@@ -109,6 +147,12 @@ async function run(args: string[], out: NodeJS.WritableStream): Promise<void> {
   if (calibration !== null && !(Number.isFinite(calibration) && calibration > 0)) {
     throw new EngineInputError('bad-argument', `--calibration must be a positive number, got "${cal}"`);
   }
+  const dppText = str('degrees-per-pixel');
+  const degreesPerPixel = dppText === undefined ? null : Number(dppText);
+  if (degreesPerPixel !== null && !(Number.isFinite(degreesPerPixel) && degreesPerPixel > 0)) {
+    throw new EngineInputError('bad-argument', `--degrees-per-pixel must be a positive number, got "${dppText}"`);
+  }
+  const optics = { degreesPerPixel, displayResolution: resolution('display-resolution', str('display-resolution')), displayWhite: chromaticityOption('display-white', str('display-white')) };
   const wantArtifacts = str('artifacts');
   const { result, artifacts, rawWhiteBalance } = await analyzeFiles({
     on,
@@ -120,6 +164,7 @@ async function run(args: string[], out: NodeJS.WritableStream): Promise<void> {
     background: rect('background', str('background')),
     ghostOffset,
     calibration,
+    optics,
     linear16: values.linear16 === true,
     artifacts: wantArtifacts !== undefined,
   });
@@ -147,8 +192,10 @@ libraw-bin), all of them with one fixed white balance: the first raw photo's day
   --dark FILE             display on, room dark: the ghost and uniformity are then measured on it
 
 Measurement:
-  --pattern full|checkerboard   what the display showed: full-field white (default) or the 4 × 4
-                          checkerboard (adds the checkerboard contrast)
+  --pattern full|checkerboard|slanted-edge
+                          what the display showed: full-field white (default), the 4 × 4
+                          checkerboard (adds the checkerboard contrast) or the slanted-edge square
+                          (adds the sharpness: MTF50 and the MTF curve)
   --screen x,y,w,h        the virtual image's rectangle in pixels of the on photo (default: detected
                           from on − off)
   --background x,y,w,h    a see-through rectangle away from the screen, for transmission and tint
@@ -157,6 +204,11 @@ Measurement:
   --ghost-offset none     no ghost reading
   --calibration K         a camera profile's factor in cd/m² per unit of Y·N²/(t·S), for readings
                           in cd/m² (needs exposure EXIF on the on photo)
+  --degrees-per-pixel D   the camera's angle per pixel, measured on a target of known angle: the field
+                          of view then comes from it instead of the EXIF focal length
+  --display-resolution WxH
+                          the display's resolution in pixels, for pixels per degree
+  --display-white x,y     the display's own white chromaticity, the reference for Δu′v′ (default D65)
   --linear16              16-bit TIFFs hold linear values (no sRGB decoding)
 
 Output:
