@@ -4,7 +4,8 @@ import { mono, sans } from './fonts';
 import './globals.css';
 
 export const metadata: Metadata = {
-  title: { default: 'Veilmeter', template: '%s · Veilmeter' },
+  // each page names its record first: "VX-B · Visor VX birdbath — Veilmeter"
+  title: { default: 'Veilmeter', template: '%s — Veilmeter' },
   description: 'Contrast, ghost and see-through measurements for see-through displays',
   // public/: icon.svg and the PNGs scripts/make-icons.mjs renders from it
   manifest: '/manifest.webmanifest',

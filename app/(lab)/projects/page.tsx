@@ -1,3 +1,6 @@
+import { cookies } from 'next/headers';
+import { FirstVisitGuide } from '@/components/projects/first-visit-guide';
+import { GUIDE_COOKIE } from '@/components/projects/guide-cookie';
 import { CreateProjectForm } from '@/components/projects/project-forms';
 import { DataTable } from '@/components/ui/data-table';
 import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
@@ -39,9 +42,12 @@ export default async function ProjectsPage() {
       },
     };
   });
+  // a lab with no projects yet gets the guide to the capture flow, until someone dismisses it
+  const showGuide = projects.length === 0 && (await cookies()).get(GUIDE_COOKIE)?.value !== 'dismissed';
   return (
     <>
       <PageTitle kicker={actor.labName} title="Projects" />
+      {showGuide ? <FirstVisitGuide canCreate={can(actor.role, 'project.write')} /> : null}
       <div className="grid gap-6 2xl:grid-cols-[minmax(0,1fr)_22rem]">
         <Panel title="All projects">
           <DataTable
@@ -62,9 +68,11 @@ export default async function ProjectsPage() {
           />
         </Panel>
         {can(actor.role, 'project.write') ? (
-          <Panel title="New project">
-            <CreateProjectForm />
-          </Panel>
+          <div id="new-project" className="scroll-mt-6">
+            <Panel title="New project">
+              <CreateProjectForm />
+            </Panel>
+          </div>
         ) : null}
       </div>
     </>

@@ -1,3 +1,4 @@
+import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound, redirect } from 'next/navigation';
 import { ComparisonChart, TONE_CLASS } from '@/components/compare/comparison-chart';
@@ -10,12 +11,15 @@ import { getProject } from '@/db/queries/projects';
 import { listTargets } from '@/db/queries/targets';
 import { can } from '@/lib/auth/permissions';
 import { requireActor } from '@/lib/server/auth/session';
+import { projectTitle } from '@/lib/server/page-titles';
 import { uuidSchema } from '@/lib/schemas/common';
 import { changeTone, compareGroups, decodeGroup, encodeGroup, summariseComparison, type ChangeTone } from '@/lib/targets/compare';
 import { METRIC_KEYS, METRICS } from '@/lib/targets/metrics';
 import { values } from '@/lib/targets/series';
 
-export const metadata = { title: 'Compare' };
+export async function generateMetadata({ params }: { params: Promise<{ projectId: string }> }): Promise<Metadata> {
+  return projectTitle((await params).projectId, 'Compare');
+}
 
 // With nothing chosen yet: the two variants of the newest revision that has them (the A/B the
 // team built), else the two newest revisions with readings.

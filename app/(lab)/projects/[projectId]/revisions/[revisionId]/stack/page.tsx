@@ -12,9 +12,13 @@ import { getProject } from '@/db/queries/projects';
 import { getRevisionStack, listMeasuredForPlanner, listRevisionsWithStacks } from '@/db/queries/stacks';
 import { can } from '@/lib/auth/permissions';
 import { requireActor } from '@/lib/server/auth/session';
+import { revisionTitle } from '@/lib/server/page-titles';
 import { uuidSchema } from '@/lib/schemas/common';
 
-export const metadata: Metadata = { title: 'Stack planner' };
+export async function generateMetadata({ params }: { params: Promise<{ projectId: string; revisionId: string }> }): Promise<Metadata> {
+  const { projectId, revisionId } = await params;
+  return revisionTitle(projectId, revisionId, 'Stack planner');
+}
 
 type Params = { projectId: string; revisionId: string };
 

@@ -1,0 +1,36 @@
+import type { Metadata } from 'next';
+import { getCaptureSet } from '../../db/queries/capture-sets';
+import { getProjectName } from '../../db/queries/projects';
+import { getRevision } from '../../db/queries/revision-edits';
+import { uuidSchema } from '../schemas/common';
+import { getActor } from './auth/session';
+
+// Each page's <title> names its record (the root layout adds " — Veilmeter"). The record is read
+// with the same lab-scoped queries as the page, so an id of another lab (or none) gives the same
+// "Not found" as a missing one and never its name.
+const NOT_FOUND: Metadata = { title: 'Not found' };
+const titled = (...parts: (string | undefined)[]): Metadata => ({ title: parts.filter(Boolean).join(' · ') });
+
+/** "<what> · <project>", e.g. "Compare · Visor VX birdbath". */
+export async function projectTitle(projectId: string, what?: string): Promise<Metadata> {
+  const actor = await getActor();
+  if (!actor || !uuidSchema.safeParse(projectId).success) return NOT_FOUND;
+  const project = await getProjectName(actor.labId, projectId);
+  return project ? titled(what, project.name) : NOT_FOUND;
+}
+
+/** "<what> · <revision> · <project>", e.g. "VX-B · Visor VX birdbath"; only for the project in the address. */
+export async function revisionTitle(projectId: string, revisionId: string, what?: string): Promise<Metadata> {
+  const actor = await getActor();
+  if (!actor || !uuidSchema.safeParse(revisionId).success) return NOT_FOUND;
+  const revision = await getRevision(actor.labId, revisionId);
+  return revision && revision.projectId === projectId ? titled(what, revision.label, revision.projectName) : NOT_FOUND;
+}
+
+/** "<capture set> · <revision> · <project>". */
+export async function captureTitle(captureId: string): Promise<Metadata> {
+  const actor = await getActor();
+  if (!actor || !uuidSchema.safeParse(captureId).success) return NOT_FOUND;
+  const set = await getCaptureSet(actor.labId, captureId);
+  return set ? titled(set.label, set.revisionLabel, set.projectName) : NOT_FOUND;
+}
