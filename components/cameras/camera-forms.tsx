@@ -165,6 +165,49 @@ export function LinearityForm() {
   );
 }
 
+/** A profile's degrees per pixel: typed in, saved on its own, blank to clear. */
+export function DegreesPerPixelForm({ id, value }: { id: string; value: number | null }) {
+  const router = useRouter();
+  const [busy, setBusy] = useState(false);
+  const [out, setOut] = useState<{ ok: boolean; message: string; fieldErrors?: Record<string, string[]> } | null>(null);
+  const submit = async (e: React.FormEvent<HTMLFormElement>) => {
+    e.preventDefault();
+    const raw = String(new FormData(e.currentTarget).get('degreesPerPixel') ?? '');
+    setBusy(true);
+    try {
+      const res = await fetch(`/api/cameras/${id}`, { method: 'PATCH', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ degreesPerPixel: raw }) });
+      const body = (await res.json().catch(() => ({}))) as ApiError & { profile?: { degreesPerPixel: number | null } };
+      if (res.ok && body.profile) {
+        setOut({ ok: true, message: body.profile.degreesPerPixel === null ? 'Cleared: the field of view comes from the EXIF focal length.' : 'Saved: new readings take their field of view from it.' });
+        router.refresh();
+      } else setOut({ ok: false, message: body.error?.message ?? `Not saved (${res.status})`, fieldErrors: body.error?.fieldErrors });
+    } catch {
+      setOut({ ok: false, message: 'The connection dropped. Try again.' });
+    } finally {
+      setBusy(false);
+    }
+  };
+  return (
+    <form onSubmit={submit} className="flex flex-wrap items-end gap-2" data-testid="degrees-per-pixel-form">
+      <Field
+        label="Degrees per pixel"
+        name="degreesPerPixel"
+        inputMode="decimal"
+        defaultValue={value === null ? '' : String(value)}
+        placeholder="from EXIF"
+        hint="Measured on a target of known angle."
+        errors={out?.fieldErrors?.degreesPerPixel}
+      />
+      <Button type="submit" disabled={busy}>{busy ? 'Saving…' : 'Save'}</Button>
+      {out ? (
+        <p role={out.ok ? 'status' : 'alert'} className={out.ok ? 'text-xs text-pass' : 'text-xs text-fail'}>
+          {out.message}
+        </p>
+      ) : null}
+    </form>
+  );
+}
+
 export function DeleteProfileButton({ id, name }: { id: string; name: string }) {
   const router = useRouter();
   const [busy, setBusy] = useState(false);

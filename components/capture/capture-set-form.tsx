@@ -30,6 +30,7 @@ function CaptureSetFields({ errors: e, values: v, variants = [] }: { errors: Rec
         options={[
           { value: 'full', label: 'Full-field white' },
           { value: 'checkerboard', label: '4 × 4 checkerboard' },
+          { value: 'slanted-edge', label: 'Slanted edge (sharpness)' },
         ]}
         errors={e.pattern}
       />

@@ -28,6 +28,10 @@ function fieldsFor(d: DraftElement): FieldSpec[] {
           ],
         },
         ...(v.polKind === 'linear' ? [{ name: 'polAngle', label: 'Polarisation angle (°)', kind: 'number' as const, hint: 'In the viewer’s frame, −180 to 180' }] : []),
+        { name: 'resWidth', label: 'Resolution width (px)', kind: 'number', hint: 'Optional: with the height, gives pixels per degree' },
+        { name: 'resHeight', label: 'Resolution height (px)', kind: 'number', hint: 'Optional' },
+        { name: 'whiteX', label: 'White point x', kind: 'number', hint: 'Optional: the display’s own white (CIE 1931), for Δu′v′' },
+        { name: 'whiteY', label: 'White point y', kind: 'number', hint: 'Optional; D65 is 0.3127, 0.3290' },
       ];
     case 'plate-beam-splitter':
       return [

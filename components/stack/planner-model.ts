@@ -39,6 +39,10 @@ export function toDraft(e: StackElement, key: string = nextKey()): DraftElement 
           luminance: str(e.luminance),
           polKind: e.polarisation.kind,
           polAngle: e.polarisation.kind === 'linear' ? str(e.polarisation.angleDeg) : '0',
+          resWidth: str(e.resolution?.width),
+          resHeight: str(e.resolution?.height),
+          whiteX: str(e.white?.x),
+          whiteY: str(e.white?.y),
         },
       };
     case 'plate-beam-splitter':
@@ -78,6 +82,8 @@ export function newElement(kind: StackElementKind): DraftElement {
   return toDraft(defaults[kind]);
 }
 
+const blank = (s: string | undefined): boolean => s === undefined || s.trim() === '';
+
 // An empty box is "not a number" for the schema, not zero.
 const num = (s: string | undefined): number => (s === undefined || s.trim() === '' ? Number.NaN : Number(s));
 
@@ -92,6 +98,9 @@ export function fromDraft(d: DraftElement): Record<string, unknown> {
         label,
         luminance: num(v.luminance),
         polarisation: v.polKind === 'linear' ? { kind: 'linear', angleDeg: num(v.polAngle) } : { kind: 'none' },
+        // optional pairs: both boxes empty leaves the field out; one empty is "not a number" for the schema
+        resolution: blank(v.resWidth) && blank(v.resHeight) ? undefined : { width: num(v.resWidth), height: num(v.resHeight) },
+        white: blank(v.whiteX) && blank(v.whiteY) ? undefined : { x: num(v.whiteX), y: num(v.whiteY) },
       };
     case 'plate-beam-splitter':
       return {
@@ -115,7 +124,7 @@ export function fromDraft(d: DraftElement): Record<string, unknown> {
 }
 
 /** Form value name → the schema path below the element it is checked at. */
-export const FIELD_PATH: Record<string, string> = { backR: 'back.R', polAngle: 'polarisation.angleDeg' };
+export const FIELD_PATH: Record<string, string> = { backR: 'back.R', polAngle: 'polarisation.angleDeg', resWidth: 'resolution.width', resHeight: 'resolution.height', whiteX: 'white.x', whiteY: 'white.y' };
 
 /** Errors keyed "i.path" for a field of element i, "i" for the element, "_stack" for the whole stack. */
 export type StackErrors = Record<string, string[]>;

@@ -19,6 +19,7 @@ const PATTERN_OPTIONS = [
   { value: '', label: 'any pattern' },
   { value: 'full', label: 'full white' },
   { value: 'checkerboard', label: 'checkerboard' },
+  { value: 'slanted-edge', label: 'slanted edge' },
 ];
 
 const num = (v: number | undefined) => (v === undefined ? '' : String(v));

@@ -11,12 +11,14 @@ export type CameraProfile = {
   k: number;
   calibration: CalibrationDetails;
   linearity: LinearityDetails | null;
+  /** Angle one pixel spans, measured on a target of known angle; null when not measured. */
+  degreesPerPixel: number | null;
   createdBy: string | null;
   createdAt: Date;
   updatedAt: Date;
 };
 
-type Row = { id: string; lab_id: string; make: string; model: string; name: string; k: number | string; calibration: CalibrationDetails; linearity: LinearityDetails | null; created_by: string | null; created_at: Date; updated_at: Date };
+type Row = { id: string; lab_id: string; make: string; model: string; name: string; k: number | string; calibration: CalibrationDetails; linearity: LinearityDetails | null; degrees_per_pixel?: number | string | null; created_by: string | null; created_at: Date; updated_at: Date };
 
 const toProfile = (r: Row): CameraProfile => ({
   id: r.id,
@@ -26,6 +28,7 @@ const toProfile = (r: Row): CameraProfile => ({
   k: Number(r.k),
   calibration: r.calibration,
   linearity: r.linearity,
+  degreesPerPixel: r.degrees_per_pixel === null || r.degrees_per_pixel === undefined ? null : Number(r.degrees_per_pixel),
   createdBy: r.created_by,
   createdAt: r.created_at,
   updatedAt: r.updated_at,
@@ -80,6 +83,16 @@ export async function saveCameraLinearity(labId: string, userId: string, make: s
       .returning<Row[]>('*');
     if (!row) return null;
     await recordAudit({ labId, userId, action: 'camera.linearity', targetType: 'camera_profile', targetId: row.id, details: { exponent: linearity.exponent, linear: linearity.linear } }, trx);
+    return toProfile(row);
+  });
+}
+
+/** Sets (or clears, with null) a profile's degrees per pixel; null when the lab has no such profile. */
+export async function setCameraDegreesPerPixel(labId: string, userId: string, id: string, degreesPerPixel: number | null): Promise<CameraProfile | null> {
+  return getDb().transaction(async (trx) => {
+    const [row] = await trx('camera_profiles').where({ lab_id: labId, id }).update({ degrees_per_pixel: degreesPerPixel, updated_at: trx.fn.now() }).returning<Row[]>('*');
+    if (!row) return null;
+    await recordAudit({ labId, userId, action: 'camera.angle', targetType: 'camera_profile', targetId: id, details: { degreesPerPixel } }, trx);
     return toProfile(row);
   });
 }

@@ -1,5 +1,6 @@
 import { z } from 'zod';
-import { safe, strictNumber } from './common';
+import { DEGREES_PER_PIXEL_BOUNDS } from '../photometry/geometry';
+import { optionalStrictNumber, safe, strictNumber } from './common';
 import { rectSchema } from './region';
 
 const text = (what: string, max: number) => safe(z.string({ message: `Give the ${what}` }).trim().min(1, { message: `Give the ${what}` }).max(max, { message: `Use at most ${max} characters` }));
@@ -52,5 +53,17 @@ export const linearityDetailsSchema = z.object({
   checkedAt: z.string(),
 });
 export type LinearityDetails = z.infer<typeof linearityDetailsSchema>;
+
+/**
+ * The angle one camera pixel spans, measured on a target of known angle (a blank field clears it):
+ * the field of view then comes from it instead of the EXIF focal length (docs/method.md §5.11).
+ */
+export const degreesPerPixelSchema = z.object({
+  degreesPerPixel: optionalStrictNumber('Enter the angle per pixel in degrees, e.g. 0.0125', (n) =>
+    n
+      .min(DEGREES_PER_PIXEL_BOUNDS[0], { message: `At least ${DEGREES_PER_PIXEL_BOUNDS[0]}° per pixel: a smaller angle is beyond any camera lens` })
+      .max(DEGREES_PER_PIXEL_BOUNDS[1], { message: `At most ${DEGREES_PER_PIXEL_BOUNDS[1]}° per pixel: a larger angle is beyond any camera lens` }),
+  ),
+});
 
 export const cameraIdentitySchema = z.object({ make: text('camera make', 80), model: text('camera model', 80) });

@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { isRawFormat } from '../image/raw-formats';
 import { optionalStrictNumber, safe } from './common';
 
-export const CAPTURE_PATTERNS = ['full', 'checkerboard'] as const;
+export const CAPTURE_PATTERNS = ['full', 'checkerboard', 'slanted-edge'] as const;
 
 /**
  * How the set's 16-bit TIFFs are read: 'auto' lets each photo follow what its file says (see

@@ -30,6 +30,16 @@ export const displayPolarisationSchema = z.discriminatedUnion('kind', [
   z.object({ kind: z.literal('linear'), angleDeg: angle('The polarisation angle', -180, 180) }),
 ]);
 
+const displayPixels = (what: string) =>
+  z
+    .number({ error: `The display ${what} must be a number of pixels` })
+    .refine((v) => Number.isInteger(v) && v >= 1 && v <= 100_000, { message: `The display ${what} must be a whole number of pixels from 1 to 100000` });
+
+const chromaticityCoordinate = (what: string) =>
+  z
+    .number({ error: `The white point ${what} must be a number` })
+    .refine((v) => Number.isFinite(v) && v > 0 && v < 1, { message: `The white point ${what} must be between 0 and 1 (CIE 1931 chromaticity)` });
+
 /** The light source: a small display of known luminance. */
 export const displayElementSchema = z.object({
   kind: z.literal('display'),
@@ -39,6 +49,13 @@ export const displayElementSchema = z.object({
     .refine(Number.isFinite, { message: 'The display luminance must be a finite number' })
     .refine((v) => v > 0, { message: 'The display luminance must be greater than 0 cd/m²' }),
   polarisation: displayPolarisationSchema,
+  /** Native resolution in pixels: the field of view then gives pixels per degree (docs/method.md §5.11). */
+  resolution: z.object({ width: displayPixels('width'), height: displayPixels('height') }).optional(),
+  /** The display's own white, CIE 1931 x, y: the display colour's Δu′v′ is measured from it (D65 otherwise). */
+  white: z
+    .object({ x: chromaticityCoordinate('x'), y: chromaticityCoordinate('y') })
+    .refine((w) => w.x + w.y < 1, { message: 'x + y of the white point must be below 1', path: ['y'] })
+    .optional(),
 });
 
 /** Back face of a plate beam splitter. */
@@ -194,3 +211,15 @@ export const variantStacksSchema = z
 
 export type VariantChange = z.infer<typeof variantChangeSchema>;
 export type VariantStacks = z.infer<typeof variantStacksSchema>;
+
+/**
+ * What the analysis takes from a stored stack's display element (raw JSON, validated here): its
+ * resolution and white point, each null when absent or not valid.
+ */
+export function displayOpticsOf(stack: unknown): { displayResolution: { width: number; height: number } | null; displayWhite: { x: number; y: number } | null } {
+  const elements = stack && typeof stack === 'object' && Array.isArray((stack as { elements?: unknown }).elements) ? ((stack as { elements: unknown[] }).elements) : [];
+  const raw = elements.find((e) => e && typeof e === 'object' && (e as { kind?: unknown }).kind === 'display');
+  const parsed = displayElementSchema.safeParse(raw);
+  if (!parsed.success) return { displayResolution: null, displayWhite: null };
+  return { displayResolution: parsed.data.resolution ?? null, displayWhite: parsed.data.white ?? null };
+}

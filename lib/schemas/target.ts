@@ -36,7 +36,7 @@ const targetFields = z.object({
   ambientLuxMax: bound('The highest ambient illuminance', 200_000),
   backgroundCdm2Min: bound('The lowest background luminance', 100_000),
   backgroundCdm2Max: bound('The highest background luminance', 100_000),
-  pattern: z.preprocess(blank, z.enum(CAPTURE_PATTERNS, { message: 'Pick full white or checkerboard' }).optional()),
+  pattern: z.preprocess(blank, z.enum(CAPTURE_PATTERNS, { message: 'Pick full white, checkerboard or slanted edge' }).optional()),
   variants: variantsField.default([]),
   isDefault: z.preprocess((v) => v === true || v === 'true' || v === 'on', z.boolean()).default(false),
 });

@@ -65,6 +65,7 @@ const ROUTES: { method: string; path: string; access: Access; query?: string }[]
   { method: 'POST', path: '/api/cameras/calibrate', access: 'camera.write' },
   { method: 'POST', path: '/api/cameras/linearity', access: 'camera.write' },
   { method: 'DELETE', path: '/api/cameras/[profileId]', access: 'camera.write' },
+  { method: 'PATCH', path: '/api/cameras/[profileId]', access: 'camera.write' },
   { method: 'GET', path: '/api/v1/projects', access: 'project.read' },
   { method: 'GET', path: '/api/v1/projects/[projectId]/readings', access: 'project.read' },
   { method: 'GET', path: '/api/v1/projects/[projectId]/trend', access: 'project.read' },

@@ -3,10 +3,12 @@ import { findCameraProfile } from '../../db/queries/camera-profiles';
 import { getCaptureSet } from '../../db/queries/capture-sets';
 import { listPhotos, type Photo } from '../../db/queries/photos';
 import { listRegions } from '../../db/queries/regions';
+import { getRevisionStack } from '../../db/queries/stacks';
 import { saveReadingAndFinish, type ReadingArtifacts } from '../../db/queries/readings';
 import { analyzeFiles, type PhotoSource } from '../../lib/image';
 import { EngineInputError } from '../../lib/photometry/errors';
 import { photoEncoding } from '../../lib/schemas/capture-set';
+import { displayOpticsOf } from '../../lib/schemas/stack';
 import type { PhotoRole } from '../../lib/photometry/types';
 import { artifactKey, getStorage } from '../../lib/server/storage';
 import { notifyTargetFailures } from '../../lib/server/targets/notify';
@@ -73,6 +75,9 @@ export async function runAnalysis(labId: string, analysisId: string, onProgress?
   // absolute luminance when the lab has calibrated the camera that took the on photo
   const onExif = (byRole.get('on') as Photo[])[0]?.exif ?? {};
   const profile = await findCameraProfile(labId, onExif.make, onExif.model);
+  // field of view from the profile's measured angle per pixel; pixels per degree and Δu′v′ from the stack's display
+  const revision = await getRevisionStack(labId, set.projectId, set.revisionId);
+  const optics = { degreesPerPixel: profile?.degreesPerPixel ?? null, ...displayOpticsOf(revision?.stack) };
 
   const screen = regions.find((r) => r.kind === 'screen') ?? null;
   const background = regions.find((r) => r.kind === 'background') ?? null;
@@ -85,6 +90,7 @@ export async function runAnalysis(labId: string, analysisId: string, onProgress?
     on: on as PhotoSource | PhotoSource[],
     off: off as PhotoSource | PhotoSource[],
     calibration: profile?.k ?? null,
+    optics,
     ambient,
     dark,
     pattern: set.pattern,

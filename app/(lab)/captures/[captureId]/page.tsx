@@ -2,6 +2,7 @@ import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { AnalysisRunner } from '@/components/capture/analysis-runner';
 import { DeleteCaptureSetForm, EditCaptureSetForm } from '@/components/capture/capture-set-form';
+import { OpticsDetails } from '@/components/capture/optics-details';
 import { ProtocolChecklist } from '@/components/capture/protocol-checklist';
 import { QueryProvider } from '@/components/capture/query-provider';
 import { ReadingsPanel } from '@/components/capture/readings-panel';
@@ -52,7 +53,7 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
     c.ambientLux !== undefined ? `${c.ambientLux} lx ambient` : null,
     c.backgroundCdm2 !== undefined ? `${c.backgroundCdm2} cd/m² background` : null,
     c.displayLevel ? `display ${c.displayLevel}` : null,
-    set.pattern === 'full' ? 'full-white pattern' : '4 × 4 checkerboard',
+    set.pattern === 'full' ? 'full-white pattern' : set.pattern === 'slanted-edge' ? 'slanted-edge pattern' : '4 × 4 checkerboard',
     set.tiffEncoding === 'linear' ? '16-bit TIFFs read as linear' : set.tiffEncoding === 'srgb' ? '16-bit TIFFs read as sRGB' : null,
   ].filter(Boolean);
 
@@ -126,6 +127,7 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
               photosChanged={photosChanged}
             />
             <ReadingsPanel reading={reading} analyses={analyses} captureSetId={set.id} selectedId={reading?.analysisId ?? null} />
+            {reading ? <OpticsDetails result={reading.result} /> : null}
           </div>
         </Panel>
         {canWrite || canDelete ? (

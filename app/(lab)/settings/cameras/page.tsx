@@ -1,5 +1,5 @@
 import { forbidden } from 'next/navigation';
-import { CalibrationForm, DeleteProfileButton, LinearityForm } from '@/components/cameras/camera-forms';
+import { CalibrationForm, DegreesPerPixelForm, DeleteProfileButton, LinearityForm } from '@/components/cameras/camera-forms';
 import { EmptyState, Notice, Panel } from '@/components/ui/panel';
 import { listCameraProfiles } from '@/db/queries/camera-profiles';
 import { can } from '@/lib/auth/permissions';
@@ -48,6 +48,10 @@ export default async function CameraProfilesPage() {
                       <span className="text-warn">Linearity not checked</span>
                     )}
                   </div>
+                  <div className="text-xs text-muted" data-testid="camera-angle">
+                    {p.degreesPerPixel === null ? 'Angle per pixel not measured: the field of view comes from the EXIF focal length' : `${p.degreesPerPixel}° per pixel, measured on a target of known angle`}
+                  </div>
+                  {write ? <DegreesPerPixelForm id={p.id} value={p.degreesPerPixel} /> : null}
                 </div>
                 {write ? <DeleteProfileButton id={p.id} name={p.name} /> : null}
               </li>

@@ -160,7 +160,7 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
               cells: {
                 label: { text: s.label },
                 variant: { text: s.variant || '—', sort: s.variant },
-                pattern: { text: s.pattern === 'full' ? 'full white' : 'checkerboard' },
+                pattern: { text: s.pattern === 'full' ? 'full white' : s.pattern === 'slanted-edge' ? 'slanted edge' : 'checkerboard' },
                 photos: { text: `${s.photoCount} (${s.roles.join(', ') || 'none'})`, sort: s.photoCount },
                 lux: { text: formatIlluminance(s.conditions.ambientLux), sort: s.conditions.ambientLux ?? null },
                 status: { text: s.latestStatus ? (STATUS_TEXT[s.latestStatus] ?? s.latestStatus) : 'not analysed', sort: s.latestStatus },
