@@ -61,7 +61,7 @@ describe('display colour (docs/method.md §5.12)', () => {
   });
 
   it('gives the CCT of CIE illuminants A, D50, D65 and D75 within 5 K (McCamy)', () => {
-    // chromaticities and CCTs of CIE 15:2004's illuminants (published; D-series CCTs rounded to the kelvin)
+    // chromaticities and CCTs of CIE 15:2004's illuminants (from memory, docs/references.md; McCamy's cubic meeting all four is itself a check of both)
     expect(Math.abs((cctMcCamy({ x: 0.44757, y: 0.40745 }) as number) - 2856)).toBeLessThan(5);
     expect(Math.abs((cctMcCamy({ x: 0.34567, y: 0.3585 }) as number) - 5003)).toBeLessThan(5);
     expect(Math.abs((cctMcCamy({ x: 0.31271, y: 0.32902 }) as number) - 6504)).toBeLessThan(5);

@@ -82,7 +82,7 @@ describe('optics readings through the whole analysis', () => {
     const o = new Color('srgb-linear', white);
     expect(Math.abs((r.displayColour?.x as number) - xyOf(o)[0]!)).toBeLessThan(5e-4);
     expect(r.displayColour?.whiteRef).toBe('display');
-    // McCamy's cubic (published, McCamy 1992) on colorjs.io's chromaticity of the display's white
+    // McCamy's cubic (McCamy 1992, from memory, docs/references.md) on colorjs.io's chromaticity of the display's white
     const [x, y] = xyOf(o);
     const k = (x - 0.332) / (0.1858 - y);
     expect(Math.abs((r.displayColour?.cct as number) - (449 * k ** 3 + 3525 * k ** 2 + 6823.3 * k + 5520.33))).toBeLessThan(15);
