@@ -7,6 +7,7 @@ import { REPORT_CAUTIONS } from '../../reports/cautions';
 import { ReportWriter } from '../../reports/pdf';
 import type { ReportOptions } from './build';
 import { captureFigures } from './figures';
+import { opticsSection } from './optics-section';
 
 /**
  * The PDF of one capture set: its conditions, the newest reading's figures and warnings, the on
@@ -23,7 +24,7 @@ export async function captureReport(labId: string, captureSetId: string, opts: R
     c.ambientLux !== undefined ? `${c.ambientLux} lx ambient` : null,
     c.backgroundCdm2 !== undefined ? `${c.backgroundCdm2} cd/m² background` : null,
     c.displayLevel ? `display ${c.displayLevel}` : null,
-    set.pattern === 'full' ? 'full-white pattern' : '4 × 4 checkerboard',
+    set.pattern === 'full' ? 'full-white pattern' : set.pattern === 'slanted-edge' ? 'slanted-edge pattern' : '4 × 4 checkerboard',
   ].filter(Boolean);
 
   const w = new ReportWriter(`${set.projectName} ${set.revisionLabel} ${set.label}`, { compress: opts.compress });
@@ -50,6 +51,8 @@ export async function captureReport(labId: string, captureSetId: string, opts: R
       w.bullets(reading.result.warnings.map((x) => x.message));
     }
   }
+
+  if (reading) await opticsSection(w, reading.result);
 
   w.heading('Photo and maps');
   const { figures, missing } = await captureFigures(labId, set, reading, { maps: ['logContrast', 'difference'], side: 480 });
