@@ -85,6 +85,18 @@ export function strokeWidth(W: number): number {
   return 2 * Math.max(1, W / 1600);
 }
 
+/**
+ * Handle side, stroke width and label size in photo pixels, chosen so they look the same on
+ * screen (14, 2 and 12 screen pixels) whatever the photo's size, the page's width and the zoom.
+ * `shownWidth` is the drawing's width on screen; before it is measured (0) the fixed sizes above
+ * stand in.
+ */
+export function drawingUnits(W: number, shownWidth: number): { handle: number; stroke: number; font: number } {
+  if (!(shownWidth > 0)) return { handle: handleSize(W), stroke: strokeWidth(W), font: strokeWidth(W) * 6 };
+  const perPx = W / shownWidth;
+  return { handle: 14 * perPx, stroke: 2 * perPx, font: 12 * perPx };
+}
+
 export function cornerPoint(r: Rect, c: Corner): Point {
   return { x: c.endsWith('w') ? r.x : r.x + r.w, y: c.startsWith('n') ? r.y : r.y + r.h };
 }

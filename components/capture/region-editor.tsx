@@ -17,7 +17,7 @@ import {
   draftOf,
   dragHint,
   ghostRect,
-  handleSize,
+  drawingUnits,
   hitTest,
   KEY_HINT,
   keyAction,
@@ -26,7 +26,6 @@ import {
   REGION_STYLE,
   sameRegions,
   screenToPhoto,
-  strokeWidth,
   toolTarget,
   TOOLS,
   type Drag,
@@ -104,8 +103,16 @@ export function RegionEditor({
   const applyTemplate = useApplyTemplate(captureSetId);
   const draft = useRegionDraft();
 
-  const handle = handleSize(W);
-  const stroke = strokeWidth(W);
+  // sizes on the drawing follow the width it is shown at (page width, zoom)
+  const [shownWidth, setShownWidth] = useState(0);
+  useEffect(() => {
+    const el = svgRef.current;
+    if (!el || typeof ResizeObserver === 'undefined') return;
+    const ro = new ResizeObserver((entries) => setShownWidth(entries[0]?.contentRect.width ?? 0));
+    ro.observe(el);
+    return () => ro.disconnect();
+  }, []);
+  const { handle, stroke, font } = drawingUnits(W, shownWidth);
   const get = (kind: RegionKind) => regions.find((r) => r.kind === kind) ?? null;
   const target = toolTarget(tool, selected);
   const pendingKinds = REGION_KINDS.filter((k) => drafts[k] && draftChanged(drafts[k] as RectDraft, get(k)));
@@ -266,7 +273,6 @@ export function RegionEditor({
     : tool === 'select'
       ? 'Select: drag a rectangle to move it, a corner of the selected one to resize it.'
       : `${REGION_STYLE[tool].name} tool: drag anywhere, also over another rectangle, to draw the ${tool}; drag inside the ${tool} to move it, a corner to resize it.`;
-  const label = (stroke * 7).toFixed(1);
 
   return (
     <div className="space-y-3">
@@ -375,7 +381,16 @@ export function RegionEditor({
             {ghostOnPhoto && detectedGhost ? (
               <g data-testid="detected-ghost" pointerEvents="none">
                 <rect x={ghostOnPhoto.x} y={ghostOnPhoto.y} width={ghostOnPhoto.w} height={ghostOnPhoto.h} fill="none" stroke={REGION_STYLE.ghost.colour} strokeWidth={stroke} strokeDasharray={`${stroke * 4} ${stroke * 2} ${stroke} ${stroke * 2}`} />
-                <text x={ghostOnPhoto.x + stroke * 3} y={ghostOnPhoto.y + ghostOnPhoto.h - stroke * 3} fill={REGION_STYLE.ghost.colour} stroke="black" strokeWidth={stroke} paintOrder="stroke" fontSize={label}>
+                <text
+                  x={ghostOnPhoto.x + ghostOnPhoto.w}
+                  y={ghostOnPhoto.y + ghostOnPhoto.h + font * 1.1 <= H ? ghostOnPhoto.y + ghostOnPhoto.h + font * 1.1 : ghostOnPhoto.y + ghostOnPhoto.h - stroke * 2}
+                  textAnchor="end"
+                  fill={REGION_STYLE.ghost.colour}
+                  stroke="black"
+                  strokeWidth={stroke}
+                  paintOrder="stroke"
+                  fontSize={font}
+                >
                   detected ghost
                 </text>
               </g>
@@ -405,13 +420,13 @@ export function RegionEditor({
                   />
                   <text
                     x={atEnd ? r.x + r.w - stroke * 3 : r.x + stroke * 3}
-                    y={atEnd ? r.y + r.h - stroke * 3 : r.y + stroke * 3 + Number(label)}
+                    y={atEnd ? r.y + r.h - stroke * 3 : r.y + stroke * 2 + font}
                     textAnchor={atEnd ? 'end' : 'start'}
                     fill={s.colour}
                     stroke="black"
                     strokeWidth={stroke}
                     paintOrder="stroke"
-                    fontSize={label}
+                    fontSize={font}
                     fontWeight={600}
                     data-testid={`label-${r.kind}`}
                   >

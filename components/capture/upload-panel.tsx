@@ -5,6 +5,7 @@ import { useRouter } from 'next/navigation';
 import { useCallback, useState } from 'react';
 import { useDropzone } from 'react-dropzone';
 import { apiJson } from '@/lib/hooks/api';
+import { PHOTO_ACCEPT, RAW_LIST } from '@/lib/image/raw-formats';
 import { replacePhoto, uploadPhoto } from '@/lib/hooks/upload-photo';
 import { photoEncoding, type TiffEncodingSetting } from '@/lib/schemas/capture-set';
 import { MAX_UPLOAD_BYTES, PHOTO_ROLES, ROLE_HINTS, ROLE_LABELS, roleFromFileName, type PhotoRole } from '@/lib/schemas/upload';
@@ -170,7 +171,9 @@ export function UploadPanel({ captureSetId, photos, canWrite, tiffEncoding = 'au
 }
 
 function MultiDrop({ onFiles }: { onFiles: (files: File[]) => void }) {
-  const { getRootProps, getInputProps, isDragActive } = useDropzone({ onDrop: onFiles, multiple: true });
+  // the picker offers photos and camera raw files; a dropped file of another type still goes to the
+  // server, whose refusal says what to send instead
+  const { getRootProps, getInputProps, isDragActive } = useDropzone({ onDrop: onFiles, onDropRejected: (r) => onFiles(r.map((x) => x.file)), accept: PHOTO_ACCEPT, multiple: true });
   return (
     <div
       {...getRootProps({
@@ -181,9 +184,9 @@ function MultiDrop({ onFiles }: { onFiles: (files: File[]) => void }) {
     >
       <input {...getInputProps()} data-testid="multi-drop-input" />
       <p className="text-ink">Drop the whole set here</p>
-      <p className="mt-1 text-xs text-muted">Roles come from the file names: on / display-on, off, ambient / world / no-optics, dark. Up to 60 MB a photo; JPEG, PNG, TIFF (16-bit welcome) or WebP.</p>
-      <p className="mt-1 text-xs text-muted">
-        Best of all: 16-bit linear TIFFs converted from camera raw without a gamma curve. A 16-bit TIFF with no colour profile or a linear one is read as linear; one with an sRGB or other gamma profile as gamma-encoded. Each photo below says how it is read and can be changed.
+      <p className="mt-1 text-xs text-muted">Roles come from the file names: on / display-on, off, ambient / world / no-optics, dark. Up to 60 MB a photo; camera raw ({RAW_LIST}), JPEG, PNG, TIFF (16-bit welcome) or WebP.</p>
+      <p className="mt-1 text-xs text-muted" data-testid="raw-best">
+        Raw is best: upload the camera’s raw files as they are, no conversion step. They are decoded to linear light, every raw photo of the set with the same fixed white balance. A 16-bit TIFF with no colour profile or a linear one is read as linear; one with an sRGB or other gamma profile as gamma-encoded. Each photo below says how it is read and can be changed.
       </p>
     </div>
   );
@@ -206,7 +209,7 @@ function RoleSlot({
   onReplace: (photo: PhotoCard, file: File) => void;
   tiffEncoding: TiffEncodingSetting;
 }) {
-  const { getRootProps, getInputProps, isDragActive } = useDropzone({ onDrop: onFiles, multiple: true, disabled: !canWrite, noClick: !canWrite });
+  const { getRootProps, getInputProps, isDragActive } = useDropzone({ onDrop: onFiles, onDropRejected: (r) => onFiles(r.map((x) => x.file)), accept: PHOTO_ACCEPT, multiple: true, disabled: !canWrite, noClick: !canWrite });
   const bracket = photos.length;
   return (
     <div
@@ -229,7 +232,7 @@ function RoleSlot({
             <li key={photo.id} className="space-y-1 text-xs" data-testid={`photo-${role}`} data-photo-id={photo.id}>
               <div className="flex gap-2">
                 <PhotoThumbnail captureSetId={captureSetId} photo={photo} />
-                <div className="min-w-0 space-y-1">
+                <div className="min-w-0 flex-1 space-y-1 [contain:inline-size]">
                   <div className="truncate font-mono text-ink" title={photo.originalName}>
                     {photo.originalName}
                   </div>

@@ -105,8 +105,8 @@ test('with the Ghost tool a drag that starts inside the screen draws a ghost and
   await page.getByRole('button', { name: 'Save regions' }).click();
   await expect(page.getByRole('status').filter({ hasText: 'Regions saved' })).toBeVisible();
   const rows = await getDb()('regions').where({ capture_set_id: id }).orderBy('kind').select('kind', 'x', 'y', 'w', 'h');
-  expect(rows.find((r) => r.kind === 'screen')).toMatchObject(screen);
-  expect(rows.find((r) => r.kind === 'ghost')).toMatchObject(ghost);
+  expect(rows.find((r) => r.kind === 'screen')).toMatchObject({ ...screen });
+  expect(rows.find((r) => r.kind === 'ghost')).toMatchObject({ ...ghost });
 });
 
 test('typed x, y, w and h move the rectangle, out-of-photo values are refused with a message, keys step 1, 10 and 100 px', async ({ page }) => {

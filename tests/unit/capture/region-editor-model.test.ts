@@ -11,6 +11,7 @@ import {
   draftOf,
   dragHint,
   dragRegion,
+  drawingUnits,
   ghostRect,
   handleSize,
   hitTest,
@@ -60,6 +61,14 @@ describe('scaling between the screen and the photo', () => {
     expect(handleSize(1600)).toBe(12);
     expect(handleSize(6400)).toBe(48);
     expect(strokeWidth(3200)).toBe(4);
+  });
+
+  it('once the drawing is measured, sizes handles, strokes and labels for the width it is shown at', () => {
+    // a 6000 px wide photo shown 375 px wide on a phone: one screen pixel is 16 photo pixels
+    expect(drawingUnits(6000, 375)).toEqual({ handle: 224, stroke: 32, font: 192 });
+    // the same photo zoomed 8× on a 1200 px panel: 0.625 photo pixels a screen pixel
+    expect(drawingUnits(6000, 9600)).toEqual({ handle: 8.75, stroke: 1.25, font: 7.5 });
+    expect(drawingUnits(800, 0)).toEqual({ handle: 12, stroke: 2, font: 12 });
   });
 });
 
