@@ -4,7 +4,7 @@ const STEPS = [
   'No HDR, night or scene modes.',
   'Same settings for on and off (unless you bracket the exposure on purpose).',
   'Avoid clipping: the brightest part of the screen must stay below full scale. The reading warns when it does not.',
-  'Best: RAW converted to 16-bit TIFF. Camera JPEG is accepted.',
+  'Raw is best: upload the camera’s raw files (DNG, CR2, CR3, NEF, ARW, RAF, ORF, RW2, PEF, SRW) as they are, no conversion step. Camera JPEG is accepted.',
   'Show the test pattern fullscreen from the Test patterns page.',
   'Ambient photo: same scene and settings with the optics taken out of the path.',
 ];

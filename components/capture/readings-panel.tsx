@@ -89,6 +89,18 @@ function metrics(r: Reading): Metric[] {
       .join(' · ');
     out.push({ key: 'decoded-as', label: 'Photos read as', value: text, unit: '', definition: 'Linear: 16-bit TIFF values taken as proportional to light; sRGB: decoded through the sRGB curve (capture set and photo settings).' });
   }
+  // camera raw photos: the one white balance every raw photo of the set was decoded with
+  const rawWb = (res as typeof res & { rawWhiteBalance?: { multipliers: number[]; source: 'daylight' | 'unity' } }).rawWhiteBalance;
+  if (rawWb) {
+    const [r = 1, g = 1, b = 1] = rawWb.multipliers;
+    out.push({
+      key: 'raw-white-balance',
+      label: 'Raw white balance',
+      value: `R ${f(r / g, 3)} · G 1 · B ${f(b / g, 3)}`,
+      unit: rawWb.source === 'daylight' ? 'camera daylight (D65)' : 'unity: no colour data for this camera',
+      definition: 'Channel multipliers applied to every raw photo of the set alike, from the first raw photo’s camera colour data; never the as-shot or an automatic balance.',
+    });
+  }
   for (const [role, b] of Object.entries(extra.brackets ?? {})) {
     if (b) out.push({ key: `bracket-${role}`, label: `Bracket, ${role} photo`, value: b.dynamicRange === null ? '—' : `${f(b.dynamicRange, 0)}:1`, unit: `${b.count} exposures${b.stops === null ? '' : ` · ${f(b.stops, 1)} stops`}`, definition: 'Photos of one role at different exposures merged into one linear plane; the range spans the brightest to the darkest measured pixels.' });
   }

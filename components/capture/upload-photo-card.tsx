@@ -3,6 +3,7 @@
 import { useRouter } from 'next/navigation';
 import { useRef, useState } from 'react';
 import { apiJson } from '@/lib/hooks/api';
+import { PHOTO_ACCEPT_ATTRIBUTE } from '@/lib/image/raw-formats';
 import { ROLE_LABELS, type PhotoRole } from '@/lib/schemas/upload';
 import { removeQuestion } from './upload-queue';
 
@@ -62,6 +63,7 @@ export function PhotoActions({ captureSetId, photo, onReplace }: { captureSetId:
         <input
           ref={input}
           type="file"
+          accept={PHOTO_ACCEPT_ATTRIBUTE}
           className="hidden"
           data-testid={`replace-input-${photo.id}`}
           onChange={(e) => {

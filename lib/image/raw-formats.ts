@@ -31,3 +31,9 @@ export const RAW_ACCEPT: Record<string, string[]> = Object.fromEntries(RAW_KINDS
 export function isRawFormat(format: string): format is RawKind {
   return (RAW_KINDS as readonly string[]).includes(format);
 }
+
+/** Every photo the upload takes, for react-dropzone's accept: any image type, and raw files by extension (browsers often give them no type). */
+export const PHOTO_ACCEPT: Record<string, string[]> = { 'image/*': [], ...RAW_ACCEPT };
+
+/** The same as an `accept` attribute of a file input. */
+export const PHOTO_ACCEPT_ATTRIBUTE = ['image/*', ...RAW_KINDS.map((k) => `.${RAW_TYPES[k].ext}`)].join(',');

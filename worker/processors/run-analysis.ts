@@ -86,7 +86,7 @@ export async function runAnalysis(labId: string, analysisId: string, onProgress?
   // a marked ghost rectangle is the screen's copy: its offset is what the engine wants
   const ghostOffset = ghost && screen ? { dx: ghost.x - screen.x, dy: ghost.y - screen.y } : null;
 
-  const { result: engineResult, artifacts } = await analyzeFiles({
+  const { result: engineResult, artifacts, rawWhiteBalance } = await analyzeFiles({
     on: on as PhotoSource | PhotoSource[],
     off: off as PhotoSource | PhotoSource[],
     calibration: profile?.k ?? null,
@@ -108,7 +108,8 @@ export async function runAnalysis(labId: string, analysisId: string, onProgress?
     const kinds = new Set(list.map((p) => (linear.get(p.id) ? 'linear' : 'srgb')));
     decodedAs[role] = kinds.size > 1 ? 'mixed' : ([...kinds][0] as 'linear' | 'srgb');
   }
-  const withInput = { ...engineResult, decodedAs };
+  // camera raw photos: the one white balance all of them were decoded with (lib/image/raw.ts)
+  const withInput = rawWhiteBalance ? { ...engineResult, decodedAs, rawWhiteBalance } : { ...engineResult, decodedAs };
   const result = profile ? { ...withInput, cameraProfile: { id: profile.id, name: profile.name, make: profile.make, model: profile.model, k: profile.k } } : withInput;
 
   report('artifacts', 92, true);

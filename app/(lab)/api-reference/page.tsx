@@ -1,4 +1,5 @@
 import { EmptyState, PageTitle, Panel } from '@/components/ui/panel';
+import { RAW_LIST } from '@/lib/image/raw-formats';
 import { openApiDocument, routeErrors } from '@/lib/server/api-v1/openapi';
 import { IDEMPOTENCY_TTL_HOURS, SCOPE_LABELS, TOKEN_SCOPES, V1_ROUTE_LIST, pathParams, type V1Route } from '@/lib/server/api-v1/routes';
 import { requireActor } from '@/lib/server/auth/session';
@@ -145,7 +146,7 @@ function Route({ r }: { r: V1Route & { id: string } }) {
       {r.body ? (
         <section>
           <h4 className="text-xs font-semibold uppercase tracking-wide text-muted">Request body</h4>
-          {r.body.kind === 'json' ? <Fields schema={schemaNamed(r.body.name)} /> : <p className="text-xs">{r.body.description}: the file’s bytes (JPEG, PNG or TIFF)</p>}
+          {r.body.kind === 'json' ? <Fields schema={schemaNamed(r.body.name)} /> : <p className="text-xs">{r.body.description}: the file’s bytes (JPEG, PNG, TIFF, WebP or camera raw: {RAW_LIST})</p>}
         </section>
       ) : null}
       <section>

@@ -2,6 +2,7 @@
 // its zod schemas with zod's own JSON Schema output (draft 2020-12, the dialect OpenAPI 3.1 uses).
 import { z } from 'zod';
 import pkg from '../../../package.json';
+import { RAW_KINDS, RAW_TYPES } from '../../image/raw-formats';
 import { errorAnswer } from './schemas';
 import { COMMON_ERRORS, IDEMPOTENCY_ERRORS, IDEMPOTENCY_TTL_HOURS, SCOPE_LABELS, TOKEN_SCOPES, V1_ROUTE_LIST, pathParams, type V1Route } from './routes';
 
@@ -92,7 +93,8 @@ function operation(r: V1Route & { id: string }, schemas: Record<string, Json>): 
     op.requestBody = {
       required: true,
       description: r.body.description,
-      content: { 'image/jpeg': { schema: {} }, 'image/png': { schema: {} }, 'image/tiff': { schema: {} }, 'application/octet-stream': { schema: {} } },
+      // camera raw files too, under their usual media types (sent as octet-stream they are accepted alike)
+      content: Object.fromEntries(['image/jpeg', 'image/png', 'image/tiff', 'image/webp', ...RAW_KINDS.map((k) => RAW_TYPES[k].contentType), 'application/octet-stream'].map((t) => [t, { schema: {} }])),
     };
   }
   return op;

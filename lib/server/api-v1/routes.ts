@@ -162,13 +162,13 @@ export const V1_ROUTES = {
     path: '/captures/{captureId}/photos',
     summary: 'Upload one photo',
     description:
-      'The body is the file itself (JPEG, PNG or TIFF, at most 60 MB), with ?role=on|off|ambient|dark. X-File-Name may carry its name (percent-encoded). The same file again for the same role answers 200 with duplicate: true.',
+      'The body is the file itself (JPEG, PNG, TIFF, WebP or camera raw: DNG, CR2, CR3, NEF, ARW, RAF, ORF, RW2, PEF, SRW; at most 60 MB), with ?role=on|off|ambient|dark. X-File-Name may carry its name (percent-encoded). The same file again for the same role answers 200 with duplicate: true.',
     tag: 'Photos',
     permission: 'capture.write',
     scope: 'capture:write',
     query: z.object({
       role: z.enum(PHOTO_ROLES).describe('Which photo this is'),
-      encoding: z.enum(['auto', 'linear', 'srgb']).optional().describe('How a 16-bit TIFF encodes light; auto follows the set and the file'),
+      encoding: z.enum(['auto', 'linear', 'srgb']).optional().describe('How a 16-bit TIFF encodes light; auto follows the set and the file (camera raw is always linear)'),
     }),
     body: { kind: 'binary', description: 'The photo file' },
     answers: {

@@ -3,6 +3,7 @@ import { findPhotoBySha, listPhotos, putPhoto, replacesInBracket, type Photo } f
 import { AppError } from '../../errors';
 import { EXIF_BOUNDS, exifText, withinBounds } from '../../image/exif';
 import { makePreview } from '../../image/preview';
+import { isRawFormat } from '../../image/raw-formats';
 import { probePhoto, type ProbedPhoto } from '../../image/probe';
 import { isEngineInputError } from '../../photometry/errors';
 import { MAX_UPLOAD_BYTES, ROLE_LABELS, type PhotoRole } from '../../schemas/upload';
@@ -32,8 +33,12 @@ export async function ingestPhoto(input: { labId: string; userId: string; captur
     throw e;
   }
 
-  // only a 16-bit TIFF can hold linear values (the engine refuses the rest, as the CLI's --linear16 does)
-  if (input.encoding === 'linear' && !(probed.format === 'tiff' && probed.bitDepth === 16)) {
+  // a camera raw photo is always decoded to linear light: declaring it sRGB-encoded is a mistake to say
+  if (isRawFormat(probed.format) && input.encoding === 'srgb') {
+    throw refuse(`${name} is a camera raw file, which is always read as linear light: upload it without an encoding (or with linear).`, 'raw_always_linear');
+  }
+  // only a 16-bit TIFF (or a camera raw file) can hold linear values (the engine refuses the rest, as the CLI's --linear16 does)
+  if (input.encoding === 'linear' && !isRawFormat(probed.format) && !(probed.format === 'tiff' && probed.bitDepth === 16)) {
     throw refuse(`${name} is ${probed.bitDepth === 8 ? 'an' : 'a'} ${probed.bitDepth}-bit ${probed.format === 'jpeg' ? 'JPEG' : probed.format.toUpperCase()}, so it cannot be declared linear: only 16-bit TIFFs can.`, 'not_linear');
   }
 
@@ -57,8 +62,10 @@ export async function ingestPhoto(input: { labId: string; userId: string; captur
 
   let preview;
   try {
-    preview = await makePreview(bytes);
-  } catch {
+    preview = await makePreview(bytes, name);
+  } catch (e) {
+    // a raw file's half-size decode says what went wrong in its own words
+    if (isEngineInputError(e)) throw refuse(sentence(e.message));
     throw refuse(`${name} is damaged or cut short and cannot be decoded: upload the complete file again`);
   }
 
