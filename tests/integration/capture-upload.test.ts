@@ -68,7 +68,7 @@ describe('photo upload intake', () => {
       ['empty.jpg', new Uint8Array(0), /empty\.jpg is empty/],
       ['huge.png', declaredPng(20000, 20000), /huge\.png has 400 megapixels .* more than 100/],
       ['phone.heic', Buffer.concat([Buffer.from([0, 0, 0, 24]), Buffer.from('ftypheic'), Buffer.alloc(40)]), /HEIC is not supported: export the photo as 16-bit TIFF or JPEG/],
-      ['shot.cr2', Buffer.concat([Buffer.from([0x49, 0x49, 0x2a, 0]), Buffer.from([8, 0, 0, 0]), Buffer.from('CR'), Buffer.alloc(40)]), /shot\.cr2 has the signature of a Canon CR2 file, but libraw does not recognise it as a camera raw photo/],
+      ['shot.cr2', Buffer.concat([Buffer.from([0x49, 0x49, 0x2a, 0]), Buffer.from([8, 0, 0, 0]), Buffer.from('CR'), Buffer.alloc(40)]), /shot\.cr2 has the signature of a Canon CR2 file, but .*: upload the original file from the camera again, or convert it to DNG/],
     ];
     for (const [name, bytes, re] of cases) {
       const r = await refusal(name, bytes);
