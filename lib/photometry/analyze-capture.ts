@@ -9,7 +9,10 @@ import { alignAndLocate, sourceOf, type Aligned } from './stages/align';
 import { analysisMaps } from './stages/artifacts';
 import { findGhost } from './stages/ghost';
 import { cached, type AnalysisMemo } from './stages/memo';
-import { absoluteLuminance, clipping, contrastFigures, finiteOrNull, measureRegions, regionsOf, seeThrough, uniformityCells, type RegionTotals } from './stages/measure';
+import { absoluteLuminance, clipping, contrastFigures, finiteOrNull, measureRegions, regionsOf, seeThrough, seeThroughMeans, uniformityCells, type RegionTotals } from './stages/measure';
+import { fitExclusions, seeThroughFit } from './stages/see-through-fit';
+import { uncertainties } from './stages/uncertainty';
+import { registrationBound } from './uncertainty';
 import { normalise, type CaptureRoleInput, type Normalised } from './stages/normalise';
 import { checkOpticsOptions, opticsReadings, type OpticsOptions } from './stages/optics';
 import { uniformity } from './uniformity';
@@ -72,7 +75,7 @@ function checkGhostOffset(o: Offset | 'none' | null | undefined, screen: Rect, w
 }
 
 /** Ghost and uniformity of the on − off variant and, with a dark photo, of the dark variant. */
-export function ghostVariants(n: Normalised, a: Aligned, totals: RegionTotals, marked: Offset | 'none' | null, memo: AnalysisMemo | null, warnings: EngineWarning[]): { onMinusOff: GhostAndUniformity; dark: GhostAndUniformity | null } {
+export function ghostVariants(n: Normalised, a: Aligned, totals: RegionTotals, marked: Offset | 'none' | null, memo: AnalysisMemo | null, warnings: EngineWarning[]): { onMinusOff: GhostAndUniformity; dark: GhostAndUniformity | null; darkPlane: Plane | null } {
   const common = { screen: a.screen, factor: n.factor, width: n.width, height: n.height, zone: a.spread.zone, marked };
   const off = a.motion.off as Motion;
   const diffKey = `${n.key.on}:${n.key.off}:${off.dx},${off.dy},${off.angle}`;
@@ -87,6 +90,7 @@ export function ghostVariants(n: Normalised, a: Aligned, totals: RegionTotals, m
   };
   const onMinusOff = variant(['on', 'off'], a.diffSmall, a.readDiff, diffKey, 'on − off');
   let dark: GhostAndUniformity | null = null;
+  let darkPlane: Plane | null = null;
   if (n.photos.dark) {
     const m = a.motion.dark as Motion;
     const darkSmall = warpPlane(n.small.dark as Plane, scaleMotion(m, n.factor));
@@ -96,8 +100,9 @@ export function ghostVariants(n: Normalised, a: Aligned, totals: RegionTotals, m
     const offSrc = sourceOf(n, 'off', off);
     const read = k > 0 ? diffReader(sourceOf(n, 'dark', m), { ...offSrc, scale: offSrc.scale * k }) : diffReader(sourceOf(n, 'dark', m));
     dark = variant(['dark'], plane, read, null, 'dark');
+    darkPlane = plane;
   }
-  return { onMinusOff, dark };
+  return { onMinusOff, dark, darkPlane };
 }
 
 /**
@@ -205,7 +210,7 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
 
   progress('ghost', 0.6);
   const marked = input.ghostOffset === 'none' ? 'none' : input.ghostOffset ?? null;
-  const { onMinusOff, dark: darkVariant } = ghostVariants(n, a, totals, marked, memo, warnings);
+  const { onMinusOff, dark: darkVariant, darkPlane } = ghostVariants(n, a, totals, marked, memo, warnings);
   const primary = darkVariant ?? onMinusOff;
 
   progress('see-through', 0.7);
@@ -226,6 +231,32 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     }
   }
   const absolute = absoluteLuminance(n, levels, input.calibration, warnings);
+
+  progress('see-through fit', 0.8);
+  // cd/m² per unit of on-scale luminance, from a camera profile only
+  const cdm2PerUnit = absolute?.kind === 'calibrated' && levels.lOn > 0 ? absolute.on / levels.lOn : null;
+  const fit = n.photos.ambient
+    ? seeThroughFit(
+        n,
+        { off: a.motion.off as Motion, ambient: a.motion.ambient as Motion },
+        { background, exclude: fitExclusions(a.mask, screen, a.spread.zone, primary.ghost ?? onMinusOff.ghost) },
+        cdm2PerUnit,
+        warnings,
+        Math.hypot(registrationBound(a.motion.off?.spread), registrationBound(a.motion.ambient?.spread)),
+      )
+    : { transmissionOptics: null, veil: null, u: null, noise: null };
+  const uncertainty = uncertainties({
+    n,
+    a,
+    regions,
+    levels,
+    pattern,
+    primary,
+    primaryPlane: darkVariant && darkPlane ? { plane: darkPlane, dark: true } : { plane: a.diffSmall, dark: false },
+    transmission,
+    seeThroughMeans: seeThroughMeans(n, totals),
+    fit,
+  });
 
   const optics = opticsReadings(n, a, pattern, input.optics ?? {}, warnings, (darkSmall) => darkRoomShare(darkSmall, a.offSmall, a.mask, n.factor), memo);
 
@@ -267,6 +298,9 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     warnings,
     alignment,
     edge: { spread: round1(a.spread.width), zone: a.spread.zone },
+    transmissionOptics: fit.transmissionOptics,
+    veil: fit.veil,
+    uncertainty,
     sharpness: optics.sharpness,
     geometry: optics.geometry,
     displayColour: optics.displayColour,

@@ -21,6 +21,8 @@ export const WARNING_CODES = [
   'both-clipped',
   'display-off',
   'sharpness-unmeasured',
+  'see-through-range-small',
+  'see-through-unfitted',
 ] as const;
 
 export type WarningCode = (typeof WARNING_CODES)[number];
@@ -74,6 +76,24 @@ export interface GhostAndUniformity {
   uniformity: number | null;
   uniformityCells: number[] | null;
 }
+
+/** The light the optics add to the see-through view: the intercept of off = T·ambient + veil (docs/method.md §5.8). */
+export interface VeilResult {
+  /** Intercept over the mean ambient luminance of the fit region (a fraction). */
+  relative: number;
+  /** Intercept in cd/m² when the reading has calibrated absolute luminance, else null. */
+  cdm2: number | null;
+  /** Per channel: slope T and the intercept over that channel's mean ambient level (null for grey photos). */
+  channels: { r: { t: number; veil: number }; g: { t: number; veil: number }; b: { t: number; veil: number } } | null;
+  /** 95th over 5th percentile of the ambient luminance over the fit region (how well slope and intercept separate). */
+  rangeRatio: number;
+  /** The marked background region, or the frame outside the screen, its edge zone and the ghost. */
+  source: 'background' | 'outside-screen';
+}
+
+/** The metrics that carry a standard uncertainty (same names as the readings' metric keys). */
+export const UNCERTAIN_METRICS = ['ambientContrastRatio', 'michelson', 'ansiContrast', 'uniformity', 'ghostRatio', 'transmission', 'transmissionOptics', 'veil'] as const;
+export type UncertainMetric = (typeof UNCERTAIN_METRICS)[number];
 
 /** Slanted-edge sharpness of the virtual image (docs/method.md §5.10). */
 export interface SharpnessResult {
@@ -147,6 +167,15 @@ export interface CaptureResult {
   alignment?: Partial<Record<'off' | 'ambient' | 'dark', AlignmentDetail>>;
   /** The screen's edge spread (10–90% rise, px) and the edge zone left out of ghost bands (px). */
   edge?: { spread: number; zone: number };
+  /** The optics' own transmission: the slope T of off = T·ambient + veil (engine 1.2.0 on). */
+  transmissionOptics?: number | null;
+  /** The intercept of that fit (engine 1.2.0 on). */
+  veil?: VeilResult | null;
+  /**
+   * Standard uncertainty (k = 1) of each metric given, on its stored scale (a ratio, a fraction),
+   * from the photos' own noise, quantisation and registration (engine 1.2.0 on; older readings: none).
+   */
+  uncertainty?: Partial<Record<UncertainMetric, number>>;
   /** Slanted-edge MTF, with pattern slanted-edge (engine 1.2.0 on). */
   sharpness?: SharpnessResult | null;
   /** Field of view from a camera profile or the EXIF focal length (engine 1.2.0 on). */

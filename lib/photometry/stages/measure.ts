@@ -153,6 +153,15 @@ export function uniformityCells(t: RegionTotals, roles: readonly PhotoRole[]): n
   return cells.every(Number.isFinite) ? cells : null;
 }
 
+/** Mean luminance of the off and ambient photos over the see-through region (null without an ambient photo). */
+export function seeThroughMeans(n: Normalised, t: RegionTotals): { off: number; ambient: number } | null {
+  if (!n.photos.ambient) return null;
+  const io = t.index.off as Index;
+  const ia = t.index.ambient as Index;
+  if (io.seeThrough < 0 || ia.seeThrough < 0) return null;
+  return { off: meanOf(t, 'off', io.seeThrough), ambient: meanOf(t, 'ambient', ia.seeThrough) };
+}
+
 /** Transmission and tint over the background (or the screen), docs/method.md §5.8. */
 export function seeThrough(n: Normalised, t: RegionTotals, warnings: EngineWarning[], backgroundMarked: boolean): { transmission: number | null; tint: CaptureResult['tint'] } {
   if (!n.photos.ambient) return { transmission: null, tint: null };
