@@ -95,6 +95,7 @@ export function RegionEditor({
   const [note, setNote] = useState<{ tone: 'ok' | 'bad'; text: string } | null>(null);
   const [templateName, setTemplateName] = useState('');
   const svgRef = useRef<SVGSVGElement>(null);
+  const canvasRef = useRef<HTMLDivElement>(null);
   const drag = useRef<(Drag & { before: EditableRegion[]; minDraw: number }) | null>(null);
   const save = useSaveRegions(captureSetId);
   const detect = useDetectScreen(captureSetId);
@@ -136,7 +137,9 @@ export function RegionEditor({
 
   const onDown = (e: React.PointerEvent<SVGSVGElement>) => {
     if (!canWrite || e.button !== 0) return;
+    // no text selection or image drag; the keys then act on the photo (Escape cancels this drag)
     e.preventDefault();
+    canvasRef.current?.focus({ preventScroll: true });
     e.currentTarget.setPointerCapture?.(e.pointerId);
     const p = toPhoto(e);
     const hit = hitTest(regions, p, tool, handle, selected);
@@ -340,7 +343,7 @@ export function RegionEditor({
 
       {canWrite ? (
         <div className="flex flex-wrap items-center justify-between gap-2 text-xs">
-          <p className="text-ink" data-testid="drag-hint" aria-live="polite">
+          <p className="text-ink" data-testid="drag-hint">
             {hint}
           </p>
           <div className="flex items-center gap-1" role="group" aria-label="Arrow keys">
@@ -355,6 +358,7 @@ export function RegionEditor({
       ) : null}
 
       <div
+        ref={canvasRef}
         className="max-h-[70vh] overflow-auto rounded-md border border-line bg-black outline-none focus-visible:ring-2 focus-visible:ring-beam"
         tabIndex={0}
         onKeyDown={onKey}
