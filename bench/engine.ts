@@ -11,6 +11,7 @@ import { cpus, loadavg, tmpdir, totalmem } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { analyzeFiles, decodeRawOnly, writeArtifacts } from '../lib/image';
+import { opticsCosts } from './optics-cost';
 
 const RUNS = 5;
 // V8 optimises the engine's loops over its first few calls (a worker process analyses capture sets
@@ -79,7 +80,9 @@ const peakRssMb = Math.round(process.resourceUsage().maxRSS / 1024);
 const decodeCpuMs = Math.round(median(decodeRuns.map((r) => r.cpu)));
 const analysisCpuMs = Math.round(median(analysisRuns.map((r) => r.cpu)));
 const coldAnalysisMs = Math.round(cold.wall);
-const figures = { decodeMs, analysisMs, ratio, peakRssMb, decodeCpuMs, analysisCpuMs, coldAnalysisMs };
+// what the optics readings cost on their own (after the peak RSS is read, so their photos do not count in it)
+const optics = await opticsCosts(bytes[0] as Buffer, bytes[1] as Buffer);
+const figures = { decodeMs, analysisMs, ratio, peakRssMb, decodeCpuMs, analysisCpuMs, coldAnalysisMs, optics };
 
 const machine = `${cpus().length} × ${cpus()[0]?.model.trim() ?? 'cpu'}, ${Math.round(totalmem() / 2 ** 30)} GB, Node ${process.version}, load average ${loadavg()[0]?.toFixed(1)} at the end (other work on the machine slows both figures)`;
 const md = `# Engine benchmark
@@ -96,6 +99,9 @@ Run on ${new Date().toISOString().slice(0, 10)}, ${machine}. Reproduce with \`np
 | CPU time of the decode only (all threads) | ${decodeCpuMs} ms | |
 | CPU time of the full analysis (all threads) | ${analysisCpuMs} ms | |
 | first analysis of the process (cold, before the warm-up) | ${coldAnalysisMs} ms | |
+| of the analysis: display colour (every capture; 3 × 3 cells of on and off, sampled rows) | ${optics.colourMs} ms | |
+| of the analysis: field of view (every capture with a profile or EXIF focal length) | ${optics.geometryMs} ms | |
+| slanted-edge sharpness (slanted-edge captures only; four edges, MTF50 ${optics.sharpnessMtf50?.toFixed(3) ?? '—'} cycles/pixel) | ${optics.sharpnessMs} ms | |
 `;
 // hand-written notes below the generated table survive a re-run
 const resultsPath = join(here, 'RESULTS.md');
@@ -103,4 +109,4 @@ const previous = existsSync(resultsPath) ? readFileSync(resultsPath, 'utf8') : '
 const notesAt = previous.indexOf('\n## Notes');
 await writeFile(resultsPath, notesAt >= 0 ? md + previous.slice(notesAt) : md);
 if (process.argv.includes('--json')) process.stdout.write(`${JSON.stringify(figures)}\n`);
-else process.stdout.write(`decode ${decodeMs} ms · analysis ${analysisMs} ms · ratio ${ratio} · peak RSS ${peakRssMb} MB · CPU time: decode ${decodeCpuMs} ms, analysis ${analysisCpuMs} ms · first (cold) analysis ${coldAnalysisMs} ms\nall runs: decode ${decodes.map(Math.round).join(', ')}; analysis ${analyses.map(Math.round).join(', ')}\n`);
+else process.stdout.write(`decode ${decodeMs} ms · analysis ${analysisMs} ms · ratio ${ratio} · peak RSS ${peakRssMb} MB · CPU time: decode ${decodeCpuMs} ms, analysis ${analysisCpuMs} ms · first (cold) analysis ${coldAnalysisMs} ms\noptics readings: display colour ${optics.colourMs} ms · field of view ${optics.geometryMs} ms · slanted-edge sharpness ${optics.sharpnessMs} ms (slanted-edge captures only)\nall runs: decode ${decodes.map(Math.round).join(', ')}; analysis ${analyses.map(Math.round).join(', ')}\n`);
