@@ -10,7 +10,7 @@ import { replacePhoto, uploadPhoto } from '@/lib/hooks/upload-photo';
 import { photoEncoding, type TiffEncodingSetting } from '@/lib/schemas/capture-set';
 import { MAX_UPLOAD_BYTES, PHOTO_ROLES, ROLE_HINTS, ROLE_LABELS, roleFromFileName, type PhotoRole } from '@/lib/schemas/upload';
 import { PhotoActions, PhotoThumbnail } from './upload-photo-card';
-import { dismissItem, mergeQueue, retryItem, sendOrder, type UploadItem } from './upload-queue';
+import { canDismiss, dismissItem, mergeQueue, retryItem, sendOrder, type UploadItem } from './upload-queue';
 
 export type PhotoCard = {
   id: string;
@@ -135,7 +135,7 @@ export function UploadPanel({ captureSetId, photos, canWrite, tiffEncoding = 'au
                       Try again
                     </button>
                   ) : null}
-                  {i.state === 'refused' || i.state === 'done' ? (
+                  {canDismiss(i) ? (
                     <button type="button" onClick={() => setItems((all) => dismissItem(all, i.key))} className="rounded border border-line px-2 py-0.5 text-ink hover:border-beam" aria-label={`Dismiss ${i.name}`}>
                       Dismiss
                     </button>

@@ -33,9 +33,14 @@ export function mergeQueue<F>(all: readonly UploadItem<F>[], batch: readonly Upl
   return [...batch, ...all.filter((i) => !fresh.has(i.key) && needsAttention(i))];
 }
 
-/** The list without the dismissed entry (only a finished or refused entry can be dismissed). */
+/** Whether an entry can be dismissed: finished, refused, or waiting for a role (never one being sent). */
+export function canDismiss(i: UploadItem): boolean {
+  return i.state === 'done' || i.state === 'refused' || (i.state === 'waiting' && i.role === null);
+}
+
+/** The list without the dismissed entry, when it can be dismissed. */
 export function dismissItem<F>(all: readonly UploadItem<F>[], key: string): UploadItem<F>[] {
-  return all.filter((i) => i.key !== key || i.state === 'sending' || i.state === 'waiting');
+  return all.filter((i) => i.key !== key || !canDismiss(i));
 }
 
 /** The entry set back to be sent again, its message cleared; null when it cannot be retried (not refused, or no role). */

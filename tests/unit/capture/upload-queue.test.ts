@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { dismissItem, mergeQueue, needsAttention, removeQuestion, retryItem, sendOrder, type UploadItem } from '../../../components/capture/upload-queue';
+import { canDismiss, dismissItem, mergeQueue, needsAttention, removeQuestion, retryItem, sendOrder, type UploadItem } from '../../../components/capture/upload-queue';
 
 const item = (key: string, p: Partial<UploadItem<string>> = {}): UploadItem<string> => ({ key, name: `${key}.jpg`, role: 'on', progress: 0, state: 'waiting', file: key, ...p });
 
@@ -27,11 +27,15 @@ describe('the upload list across drops', () => {
     expect(mergeQueue([refused, done], [retried]).map((i) => i.key)).toEqual(['bad']);
   });
 
-  it('dismisses a refused or finished entry, never one being sent or waiting', () => {
+  it('dismisses a refused or finished entry or one waiting for a role, never one being sent or queued', () => {
     expect(dismissItem([refused, done, sending, noRole], 'bad').map((i) => i.key)).toEqual(['good', 'busy', 'who']);
     expect(dismissItem([refused, done], 'good').map((i) => i.key)).toEqual(['bad']);
+    expect(dismissItem([noRole, done], 'who').map((i) => i.key)).toEqual(['good']);
     expect(dismissItem([sending], 'busy')).toEqual([sending]);
-    expect(dismissItem([noRole], 'who')).toEqual([noRole]);
+    const queued = item('queued');
+    expect(dismissItem([queued], 'queued')).toEqual([queued]);
+    expect([refused, done, noRole].every(canDismiss)).toBe(true);
+    expect([sending, queued].some(canDismiss)).toBe(false);
   });
 
   it('a retry sends the same file again with its message cleared', () => {
