@@ -6,7 +6,7 @@ import { useCallback, useEffect, useLayoutEffect, useRef, useState } from 'react
 import { Button } from '@/components/ui/button';
 import { ApiRequestError } from '@/lib/hooks/api';
 import { useApplyTemplate, useDetectScreen, useSaveRegions, useSaveTemplate, useTemplates, type EditableRegion } from '@/lib/hooks/use-regions';
-import { REGION_KINDS, type RegionKind } from '@/lib/schemas/region';
+import { REGION_KINDS, regionsOutside, type RegionKind } from '@/lib/schemas/region';
 import { useRegionDraft, type FlushResult } from './region-editor-draft';
 import {
   applyDrag,
@@ -527,6 +527,12 @@ export function RegionEditor({
           );
         })}
       </div>
+      {Object.values(regionsOutside(regions, W, H)).flat().map((m) => (
+        // regions drawn on an earlier on photo of another size
+        <p key={m} role="alert" className="text-sm text-fail" data-testid="region-outside">
+          {m}: move or resize it, or type new values.
+        </p>
+      ))}
       {canWrite ? <p className="text-xs text-muted">Type a region’s x, y, width and height in the photo’s pixels (the photo is {W} × {H}); Enter or leaving its fields applies them.</p> : null}
       {detectedGhost ? (
         <p className="text-xs text-muted" data-testid="detected-ghost-note">
