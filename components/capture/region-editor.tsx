@@ -97,7 +97,7 @@ export function RegionEditor({
   const svgRef = useRef<SVGSVGElement>(null);
   const canvasRef = useRef<HTMLDivElement>(null);
   const drag = useRef<(Drag & { before: EditableRegion[]; minDraw: number }) | null>(null);
-  const save = useSaveRegions(captureSetId);
+  const { mutateAsync: saveRegions, isPending: saving } = useSaveRegions(captureSetId);
   const detect = useDetectScreen(captureSetId);
   const templates = useTemplates(captureSetId);
   const saveTemplate = useSaveTemplate(captureSetId);
@@ -212,7 +212,7 @@ export function RegionEditor({
   const storeRegions = useCallback(
     async (next: EditableRegion[]): Promise<FlushResult> => {
       try {
-        const out = await save.mutateAsync(next);
+        const out = await saveRegions(next);
         setRegions(out.regions);
         setSaved(out.regions);
         setDrafts({});
@@ -227,7 +227,7 @@ export function RegionEditor({
         return { ok: false, message: text };
       }
     },
-    [save, router],
+    [saveRegions, router],
   );
 
   /** Saves every edit shown, typed values not yet applied included; refuses when a typed value is wrong. */
@@ -333,9 +333,9 @@ export function RegionEditor({
                 const out = await flush();
                 if (!out.ok) setNote({ tone: 'bad', text: `The regions were not saved. ${out.message}` });
               }}
-              disabled={save.isPending || !unsaved}
+              disabled={saving || !unsaved}
             >
-              {save.isPending ? 'Saving…' : unsaved ? 'Save regions' : 'Saved'}
+              {saving ? 'Saving…' : unsaved ? 'Save regions' : 'Saved'}
             </Button>
           </>
         ) : null}

@@ -9,14 +9,25 @@ import { removeQuestion } from './upload-queue';
 
 /** A stored photo's thumbnail, from the authorised, cached thumbnail route. */
 export function PhotoThumbnail({ captureSetId, photo }: { captureSetId: string; photo: { id: string; role: PhotoRole; originalName: string; width: number; height: number } }) {
+  const [failed, setFailed] = useState(false);
   const landscape = photo.width >= photo.height;
+  const width = landscape ? 96 : Math.round((96 * photo.width) / photo.height);
+  const height = landscape ? Math.round((96 * photo.height) / photo.width) : 96;
+  if (failed) {
+    return (
+      <div style={{ width, height }} className="flex shrink-0 items-center justify-center rounded border border-line bg-raised p-1 text-center text-[10px] text-muted" data-testid={`thumb-${photo.role}`}>
+        no preview
+      </div>
+    );
+  }
   return (
     // eslint-disable-next-line @next/next/no-img-element -- a private, session-bound image; next/image would cache it publicly
     <img
       src={`/api/captures/${captureSetId}/photos/${photo.id}/thumbnail`}
       alt={`Thumbnail of ${photo.originalName || `the ${photo.role} photo`}`}
-      width={landscape ? 96 : Math.round((96 * photo.width) / photo.height)}
-      height={landscape ? Math.round((96 * photo.height) / photo.width) : 96}
+      width={width}
+      height={height}
+      onError={() => setFailed(true)}
       loading="lazy"
       decoding="async"
       className="shrink-0 rounded border border-line bg-black object-contain"
