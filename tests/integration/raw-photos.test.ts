@@ -97,7 +97,10 @@ function engineKeys(result: Record<string, unknown>): Record<string, unknown> {
 const storedFiles = (): string[] => {
   const out: string[] = [];
   const walk = (d: string): void => {
-    for (const e of readdirSync(d, { withFileTypes: true })) (e.isDirectory() ? walk(join(d, e.name)) : out.push(e.name));
+    for (const e of readdirSync(d, { withFileTypes: true })) {
+      if (e.isDirectory()) walk(join(d, e.name));
+      else out.push(e.name);
+    }
   };
   try {
     walk(storageDir);
