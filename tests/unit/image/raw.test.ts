@@ -86,6 +86,24 @@ describe('sniffRaw: raw formats by content', () => {
     expect(sniffRaw(Buffer.concat([Buffer.from([0xff, 0xd8, 0xff, 0xe0]), pad]), 'photo.dng')).toBeNull();
   });
 
+  it('walks hostile TIFF structures without throwing or looping (loops of IFDs, offsets past the end)', () => {
+    let seed = 7;
+    const rand = (): number => ((seed = (seed * 1103515245 + 12345) % 2147483648) / 2147483648);
+    for (let k = 0; k < 300; k++) {
+      const b = Buffer.alloc(16 + Math.floor(rand() * 300));
+      for (let i = 0; i < b.length; i++) b[i] = Math.floor(rand() * 256);
+      b.write(k % 2 ? 'II*\0' : 'MM\0*', 0, 'latin1');
+      // small offsets, so IFDs land inside the buffer and point at each other
+      b.writeUInt32LE(8 + (k % 16), 4);
+      expect(() => sniffRaw(b, 'x.nef')).not.toThrow();
+    }
+    // IFD0 naming itself as the next IFD and as its own SubIFD
+    const loop = makerTiff('NIKON CORPORATION', false);
+    loop.writeUInt32LE(8, 30);
+    loop.writeUInt32LE(8, 34);
+    expect(sniffRaw(loop, 'a.tif')).toBeNull();
+  });
+
   it('refuses what it cannot read with what to do instead', () => {
     expect(() => refuseUnsupported(encodeDng(patches()), 'a.dng')).not.toThrow();
     expect(() => refuseUnsupported(Buffer.concat([Buffer.from([0xff, 0xd8, 0xff, 0xe0]), Buffer.alloc(64)]), 'renamed.nef')).toThrow(/renamed\.nef is named \.nef but its content is not a Nikon NEF raw file/);
