@@ -30,6 +30,7 @@ const { getAnalysisQueue } = await import('../../lib/server/queue/producer');
 const createSet = await import('../../app/api/captures/route');
 const uploadPhoto = await import('../../app/api/captures/[captureId]/photos/route');
 const regions = await import('../../app/api/captures/[captureId]/regions/route');
+const onePhoto = await import('../../app/api/captures/[captureId]/photos/[photoId]/route');
 const analyses = await import('../../app/api/captures/[captureId]/analyses/route');
 const rigCreateSet = await import('../../app/api/v1/captures/route');
 const rigUpload = await import('../../app/api/v1/captures/[captureId]/photos/route');
@@ -152,6 +153,11 @@ describe('camera raw photos through the web and the rig API', () => {
       // exposure tags, make and model read from the raw file itself
       expect((up.json.photo as { exif: unknown }).exif).toMatchObject({ exposureTime: 1 / 60, fNumber: 4, iso: 800, make: 'Veilmeter Fixture Optics', model: 'Bayer Mosaic DNG-1' });
     }
+    // nothing to declare for a raw photo: it is always linear
+    const onId = ((await call(uploadPhoto.POST as Handler, 'POST', `${base}/${set.id}/photos?role=on`, { captureId: set.id }, new Uint8Array(s.capture.photos.on as Buffer), { 'x-file-name': 'web-on.dng' })).json.photo as { id: string }).id;
+    const declared = await call(onePhoto.PATCH as Handler, 'PATCH', `${base}/${set.id}/photos/${onId}`, { captureId: set.id, photoId: onId }, JSON.stringify({ encoding: 'srgb' }), { 'content-type': 'application/json' });
+    expect(declared.status).toBe(422);
+    expect((declared.json.error as { message: string }).message).toMatch(/web-on\.dng is a camera raw file, which is always read as linear light/);
     // the original under a .dng key and a WebP preview per photo
     const stored = storedFiles();
     expect(stored.filter((f) => f.endsWith('.dng'))).toHaveLength(3);

@@ -2,6 +2,7 @@ import { NextResponse } from 'next/server';
 import { deletePhoto, getPhoto, setPhotoEncoding } from '@/db/queries/photos';
 import { readJson, withAuth } from '@/lib/server/auth/with-auth';
 import { AppError, notFound } from '@/lib/errors';
+import { isRawFormat } from '@/lib/image/raw-formats';
 import { photoEncodingSchema } from '@/lib/schemas/capture-set';
 import { deleteKeys } from '@/lib/server/storage';
 import { captureSetOr404, idOr404 } from '../../../lookup';
@@ -27,6 +28,9 @@ export const PATCH = withAuth<P>(
     const photo = await getPhoto(actor.labId, idOr404(params.photoId, 'photo'));
     if (!photo || photo.captureSetId !== set.id) throw notFound('No such photo');
     const { encoding } = photoEncodingSchema.parse(await readJson(req));
+    if (encoding !== null && isRawFormat(photo.format)) {
+      throw new AppError(422, `${photo.originalName || 'This photo'} is a camera raw file, which is always read as linear light: there is nothing to declare.`, 'raw_always_linear', { encoding: ['A camera raw photo is always linear'] });
+    }
     if (encoding === 'linear' && !(photo.format === 'tiff' && photo.bitDepth === 16)) {
       throw new AppError(422, `${photo.originalName || 'This photo'} is ${photo.bitDepth === 8 ? 'an' : 'a'} ${photo.bitDepth}-bit ${photo.format.toUpperCase()}, so it cannot be declared linear: only 16-bit TIFFs can.`, 'not_linear', { encoding: ['Only a 16-bit TIFF can be linear'] });
     }
