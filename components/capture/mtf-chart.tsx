@@ -25,6 +25,8 @@ export function MtfChart({ curve, mtf50 }: { curve: { f: number; mtf: number }[]
           <YAxis
             type="number"
             domain={[0, Math.ceil(top * 10) / 10]}
+            ticks={Array.from({ length: Math.floor((Math.ceil(top * 10) / 10) * 5 + 1e-9) + 1 }, (_, i) => i / 5)}
+            tickFormatter={(v: number) => v.toFixed(1)}
             tick={{ fontSize: 11, fill: 'rgb(var(--muted))' }}
             label={{ value: 'MTF', angle: -90, position: 'insideLeft', fontSize: 11, fill: 'rgb(var(--muted))' }}
           />
