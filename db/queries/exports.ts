@@ -1,4 +1,5 @@
 import { getDb } from '../index';
+import type { UncertainMetric } from '../../lib/photometry/result';
 
 /** One row of a readings export: the newest reading of a capture set with its context. */
 export type ExportRow = {
@@ -21,6 +22,15 @@ export type ExportRow = {
   ghostRatio: number | null;
   transmission: number | null;
   tintDeltaE00: number | null;
+  transmissionOptics: number | null;
+  veil: number | null;
+  veilCdm2: number | null;
+  mtf50: number | null;
+  mtf50PerDegree: number | null;
+  displayDuv: number | null;
+  colourUniformityDuv: number | null;
+  /** Standard uncertainty of each metric that has one. */
+  uncertainty: Partial<Record<UncertainMetric, number>>;
   luminanceOn: number | null;
   luminanceOff: number | null;
   luminanceAmbient: number | null;
@@ -34,6 +44,8 @@ type Row = {
   conditions: { ambientLux?: number; backgroundCdm2?: number } | null; background_cdm2: number | null; engine_version: string; created_at: Date;
   ambient_contrast_ratio: number | null; michelson: number | null; ansi_contrast: number | null; uniformity: number | null; ghost_ratio: number | null; transmission: number | null;
   tint_delta_e00: number | null; luminance_on: number | null; luminance_off: number | null; luminance_ambient: number | null; luminance_on_cdm2: number | null; clipped_fraction: number | null; warning_count: number;
+  transmission_optics: number | null; veil: number | null; veil_cdm2: number | null; mtf50: number | null; mtf50_per_degree: number | null; display_duv: number | null; colour_uniformity_duv: number | null;
+  uncertainty: Partial<Record<UncertainMetric, number>> | null;
 };
 
 const n = (v: unknown): number | null => (typeof v === 'number' && Number.isFinite(v) ? v : null);
@@ -50,6 +62,7 @@ export async function listExportRows(labId: string, filter: { projectId: string;
       'p.name as project_name', 'r.label as revision_label', 'r.position as revision_position', 'g.capture_set_id', 'c.label as capture_label', 'c.variant', 'c.pattern', 'c.conditions',
       'g.background_cdm2', 'g.engine_version', 'g.created_at', 'g.ambient_contrast_ratio', 'g.michelson', 'g.ansi_contrast', 'g.uniformity', 'g.ghost_ratio', 'g.transmission',
       'g.tint_delta_e00', 'g.luminance_on', 'g.luminance_off', 'g.luminance_ambient', 'g.luminance_on_cdm2', 'g.clipped_fraction', 'g.warning_count',
+      'g.transmission_optics', 'g.veil', 'g.veil_cdm2', 'g.mtf50', 'g.mtf50_per_degree', 'g.display_duv', 'g.colour_uniformity_duv', 'g.uncertainty',
     )
     .from('readings as g')
     .join('capture_sets as c', 'c.id', 'g.capture_set_id')
@@ -80,6 +93,14 @@ export async function listExportRows(labId: string, filter: { projectId: string;
       ghostRatio: n(r.ghost_ratio),
       transmission: n(r.transmission),
       tintDeltaE00: n(r.tint_delta_e00),
+      transmissionOptics: n(r.transmission_optics),
+      veil: n(r.veil),
+      veilCdm2: n(r.veil_cdm2),
+      mtf50: n(r.mtf50),
+      mtf50PerDegree: n(r.mtf50_per_degree),
+      displayDuv: n(r.display_duv),
+      colourUniformityDuv: n(r.colour_uniformity_duv),
+      uncertainty: r.uncertainty ?? {},
       luminanceOn: n(r.luminance_on),
       luminanceOff: n(r.luminance_off),
       luminanceAmbient: n(r.luminance_ambient),

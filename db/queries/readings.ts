@@ -1,6 +1,6 @@
 import type { Knex } from 'knex';
 import { getDb } from '../index';
-import type { CaptureResult } from '../../lib/photometry/result';
+import type { CaptureResult, UncertainMetric } from '../../lib/photometry/result';
 import { markAnalysisDone, toAnalysis, type Analysis } from './analyses';
 
 export type ReadingArtifacts = {
@@ -29,6 +29,15 @@ export type Reading = {
   ghostRatio: number | null;
   transmission: number | null;
   tintDeltaE00: number | null;
+  transmissionOptics: number | null;
+  veil: number | null;
+  veilCdm2: number | null;
+  mtf50: number | null;
+  mtf50PerDegree: number | null;
+  displayDuv: number | null;
+  colourUniformityDuv: number | null;
+  /** Standard uncertainty of each metric that has one (engine 1.2.0 on; older readings: none). */
+  uncertainty: Partial<Record<UncertainMetric, number>>;
   clippedFraction: number | null;
   warningCount: number;
   result: CaptureResult;
@@ -40,6 +49,8 @@ type Row = {
   id: string; analysis_id: string; capture_set_id: string; revision_id: string; project_id: string; variant: string; engine_version: string;
   ambient_contrast_ratio: number | null; michelson: number | null; ansi_contrast: number | null; uniformity: number | null; ghost_ratio: number | null;
   transmission: number | null; tint_delta_e00: number | null; clipped_fraction: number | null; warning_count: number; result: CaptureResult; artifacts: ReadingArtifacts; created_at: Date;
+  transmission_optics: number | null; veil: number | null; veil_cdm2: number | null; mtf50: number | null; mtf50_per_degree: number | null; display_duv: number | null; colour_uniformity_duv: number | null;
+  uncertainty: Partial<Record<UncertainMetric, number>> | null;
 };
 
 const toReading = (r: Row): Reading => ({
@@ -57,6 +68,14 @@ const toReading = (r: Row): Reading => ({
   ghostRatio: r.ghost_ratio,
   transmission: r.transmission,
   tintDeltaE00: r.tint_delta_e00,
+  transmissionOptics: r.transmission_optics ?? null,
+  veil: r.veil ?? null,
+  veilCdm2: r.veil_cdm2 ?? null,
+  mtf50: r.mtf50 ?? null,
+  mtf50PerDegree: r.mtf50_per_degree ?? null,
+  displayDuv: r.display_duv ?? null,
+  colourUniformityDuv: r.colour_uniformity_duv ?? null,
+  uncertainty: r.uncertainty ?? {},
   clippedFraction: r.clipped_fraction,
   warningCount: r.warning_count,
   result: r.result,
@@ -95,6 +114,13 @@ export async function getLatestReading(labId: string, captureSetId: string): Pro
 }
 
 const finite = (v: number | null | undefined): number | null => (typeof v === 'number' && Number.isFinite(v) ? v : null);
+
+/** The result's uncertainties with their finite values only (JSON has no room for NaN or ∞). */
+function finiteEntries(u: CaptureResult['uncertainty']): Partial<Record<UncertainMetric, number>> {
+  const out: Partial<Record<UncertainMetric, number>> = {};
+  for (const [k, v] of Object.entries(u ?? {})) if (typeof v === 'number' && Number.isFinite(v)) out[k as UncertainMetric] = v;
+  return out;
+}
 
 /**
  * Writes the reading of one analysis. Keyed on the analysis, so a job that runs twice (a worker
@@ -148,6 +174,14 @@ export async function upsertReading(
     luminance_on_cdm2: abs?.kind === 'calibrated' ? finite(abs.on) : null,
     background_cdm2: input.backgroundCdm2,
     clipped_fraction: finite(r.clippedFraction),
+    transmission_optics: finite(r.transmissionOptics),
+    veil: finite(r.veil?.relative),
+    veil_cdm2: finite(r.veil?.cdm2),
+    mtf50: finite(r.sharpness?.mtf50),
+    mtf50_per_degree: finite(r.sharpness?.mtf50PerDegree),
+    display_duv: finite(r.displayColour?.duvFromWhite),
+    colour_uniformity_duv: finite(r.displayColour?.uniformityDuv),
+    uncertainty: JSON.stringify(finiteEntries(r.uncertainty)),
     warning_count: r.warnings.length,
     result: JSON.stringify(r),
     artifacts: JSON.stringify(input.artifacts),

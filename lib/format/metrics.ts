@@ -1,7 +1,8 @@
 // How each measured quantity is shown, everywhere: pages, client-side CSV files, the export CSV's
 // headers, the PDFs and the mails. Ghost and transmission are stored as fractions and shown as
-// percentages; contrast ratios as "9.37 : 1"; the tint in ΔE00. Digits follow the figure's
-// uncertainty when one is known, otherwise three significant digits.
+// percentages; contrast ratios as "9.37 : 1"; the tint in ΔE00; MTF50 in cycles per pixel or per
+// degree; colour distances in Δu′v′. Digits follow the figure's uncertainty when one is known,
+// otherwise three significant digits.
 import type { MetricKey } from '../targets/metrics';
 import { DASH, decimalsForUncertainty, exact, fixed, isNum, MINUS, significant } from './numbers';
 
@@ -20,16 +21,24 @@ export type MetricFormat = {
   unit: string;
   /** The export CSV's column header (values there stay as stored, units in the header). */
   csvHeader: string;
+  /** What the number is, in one line (docs/method.md §5.8–5.12), shown beside it. */
+  definition: string;
 };
 
 export const METRIC_FORMATS: Record<MetricKey, MetricFormat> = {
-  ambientContrastRatio: { kind: 'ratio', label: 'Ambient contrast ratio', short: 'Contrast', phrase: 'the ambient contrast ratio', unit: ': 1', csvHeader: 'ambient_contrast_ratio (ratio L_on/L_off)' },
-  michelson: { kind: 'plain', label: 'Michelson contrast', short: 'Michelson', phrase: 'the Michelson contrast', unit: '', csvHeader: 'michelson (0..1)' },
-  ansiContrast: { kind: 'ratio', label: 'Checkerboard contrast', short: 'Checkerboard', phrase: 'the checkerboard contrast', unit: ': 1', csvHeader: 'checkerboard_contrast (ratio white/black)' },
-  uniformity: { kind: 'plain', label: 'Uniformity (min/max)', short: 'Uniformity', phrase: 'the uniformity', unit: '', csvHeader: 'uniformity (min/max 0..1)' },
-  ghostRatio: { kind: 'percent', label: 'Ghost ratio', short: 'Ghost', phrase: 'the ghost ratio', unit: '%', csvHeader: 'ghost_ratio (ghost/primary 0..1)' },
-  transmission: { kind: 'percent', label: 'See-through transmission', short: 'Transmission', phrase: 'the see-through transmission', unit: '%', csvHeader: 'transmission (L_off/L_ambient 0..1)' },
-  tintDeltaE00: { kind: 'deltaE', label: 'See-through tint', short: 'Tint', phrase: 'the see-through tint', unit: 'ΔE00', csvHeader: 'tint_delta_e00 (CIEDE2000)' },
+  ambientContrastRatio: { kind: 'ratio', label: 'Ambient contrast ratio', short: 'Contrast', phrase: 'the ambient contrast ratio', unit: ': 1', csvHeader: 'ambient_contrast_ratio (ratio L_on/L_off)', definition: 'Screen luminance with the display on over with it off: (display + background) / background.' },
+  michelson: { kind: 'plain', label: 'Michelson contrast', short: 'Michelson', phrase: 'the Michelson contrast', unit: '', csvHeader: 'michelson (0..1)', definition: '(bright − dark) / (bright + dark) over the screen, from 0 (no contrast) to 1.' },
+  ansiContrast: { kind: 'ratio', label: 'Checkerboard contrast', short: 'Checkerboard', phrase: 'the checkerboard contrast', unit: ': 1', csvHeader: 'checkerboard_contrast (ratio white/black)', definition: 'Mean of the 8 white cells over the mean of the 8 black cells of a 4 × 4 checkerboard.' },
+  uniformity: { kind: 'plain', label: 'Uniformity (min/max)', short: 'Uniformity', phrase: 'the uniformity', unit: '', csvHeader: 'uniformity (min/max 0..1)', definition: "The dimmest over the brightest of the display's light in a 3 × 3 grid of the screen (1 is even)." },
+  ghostRatio: { kind: 'percent', label: 'Ghost ratio', short: 'Ghost', phrase: 'the ghost ratio', unit: '%', csvHeader: 'ghost_ratio (ghost/primary 0..1)', definition: 'Light in the displaced copy of the image over the light in the image itself.' },
+  transmission: { kind: 'percent', label: 'See-through transmission', short: 'Transmission', phrase: 'the see-through transmission', unit: '%', csvHeader: 'transmission (L_off/L_ambient 0..1)', definition: 'Luminance of the room seen through the optics over without them, stray light included.' },
+  tintDeltaE00: { kind: 'deltaE', label: 'See-through tint', short: 'Tint', phrase: 'the see-through tint', unit: 'ΔE00', csvHeader: 'tint_delta_e00 (CIEDE2000)', definition: 'Colour shift of the room seen through the optics, at equal luminance (CIEDE2000).' },
+  transmissionOptics: { kind: 'percent', label: 'Transmission of the optics', short: 'Optics T', phrase: "the optics' own transmission", unit: '%', csvHeader: 'transmission_optics (slope of off against ambient 0..1)', definition: "Share of the room's light the optics pass: the slope of off against ambient, their stray light left out." },
+  veil: { kind: 'percent', label: 'Veil', short: 'Veil', phrase: 'the veil', unit: '%', csvHeader: 'veil (intercept of off against ambient / mean ambient 0..1)', definition: "Light the optics add over the see-through view (housing reflections, the display's glow), as a share of the room's mean luminance." },
+  mtf50: { kind: 'plain', label: 'MTF50', short: 'MTF50', phrase: 'the MTF50', unit: 'cy/px', csvHeader: 'mtf50 (cycles per camera pixel)', definition: "Spatial frequency at which a slanted edge's contrast through the optics falls to half, per camera pixel." },
+  mtf50PerDegree: { kind: 'plain', label: 'MTF50 per degree', short: 'MTF50/°', phrase: 'the MTF50 per degree', unit: 'cy/°', csvHeader: 'mtf50_per_degree (cycles per degree)', definition: 'The MTF50 in cycles per degree of the field of view.' },
+  displayDuv: { kind: 'plain', label: 'Display white error', short: 'White Δu′v′', phrase: "the display white's distance from its reference", unit: 'Δu′v′', csvHeader: 'display_duv (Δu′v′ from the reference white)', definition: "Distance in CIE 1976 u′v′ of the display's white, seen through the optics, from the reference white." },
+  colourUniformityDuv: { kind: 'plain', label: 'Colour uniformity', short: 'Colour Δu′v′', phrase: 'the colour non-uniformity', unit: 'Δu′v′', csvHeader: 'colour_uniformity_duv (largest Δu′v′ between cells)', definition: "Largest u′v′ distance between the display's colour in any two cells of a 3 × 3 grid of the screen." },
 };
 
 /**
@@ -57,11 +66,24 @@ export function withUnit(key: MetricKey, figure: string): string {
   return u === ': 1' ? `${figure} : 1` : `${figure} ${u}`;
 }
 
-/** "See-through tint (ΔE00)", "Ghost ratio (%)"; ratios and bare numbers keep their name alone. */
+/** "See-through tint (ΔE00)", "Ghost ratio (%)", "MTF50 (cy/px)"; ratios and unitless numbers keep their name alone. */
 export function metricHeading(key: MetricKey, short = false): string {
   const f = METRIC_FORMATS[key];
   const name = short ? f.short : f.label;
-  return f.kind === 'percent' || f.kind === 'deltaE' ? `${name} (${f.unit})` : name;
+  return f.kind === 'percent' || f.kind === 'deltaE' || (f.kind === 'plain' && f.unit !== '') ? `${name} (${f.unit})` : name;
+}
+
+/**
+ * A value with its standard uncertainty, digits from the uncertainty, the unit once at the end:
+ * "5.346 ± 0.016 : 1", "70.3 ± 0.1 %"; the value alone (three digits) without one.
+ */
+export function formatMetricWithU(key: MetricKey, v: number | null | undefined, u: number | null | undefined, o: { unit?: boolean } = {}): string {
+  if (v === Number.POSITIVE_INFINITY || !isNum(v)) return formatMetricValue(key, v, o);
+  if (!isNum(u) || !(u > 0)) return formatMetricValue(key, v, o);
+  const d = decimalsForUncertainty(Math.abs(toShown(key, u)));
+  if (d === null) return formatMetricValue(key, v, o);
+  const figure = `${fixed(toShown(key, v), d)} ± ${fixed(Math.abs(toShown(key, u)), d)}`;
+  return o.unit === false ? figure : withUnit(key, figure);
 }
 
 /** The unit a form asks the value in: "%", ": 1", "ΔE00" or ''. */

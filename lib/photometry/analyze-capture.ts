@@ -245,6 +245,7 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
         Math.hypot(registrationBound(a.motion.off?.spread), registrationBound(a.motion.ambient?.spread)),
       )
     : { transmissionOptics: null, veil: null, u: null, noise: null };
+  progress('uncertainty', 0.81);
   const uncertainty = uncertainties({
     n,
     a,
@@ -257,6 +258,7 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     seeThroughMeans: seeThroughMeans(n, totals),
     fit,
   });
+  progress('sharpness, geometry, colour', 0.82);
 
   const optics = opticsReadings(n, a, pattern, input.optics ?? {}, warnings, (darkSmall) => darkRoomShare(darkSmall, a.offSmall, a.mask, n.factor), memo);
 

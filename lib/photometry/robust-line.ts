@@ -1,3 +1,5 @@
+import { percentile } from './percentile';
+
 /**
  * A straight line y = a + b·x fitted robustly to a few thousand points: Theil–Sen on an even
  * subsample for the start, then iteratively reweighted least squares with Tukey's biweight, and
@@ -8,8 +10,10 @@
 /** Tukey's biweight constant: 95% efficiency at normal errors (Beaton & Tukey 1974, docs/references.md). */
 export const BIWEIGHT_C = 4.685;
 /** Points of the Theil–Sen start (pairs grow with its square). */
-const START_POINTS = 300;
+const START_POINTS = 100;
 const MAX_ITERATIONS = 30;
+/** The iterations stop when the slope and intercept move by less than this share of their scale. */
+const TOLERANCE = 1e-9;
 
 export interface LineFit {
   /** Intercept a and slope b. */
@@ -25,12 +29,8 @@ export interface LineFit {
   xMean: number;
 }
 
-function median(a: Float64Array): number {
-  const s = Float64Array.from(a).sort();
-  const n = s.length;
-  if (n === 0) return Number.NaN;
-  return n % 2 ? (s[(n - 1) / 2] as number) : 0.5 * ((s[n / 2 - 1] as number) + (s[n / 2] as number));
-}
+// by selection, in linear time: a fit takes a median per iteration
+const median = (a: ArrayLike<number>): number => percentile(a, 50);
 
 /** Theil–Sen: the median of the slopes between pairs, the median of y − b·x for the intercept (Sen 1968). */
 function theilSen(x: Float64Array, y: Float64Array, n: number): { a: number; b: number } {
@@ -46,7 +46,7 @@ function theilSen(x: Float64Array, y: Float64Array, n: number): { a: number; b: 
       if (dx !== 0) slopes.push(((y[j] as number) - (y[i] as number)) / dx);
     }
   }
-  const b = slopes.length > 0 ? median(Float64Array.from(slopes)) : 0;
+  const b = slopes.length > 0 ? median(slopes) : 0;
   const r = new Float64Array(n);
   for (let i = 0; i < n; i++) r[i] = (y[i] as number) - b * (x[i] as number);
   return { a: median(r), b };
@@ -65,8 +65,8 @@ export function robustLine(x: Float64Array, y: Float64Array, n = x.length): Line
   let scale = 0;
   for (let it = 0; it < MAX_ITERATIONS; it++) {
     for (let i = 0; i < n; i++) r[i] = (y[i] as number) - a - b * (x[i] as number);
-    const abs = r.map(Math.abs);
-    scale = 1.4826 * median(abs);
+    for (let i = 0; i < n; i++) w[i] = Math.abs(r[i] as number);
+    scale = 1.4826 * median(w);
     if (!(scale > 0)) {
       // an exact line (noise-free input): every point on it counts fully
       for (let i = 0; i < n; i++) w[i] = 1;
@@ -100,7 +100,7 @@ export function robustLine(x: Float64Array, y: Float64Array, n = x.length): Line
     if (!(sxx > 0)) return null;
     const nb = sxy / sxx;
     const na = my - nb * mx;
-    const done = Math.abs(nb - b) <= 1e-10 * Math.max(1, Math.abs(nb)) && Math.abs(na - a) <= 1e-12 + 1e-10 * Math.abs(na);
+    const done = Math.abs(nb - b) <= TOLERANCE * Math.max(1e-3, Math.abs(nb)) && Math.abs(na - a) <= TOLERANCE * Math.max(1e-3 * Math.abs(my), Math.abs(na));
     a = na;
     b = nb;
     if (done) break;

@@ -1,7 +1,21 @@
 import { formatMetricValue, metricHeading, METRIC_FORMATS } from '../format/metrics';
 
 /** The measured quantities a team can trend, compare and set targets on. */
-export const METRIC_KEYS = ['ambientContrastRatio', 'michelson', 'ansiContrast', 'uniformity', 'ghostRatio', 'transmission', 'tintDeltaE00'] as const;
+export const METRIC_KEYS = [
+  'ambientContrastRatio',
+  'michelson',
+  'ansiContrast',
+  'uniformity',
+  'ghostRatio',
+  'transmission',
+  'tintDeltaE00',
+  'transmissionOptics',
+  'veil',
+  'mtf50',
+  'mtf50PerDegree',
+  'displayDuv',
+  'colourUniformityDuv',
+] as const;
 export type MetricKey = (typeof METRIC_KEYS)[number];
 
 export type MetricInfo = {
@@ -17,11 +31,13 @@ export type MetricInfo = {
   better: 'higher' | 'lower';
   /** How the metric reads inside a sentence ("the ambient contrast ratio"). */
   phrase: string;
+  /** What it is, in one line. */
+  definition: string;
 };
 
 const info = (key: MetricKey, column: string, better: 'higher' | 'lower'): MetricInfo => {
   const f = METRIC_FORMATS[key];
-  return { key, column, label: f.label, short: f.short, unit: f.unit, better, phrase: f.phrase };
+  return { key, column, label: f.label, short: f.short, unit: f.unit, better, phrase: f.phrase, definition: f.definition };
 };
 
 export const METRICS: Record<MetricKey, MetricInfo> = {
@@ -32,6 +48,12 @@ export const METRICS: Record<MetricKey, MetricInfo> = {
   ghostRatio: info('ghostRatio', 'ghost_ratio', 'lower'),
   transmission: info('transmission', 'transmission', 'higher'),
   tintDeltaE00: info('tintDeltaE00', 'tint_delta_e00', 'lower'),
+  transmissionOptics: info('transmissionOptics', 'transmission_optics', 'higher'),
+  veil: info('veil', 'veil', 'lower'),
+  mtf50: info('mtf50', 'mtf50', 'higher'),
+  mtf50PerDegree: info('mtf50PerDegree', 'mtf50_per_degree', 'higher'),
+  displayDuv: info('displayDuv', 'display_duv', 'lower'),
+  colourUniformityDuv: info('colourUniformityDuv', 'colour_uniformity_duv', 'lower'),
 };
 
 export const METRIC_LIST: MetricInfo[] = METRIC_KEYS.map((k) => METRICS[k]);

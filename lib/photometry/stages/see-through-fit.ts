@@ -87,13 +87,60 @@ function blockRgb(raster: PhotoRaster, lin: Float64Array, clipCode: number, x: n
   return !clipped;
 }
 
+/**
+ * Linear R, G, B of the (B + 2) × (B + 2) pixels from (x0, y0) into r, g, b (row-major); false when
+ * any is clipped. The block means at several sub-pixel shifts are then weighted sums of these.
+ */
+function readWindow(raster: PhotoRaster, lin: Float64Array, clipCode: number, x0: number, y0: number, B: number, r: Float64Array, g: Float64Array, b: Float64Array): boolean {
+  const { data, width, channels } = raster;
+  const side = B + 2;
+  let k = 0;
+  for (let j = 0; j < side; j++) {
+    let p = ((y0 + j) * width + x0) * channels;
+    for (let i = 0; i < side; i++, k++, p += channels) {
+      if (channels === 1) {
+        const v = data[p] as number;
+        if (v >= clipCode) return false;
+        r[k] = g[k] = b[k] = lin[v] as number;
+      } else {
+        const cr = data[p] as number;
+        const cg = data[p + 1] as number;
+        const cb = data[p + 2] as number;
+        if (cr >= clipCode || cg >= clipCode || cb >= clipCode) return false;
+        r[k] = lin[cr] as number;
+        g[k] = lin[cg] as number;
+        b[k] = lin[cb] as number;
+      }
+    }
+  }
+  return true;
+}
+
+/** Bilinear mean of the B × B block starting at (x, y) of a window whose pixel (0, 0) sits at (x0, y0) (x − x0 and y − y0 in [0, 1]). */
+function windowMean(v: Float64Array, x0: number, y0: number, x: number, y: number, B: number): number {
+  const side = B + 2;
+  const ox = Math.floor(x) - x0;
+  const oy = Math.floor(y) - y0;
+  const fx = x - Math.floor(x);
+  const fy = y - Math.floor(y);
+  let s = 0;
+  for (let j = 0; j <= B; j++) {
+    const wy = j === 0 ? 1 - fy : j === B ? fy : 1;
+    if (wy === 0) continue;
+    const row = (oy + j) * side + ox;
+    let rs = (1 - fx) * (v[row] as number) + fx * (v[row + B] as number);
+    for (let i = 1; i < B; i++) rs += v[row + i] as number;
+    s += wy * rs;
+  }
+  return s / (B * B);
+}
+
 const overlaps = (a: Rect, b: Rect): boolean => a.x < b.x + b.w && b.x < a.x + a.w && a.y < b.y + b.h && b.y < a.y + a.h;
 
 /** Block positions (top-left, on-photo pixels) over the fit region, about FIT_TARGET_BLOCKS of them on an even grid. */
 export function fitBlocks(region: Rect, exclude: readonly Rect[], B: number): { x: number; y: number }[] {
-  const free = Math.max(1, region.w * region.h - exclude.reduce((s, r) => s + Math.max(0, Math.min(region.x + region.w, r.x + r.w) - Math.max(region.x, r.x)) * Math.max(0, Math.min(region.y + region.h, r.y + r.h) - Math.max(region.y, r.y)), 0));
   // at least a block apart, so no two blocks share a JPEG coding unit and their noise is independent
-  const step = Math.max(2 * B, Math.floor(Math.sqrt(free / FIT_TARGET_BLOCKS)));
+  const step = Math.max(2 * B, Math.floor(Math.sqrt((region.w * region.h) / FIT_TARGET_BLOCKS)));
   const out: { x: number; y: number }[] = [];
   // the grid is centred in the region, so a small background keeps its blocks away from its edges alike
   const x0 = region.x + Math.floor(((region.w - B) % step) / 2);
@@ -158,6 +205,11 @@ export function seeThroughFit(
   const offY = new Float64Array(cap);
   const ambY = shifts.map(() => new Float64Array(cap));
   const px = new Float64Array(3);
+  const side = B + 2;
+  const wr_ = new Float64Array(side * side);
+  const wg_ = new Float64Array(side * side);
+  const wb_ = new Float64Array(side * side);
+  const wy_ = new Float64Array(side * side);
   const { r: wr, g: wg, b: wb } = LUMINANCE_WEIGHTS;
   let k = 0;
   for (const p of positions) {
@@ -169,35 +221,32 @@ export function seeThroughFit(
     const yo = p.y + oo.dy;
     const xa = p.x + oa.dx;
     const ya = p.y + oa.dy;
-    // every read window (with the half-pixel shifts) must lie inside the photo
+    // the ambient window covers the block at ±h on both axes
+    const ax0 = Math.floor(xa - h);
+    const ay0 = Math.floor(ya - h);
     if (xo < 0 || yo < 0 || xo + B + 1 > W || yo + B + 1 > H) continue;
-    if (xa - h < 0 || ya - h < 0 || xa + h + B + 1 > W || ya + h + B + 1 > H) continue;
+    if (ax0 < 0 || ay0 < 0 || ax0 + side > W || ay0 + side > H) continue;
     if (!blockRgb(off.raster, tOff.linear, tOff.clipCode, xo, yo, B, px)) continue;
+    if (!readWindow(amb.raster, tAmb.linear, tAmb.clipCode, ax0, ay0, B, wr_, wg_, wb_)) continue;
+    for (let i = 0; i < wy_.length; i++) wy_[i] = wr * (wr_[i] as number) + wg * (wg_[i] as number) + wb * (wb_[i] as number);
     const r0 = (px[0] as number) * sOff;
     const g0 = (px[1] as number) * sOff;
     const b0 = (px[2] as number) * sOff;
-    let ok = true;
-    for (let s = 0; s < shifts.length; s++) {
-      const [sx, sy] = shifts[s] as [number, number];
-      if (!blockRgb(amb.raster, tAmb.linear, tAmb.clipCode, xa + sx, ya + sy, B, px)) {
-        ok = false;
-        break;
-      }
-      const ar = (px[0] as number) * sAmb;
-      const ag = (px[1] as number) * sAmb;
-      const ab = (px[2] as number) * sAmb;
-      (ambY[s] as Float64Array)[k] = wr * ar + wg * ag + wb * ab;
-      if (s === 0) {
-        ambRgb[0][k] = ar;
-        ambRgb[1][k] = ag;
-        ambRgb[2][k] = ab;
-      }
-    }
-    if (!ok) continue;
     offRgb[0][k] = r0;
     offRgb[1][k] = g0;
     offRgb[2][k] = b0;
     offY[k] = wr * r0 + wg * g0 + wb * b0;
+    const ar = windowMean(wr_, ax0, ay0, xa, ya, B) * sAmb;
+    const ag = windowMean(wg_, ax0, ay0, xa, ya, B) * sAmb;
+    const ab = windowMean(wb_, ax0, ay0, xa, ya, B) * sAmb;
+    ambRgb[0][k] = ar;
+    ambRgb[1][k] = ag;
+    ambRgb[2][k] = ab;
+    (ambY[0] as Float64Array)[k] = wr * ar + wg * ag + wb * ab;
+    for (let s = 1; s < shifts.length; s++) {
+      const [sx, sy] = shifts[s] as [number, number];
+      (ambY[s] as Float64Array)[k] = windowMean(wy_, ax0, ay0, xa + sx, ya + sy, B) * sAmb;
+    }
     k++;
   }
   if (k < FIT_MIN_BLOCKS) {

@@ -5,12 +5,12 @@ import { checkRevisionTargets, listTargets } from '../../../db/queries/targets';
 import { getProjectTrend, listNewestReadings } from '../../../db/queries/trends';
 import { getProjectName } from '../../../db/queries/projects';
 import { notFound } from '../../errors';
-import { formatLimit, formatMetricDifference, formatMetricMeanCi, formatMetricSpread, formatMetricValue, formatTick, metricHeading, TABLE_METRICS } from '../../format';
+import { formatLimit, formatMetricDifference, formatMetricMeanCi, formatMetricSpread, formatMetricValue, formatMetricWithU, formatTick, metricHeading, TABLE_METRICS } from '../../format';
 import { compareGroups, formatChange, summariseComparison, testFigures, type GroupKey } from '../../targets/compare';
 import { describeCondition } from '../../targets/conditions';
 import { DEFAULTS_CAVEAT } from '../../targets/defaults';
 import { comparatorWords, revisionVerdictText, STATUS_WORDS, type Target, type TargetCheck } from '../../targets/evaluate';
-import { METRICS, type MetricKey } from '../../targets/metrics';
+import { METRIC_KEYS, METRICS, type MetricKey } from '../../targets/metrics';
 import { revisionStatistics, trendByVariant, variantLabel, type Trend } from '../../targets/series';
 import { REPORT_CAUTIONS } from '../../reports/cautions';
 import { ReportWriter, type ChartGroup, type ChartSpec } from '../../reports/pdf';
@@ -52,10 +52,12 @@ function writeTargets(w: ReportWriter, checks: TargetCheck[], scope: string): vo
 }
 
 function writeReadings(w: ReportWriter, rows: ExportRow[], withRevision: boolean): void {
-  const keys = TABLE_METRICS;
+  // the table's usual metrics, then any other that some reading here has (the optics' own transmission, MTF50, …)
+  const keys: MetricKey[] = [...TABLE_METRICS, ...METRIC_KEYS.filter((k) => !TABLE_METRICS.includes(k) && k !== 'michelson' && k !== 'ansiContrast' && rows.some((r) => r[k] !== null))];
+  const u = (r: ExportRow, k: MetricKey): number | undefined => (r.uncertainty as Partial<Record<string, number>>)[k];
   w.table(
     [...(withRevision ? [{ header: 'Revision', width: 1.6 }] : []), { header: 'Capture set', width: 3 }, { header: 'Variant', width: 2 }, ...keys.map((k) => ({ header: metricHeading(k), width: 1.7, align: 'right' as const }))],
-    rows.map((r) => ({ cells: [...(withRevision ? [r.revisionLabel] : []), r.captureLabel, r.variant || '—', ...keys.map((k) => formatMetricValue(k, r[k]))] })),
+    rows.map((r) => ({ cells: [...(withRevision ? [r.revisionLabel] : []), r.captureLabel, r.variant || '—', ...keys.map((k) => formatMetricWithU(k, r[k], u(r, k)))] })),
   );
 }
 

@@ -1,7 +1,7 @@
 import { getCaptureSet } from '../../../db/queries/capture-sets';
 import { getLatestReading } from '../../../db/queries/readings';
 import { notFound } from '../../errors';
-import { formatLuminance, formatMetricValue, metricHeading } from '../../format';
+import { formatLuminance, formatMetricWithU, metricHeading } from '../../format';
 import { METRIC_KEYS } from '../../targets/metrics';
 import { REPORT_CAUTIONS } from '../../reports/cautions';
 import { ReportWriter } from '../../reports/pdf';
@@ -41,7 +41,8 @@ export async function captureReport(labId: string, captureSetId: string, opts: R
         { header: 'Value', width: 2, align: 'right' },
       ],
       [
-        ...METRIC_KEYS.map((k) => ({ cells: [metricHeading(k), formatMetricValue(k, reading[k])] })),
+        // the contrast figures always (a dash when not measured), the newer ones where measured; each ± its standard uncertainty
+        ...METRIC_KEYS.filter((k) => METRIC_KEYS.indexOf(k) <= METRIC_KEYS.indexOf('tintDeltaE00') || reading[k] !== null).map((k) => ({ cells: [metricHeading(k), formatMetricWithU(k, reading[k], (reading.uncertainty as Partial<Record<string, number>>)[k])] })),
         ...(abs ? [{ cells: [abs.kind === 'calibrated' ? 'Display luminance (cd/m²)' : 'Display luminance, rough estimate (cd/m²)', formatLuminance(abs.on, { estimate: abs.kind !== 'calibrated' })] }] : []),
       ],
     );

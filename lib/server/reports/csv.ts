@@ -1,5 +1,7 @@
 import type { ExportRow } from '../../../db/queries/exports';
 import { METRIC_FORMATS } from '../../format/metrics';
+import { UNCERTAIN_METRICS } from '../../photometry/result';
+import { METRICS } from '../../targets/metrics';
 
 type Col = { header: string; get: (r: ExportRow) => string | number | null };
 
@@ -21,6 +23,15 @@ const COLUMNS: Col[] = [
   { header: METRIC_FORMATS.ghostRatio.csvHeader, get: (r) => r.ghostRatio },
   { header: METRIC_FORMATS.transmission.csvHeader, get: (r) => r.transmission },
   { header: METRIC_FORMATS.tintDeltaE00.csvHeader, get: (r) => r.tintDeltaE00 },
+  { header: METRIC_FORMATS.transmissionOptics.csvHeader, get: (r) => r.transmissionOptics },
+  { header: METRIC_FORMATS.veil.csvHeader, get: (r) => r.veil },
+  { header: 'veil_calibrated (cd/m²)', get: (r) => r.veilCdm2 },
+  { header: METRIC_FORMATS.mtf50.csvHeader, get: (r) => r.mtf50 },
+  { header: METRIC_FORMATS.mtf50PerDegree.csvHeader, get: (r) => r.mtf50PerDegree },
+  { header: METRIC_FORMATS.displayDuv.csvHeader, get: (r) => r.displayDuv },
+  { header: METRIC_FORMATS.colourUniformityDuv.csvHeader, get: (r) => r.colourUniformityDuv },
+  // the standard uncertainty (k = 1) of each figure that has one, on the figure's own scale
+  ...UNCERTAIN_METRICS.map((k) => ({ header: `u_${METRICS[k].column} (standard uncertainty, as stored)`, get: (r: ExportRow) => r.uncertainty[k] ?? null })),
   { header: 'luminance_on (relative, on-photo scale)', get: (r) => r.luminanceOn },
   { header: 'luminance_off (relative, on-photo scale)', get: (r) => r.luminanceOff },
   { header: 'luminance_ambient (relative, on-photo scale)', get: (r) => r.luminanceAmbient },

@@ -105,7 +105,7 @@ describe('comparisons', () => {
     expect(relativeChange(rows.find((r) => r.metric === 'uniformity') as (typeof rows)[number])).toBeNull();
     // ghost −50 %, contrast ratio +24 %, Michelson +2 %; the unmeasured metrics keep the catalogue's order after them
     const byChange = orderComparisons(rows, 'change').map((r) => r.metric);
-    expect(byChange).toEqual(['ghostRatio', 'ambientContrastRatio', 'michelson', 'ansiContrast', 'uniformity', 'transmission', 'tintDeltaE00']);
+    expect(byChange).toEqual(['ghostRatio', 'ambientContrastRatio', 'michelson', 'ansiContrast', 'uniformity', 'transmission', 'tintDeltaE00', 'transmissionOptics', 'veil', 'mtf50', 'mtf50PerDegree', 'displayDuv', 'colourUniformityDuv']);
     expect(orderComparisons(rows, 'change', true).map((r) => r.metric).slice(0, 3)).toEqual(['michelson', 'ambientContrastRatio', 'ghostRatio']);
     const byP = orderComparisons(rows, 'p');
     const ps = byP.flatMap((r) => (r.test ? [r.test.p] : []));
