@@ -8,7 +8,9 @@ import { analyzeFiles, decodePhoto } from '../../../lib/image';
 import { decodeRaw, identifyRaw, parseIdentify, parsePpm, sniffRaw } from '../../../lib/image/raw';
 import { refuseUnsupported } from '../../../lib/image/sniff';
 import { EngineInputError } from '../../../lib/photometry';
+import { PHOTO_ACCEPT, PHOTO_ACCEPT_ATTRIBUTE, RAW_KINDS, RAW_TYPES } from '../../../lib/image/raw-formats';
 import { photoEncoding } from '../../../lib/schemas/capture-set';
+import { openApiDocument } from '../../../lib/server/api-v1/openapi';
 import { encodeDng, FIXTURE_CAMERA, renderDngCapture } from '../../fixtures/dng-writer';
 import { encodeTiff16 } from '../../fixtures/tiff16';
 
@@ -109,6 +111,19 @@ describe('sniffRaw: raw formats by content', () => {
     expect(() => refuseUnsupported(Buffer.concat([Buffer.from([0xff, 0xd8, 0xff, 0xe0]), Buffer.alloc(64)]), 'renamed.nef')).toThrow(/renamed\.nef is named \.nef but its content is not a Nikon NEF raw file/);
     expect(() => refuseUnsupported(Buffer.alloc(64), 'old.x3f')).toThrow(/camera raw \(\.x3f\) is not read here: convert it to DNG/);
     expect(() => refuseUnsupported(makerTiff('HASSELBLAD', true), 'h.3fr')).toThrow(/raw file of a format not read here/);
+  });
+});
+
+describe('where the raw formats are offered', () => {
+  it('the file pickers and the rig API document list every raw format', () => {
+    for (const k of RAW_KINDS) {
+      expect(PHOTO_ACCEPT_ATTRIBUTE.split(','), k).toContain(`.${RAW_TYPES[k].ext}`);
+      expect(PHOTO_ACCEPT[RAW_TYPES[k].contentType], k).toEqual([`.${RAW_TYPES[k].ext}`]);
+    }
+    const doc = openApiDocument() as { paths: Record<string, Record<string, { requestBody?: { content: Record<string, unknown> } }>> };
+    const upload = doc.paths['/captures/{captureId}/photos']?.post;
+    const types = Object.keys(upload?.requestBody?.content ?? {});
+    expect(types).toEqual(expect.arrayContaining(['image/jpeg', 'image/tiff', 'image/x-adobe-dng', 'image/x-canon-cr3', 'image/x-nikon-nef', 'image/x-fuji-raf', 'application/octet-stream']));
   });
 });
 
