@@ -189,7 +189,9 @@ export function measureSharpness(n: Normalised, a: Aligned, degreesPerPixel: num
   // the line spread drops), else on − off
   const read: DiffReader = n.photos.dark ? diffReader(sourceOf(n, 'dark', a.motion.dark as Motion)) : a.readDiff;
   // half-window across the edge: six edge rises of the screen's own border and some room
-  const want = Math.min(96, Math.max(16, Math.ceil(6 * a.spread.width) + 8));
+  // (2 px when the border showed no clear step to measure it on)
+  const rise = Number.isFinite(a.spread.width) && a.spread.width > 0 ? a.spread.width : 2;
+  const want = Math.min(96, Math.max(16, Math.ceil(6 * rise) + 8));
   const tan = Math.tan((MAX_TURN_DEG * Math.PI) / 180);
   const inner = { x0: screen.x + a.spread.zone, y0: screen.y + a.spread.zone, x1: screen.x + screen.w - a.spread.zone, y1: screen.y + screen.h - a.spread.zone };
   const edges: EdgeMtf[] = [];
