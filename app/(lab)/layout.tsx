@@ -46,7 +46,9 @@ export default async function LabLayout({ children }: { children: React.ReactNod
           </div>
         </div>
       </aside>
-      <main className="min-w-0 px-5 py-6 lg:px-10 lg:py-8">{children}</main>
+      {/* a grid's items may shrink below their content (a wide table scrolls inside its panel, a
+          chart takes the width it is given) and a long word or id wraps, so no page scrolls sideways */}
+      <main className="min-w-0 break-words px-5 py-6 lg:px-10 lg:py-8 [&_.grid>*]:min-w-0">{children}</main>
     </div>
   );
 }

@@ -3,16 +3,21 @@ import { DataTable } from '@/components/ui/data-table';
 import { Notice } from '@/components/ui/panel';
 import type { AnalysisWithReading } from '@/db/queries/analyses';
 import type { Reading } from '@/db/queries/readings';
-import type { WarningCode } from '@/lib/photometry/result';
-import { formatLuminance, formatPercent, formatRatio } from '@/lib/format/quantities';
+import type { CaptureResult, WarningCode } from '@/lib/photometry/result';
+import { formatMetricValue, formatMetricWithU, METRIC_FORMATS } from '@/lib/format/metrics';
+import { DASH, fixed, isNum } from '@/lib/format/numbers';
+import { formatLuminance, formatSig } from '@/lib/format/quantities';
+import type { MetricKey } from '@/lib/targets/metrics';
 
-type Metric = { key: string; label: string; value: string; unit: string; definition: string };
+/** One row of the panel: a name, the figure (± its standard uncertainty when known), its unit and what it is. */
+export type Metric = { key: string; label: string; value: string; unit: string; definition: string };
 
-const f = (v: number | null | undefined, digits = 3) => (typeof v === 'number' && Number.isFinite(v) ? v.toFixed(digits) : '—');
-const pct = (v: number | null | undefined, digits = 2) => (typeof v === 'number' && Number.isFinite(v) ? (v * 100).toFixed(digits) : '—');
+const f = (v: number | null | undefined, digits = 3): string => (isNum(v) ? fixed(v, digits) : DASH);
+const pct = (v: number | null | undefined, digits = 2): string => (isNum(v) ? fixed(v * 100, digits) : DASH);
+const formatPercentPlain = (v: number | null | undefined): string => pct(v, 3);
 
 // shifts and offsets to 0.1 px, as the engine resolves them
-const fmt1 = (v: number) => (Number.isInteger(v) ? String(v) : v.toFixed(1));
+const formatOffset = (v: number): string => (Number.isInteger(v) ? String(v) : fixed(v, 1));
 
 // What to do about each warning; a code this panel does not know yet shows the engine's message alone.
 const ADVICE: Partial<Record<WarningCode | string, string>> = {
@@ -33,25 +38,74 @@ const ADVICE: Partial<Record<WarningCode | string, string>> = {
   'transmission-above-one': 'More light arrived through the optics than without them: stray light (a veil) from the optics adds to the view. Mark a background region away from the screen and its glow, and shade the optics from lamps.',
   'both-clipped': 'The on and off photos are both clipped: lower the exposure, or bracket, and shoot again.',
   'ghost-weak': 'The ghost is barely above the noise: raise the display level or the exposure, or mark the ghost by hand if you know where it is.',
+  'see-through-range-small': 'The optics\u2019 own transmission and the veil need dark and bright things behind the optics: mark a background region that takes in both (a dark and a white card side by side will do).',
+  'see-through-unfitted': 'Too little of the room could be paired between the off and ambient photos: mark a larger background region where neither photo is clipped.',
 };
 
-function metrics(r: Reading): Metric[] {
+/** The figure of a catalogued metric read from the result (readings of every engine version). */
+const VALUE: Partial<Record<MetricKey, (r: CaptureResult) => number | null | undefined>> = {
+  ambientContrastRatio: (r) => r.ambientContrastRatio,
+  michelson: (r) => r.michelson,
+  ansiContrast: (r) => r.ansiContrast,
+  uniformity: (r) => r.uniformity,
+  ghostRatio: (r) => r.ghost?.ratio,
+  transmission: (r) => r.transmission,
+  tintDeltaE00: (r) => r.tint?.deltaE00,
+  transmissionOptics: (r) => r.transmissionOptics,
+  veil: (r) => r.veil?.relative,
+};
+
+/**
+ * A row for a catalogued metric: its label, the figure ± its standard uncertainty (digits from the
+ * uncertainty), the unit and any `detail` after it, and the catalogue's one-line definition.
+ */
+export function metricRow(key: MetricKey, r: CaptureResult, o: { rowKey?: string; value?: string; detail?: string; definition?: string } = {}): Metric {
+  const f = METRIC_FORMATS[key];
+  const u = (r.uncertainty as Partial<Record<string, number>> | undefined)?.[key];
+  const v = VALUE[key]?.(r);
+  const unit = f.unit === ': 1' ? 'ratio' : f.unit;
+  return {
+    key: o.rowKey ?? key,
+    label: f.label,
+    value: o.value ?? formatMetricWithU(key, v, u, { unit: false }),
+    unit: [unit, o.detail].filter(Boolean).join(' · '),
+    definition: o.definition ?? f.definition,
+  };
+}
+
+
+/** Every row of the panel for a reading; other panels add their own rows beside it. */
+export function metrics(r: Reading): Metric[] {
   const res = r.result;
   const abs = res.absoluteLuminance;
+  const rel = (v: number | null | undefined): string => formatSig(v, 4);
   const out: Metric[] = [
-    { key: 'acr', label: 'Ambient contrast ratio', value: formatRatio(res.ambientContrastRatio), unit: '', definition: 'L on / L off over the screen: (display + background) / background.' },
-    { key: 'michelson', label: 'Michelson contrast', value: f(res.michelson, 4), unit: '', definition: res.pattern === 'checkerboard' ? '(Lw − Lb)/(Lw + Lb) of the checkerboard cells.' : '(L on − L off)/(L on + L off) over the screen.' },
-    { key: 'ansi', label: 'Checkerboard contrast', value: formatRatio(res.ansiContrast), unit: '', definition: 'Mean of 8 white cells / mean of 8 black cells, each over its central half (4 × 4 pattern only).' },
-    { key: 'uniformity', label: 'Uniformity', value: f(res.uniformity), unit: 'min/max', definition: 'Dimmest over brightest of the 3 × 3 cells of display light; 1.000 is perfect (full-white pattern).' },
-    { key: 'ghost', label: 'Ghost ratio', value: res.ghost ? formatPercent(res.ghost.ratio) : 'none found', unit: res.ghost ? `at (${fmt1(res.ghost.dx)}, ${fmt1(res.ghost.dy)}) px` : '', definition: 'Ghost luminance over the primary image, second-order corrected; offset is ghost minus screen position.' },
-    { key: 'transmission', label: 'See-through transmission', value: formatPercent(res.transmission), unit: '', definition: 'L off / L ambient over the background region: how much of the world comes through.' },
-    { key: 'tint', label: 'See-through tint (ΔE00)', value: res.tint ? f(res.tint.deltaE00, 2) : '—', unit: res.tint ? `Δxy (${f(res.tint.dx, 4)}, ${f(res.tint.dy, 4)})` : '', definition: 'Colour shift of the world through the optics at equal luminance (CIEDE2000), and the chromaticity shift.' },
-    { key: 'lon', label: 'Luminance, display on', value: f(res.luminance.on, 4), unit: 'relative', definition: 'Mean linear Y over the screen, on the on photo’s exposure (sRGB white = 1).' },
-    { key: 'loff', label: 'Luminance, display off', value: f(res.luminance.off, 4), unit: 'relative', definition: 'The see-through background behind the screen.' },
-    { key: 'lamb', label: 'Luminance, without optics', value: f(res.luminance.ambient, 4), unit: 'relative', definition: 'The same area with the optics out of the path.' },
-    { key: 'clip', label: 'Clipped pixels', value: pct(res.clippedFraction, 3), unit: '%', definition: 'Share of pixels with a channel at ≥ 98 % of full scale inside the analysed regions.' },
-    { key: 'reg', label: 'Registration, off photo', value: `${fmt1(res.registration.off.dx)}, ${fmt1(res.registration.off.dy)}`, unit: 'px', definition: 'Shift of the off photo against the on photo, found by phase correlation.' },
+    metricRow('ambientContrastRatio', res, { rowKey: 'acr' }),
+    metricRow('michelson', res, { definition: res.pattern === 'checkerboard' ? '(Lw − Lb)/(Lw + Lb) of the checkerboard\u2019s white and black cells, 0 to 1.' : METRIC_FORMATS.michelson.definition }),
+    metricRow('ansiContrast', res, { rowKey: 'ansi' }),
+    metricRow('uniformity', res, { detail: 'min/max' }),
+    metricRow('ghostRatio', res, { rowKey: 'ghost', value: res.ghost ? undefined : 'none found', detail: res.ghost ? `at (${formatOffset(res.ghost.dx)}, ${formatOffset(res.ghost.dy)}) px` : '' }),
+    metricRow('transmission', res),
   ];
+  // the optics' own transmission and the veil (engine 1.2.0 on; absent from older readings)
+  if (res.transmissionOptics !== undefined) {
+    const ch = res.veil?.channels;
+    const t = (v: number): string => formatMetricValue('transmissionOptics', v, { unit: false });
+    out.push(metricRow('transmissionOptics', res, { detail: ch ? `R ${t(ch.r.t)} · G ${t(ch.g.t)} · B ${t(ch.b.t)} %` : '' }));
+  }
+  if (res.veil !== undefined) {
+    const v = res.veil;
+    const parts = v ? [v.cdm2 === null ? '' : `${formatLuminance(v.cdm2)} cd/m²`, `room range ${formatSig(v.rangeRatio, 2)} : 1`, v.source === 'background' ? 'over the background region' : 'over the room around the display'] : [];
+    out.push(metricRow('veil', res, { detail: parts.filter(Boolean).join(' · ') }));
+  }
+  out.push(
+    metricRow('tintDeltaE00', res, { rowKey: 'tint', detail: res.tint ? `Δxy (${formatSig(res.tint.dx, 3)}, ${formatSig(res.tint.dy, 3)})` : '' }),
+    { key: 'lon', label: 'Luminance, display on', value: rel(res.luminance.on), unit: 'relative', definition: 'Mean linear Y over the screen, on the on photo\u2019s exposure (sRGB white = 1).' },
+    { key: 'loff', label: 'Luminance, display off', value: rel(res.luminance.off), unit: 'relative', definition: 'The see-through background behind the screen.' },
+    { key: 'lamb', label: 'Luminance, without optics', value: rel(res.luminance.ambient), unit: 'relative', definition: 'The same area with the optics out of the path.' },
+    { key: 'clip', label: 'Clipped pixels', value: formatPercentPlain(res.clippedFraction), unit: '%', definition: 'Share of pixels with a channel at ≥ 98 % of full scale inside the analysed regions.' },
+    { key: 'reg', label: 'Registration, off photo', value: `${formatOffset(res.registration.off.dx)}, ${formatOffset(res.registration.off.dy)}`, unit: 'px', definition: 'Shift of the off photo against the on photo, found by phase correlation.' },
+  );
   // fields of newer engines, shown only where the reading has them
   if (res.ghost && res.ghost.snr !== null && res.ghost.snr !== undefined) {
     out.push({ key: 'ghost-snr', label: 'Ghost SNR', value: f(res.ghost.snr, 1), unit: 'standard errors', definition: 'How far the light at the ghost offset stands above the noise, against the same band mirrored to the other side (light spread by blur falls on both sides alike).' });
@@ -66,8 +120,8 @@ function metrics(r: Reading): Metric[] {
     out.push({
       key: `align-${role}`,
       label: `Alignment, ${role} photo`,
-      value: `${a.dx.toFixed(1)}, ${a.dy.toFixed(1)}`,
-      unit: `px · rotation ${a.rotationDeg.toFixed(2)}°`,
+      value: `${fixed(a.dx, 1)}, ${fixed(a.dy, 1)}`,
+      unit: `px · rotation ${fixed(a.rotationDeg, 2)}°`,
       definition: `Shift (to 0.1 px) and turn of the ${role} photo against the on photo, the display left out of the match; peak ${f(a.peakRatio, 2)}× the runner-up over ${a.windows} window${a.windows === 1 ? '' : 's'}${a.residual === null ? '' : `, residual ${pct(a.residual, 1)} %`}.`,
     });
   }
@@ -116,8 +170,9 @@ export function ReadingsPanel({ reading, analyses, captureSetId, selectedId }: {
           <div className="flex flex-wrap items-baseline gap-x-6 gap-y-1">
             <div>
               <div className="text-xs uppercase tracking-[0.16em] text-muted">Ambient contrast ratio</div>
-              <div className="font-mono text-3xl text-beam" data-testid="acr-value">
-                {f(reading.ambientContrastRatio)}
+              <div className="font-mono text-3xl text-beam">
+                <span data-testid="acr-value">{f(reading.ambientContrastRatio)}</span>
+                {isNum(reading.uncertainty.ambientContrastRatio) ? <span className="ml-2 text-base text-muted" data-testid="acr-uncertainty">± {formatSig(reading.uncertainty.ambientContrastRatio, 2)}</span> : null}
               </div>
             </div>
             <div className="text-xs text-muted">
@@ -137,6 +192,7 @@ export function ReadingsPanel({ reading, analyses, captureSetId, selectedId }: {
           ) : (
             <p className="text-sm text-pass">No warnings.</p>
           )}
+          <div className="overflow-x-auto" data-table-scroll>
           <table className="w-full text-sm" data-testid="metrics">
             <tbody>
               {metrics(reading).map((m) => (
@@ -151,6 +207,7 @@ export function ReadingsPanel({ reading, analyses, captureSetId, selectedId }: {
               ))}
             </tbody>
           </table>
+          </div>
           {reading.artifacts.logContrastKey ? (
             <div className="grid gap-4 md:grid-cols-2">
               <figure>

@@ -399,35 +399,37 @@ export function StackWorkbench({
           <VariantStacksEditor names={variantNames} base={drafts} drafts={variantDrafts} errors={variantState.errors} readOnly={readOnly} onChange={(next) => { setVariantDrafts(next); setStatus(null); }} />
         </Panel>
 
-        <Panel title={`Measured on ${revisionLabel}`}>
-          {measured.length === 0 ? (
-            <p data-testid="no-readings" className="text-sm text-muted">
-              No readings yet for this revision. Once capture sets are analysed, each one appears on the curve at its recorded background luminance.
-            </p>
-          ) : (
-            <div className="space-y-2 text-sm">
-              <p className="text-muted" data-testid="plotted-count">
-                {plotted.length} of {measured.length} newest readings are on the chart{estimated ? `, ${estimated} at a background estimated from the photos’ EXIF (marked as estimates; a typed or calibrated value is used where there is one)` : ''}.
-              </p>
-              <VariantPredictedMeasured rows={perVariant} csvName={`${revisionLabel}-predicted-vs-measured-per-variant`} />
-              {unplotted.length ? (
-                <ul data-testid="unplotted-readings" className="space-y-1">
-                  {unplotted.map(({ point, why }) => (
-                    <li key={point.captureSetId} className="flex justify-between gap-3 rounded border border-line px-2 py-1">
-                      <span className="text-ink">
-                        {point.variant || 'reading'} · {formatRatio(point.ambientContrastRatio)}
-                      </span>
-                      <span className="text-xs text-muted">{why}</span>
-                    </li>
-                  ))}
-                </ul>
-              ) : null}
-            </div>
-          )}
-        </Panel>
-
         {cautions}
       </div>
+
+      {/* full width: the per-variant table has ten columns */}
+      <Panel title={`Measured on ${revisionLabel}`} className="xl:col-span-2">
+        {measured.length === 0 ? (
+          <p data-testid="no-readings" className="text-sm text-muted">
+            No readings yet for this revision. Once capture sets are analysed, each one appears on the curve at its recorded background luminance.
+          </p>
+        ) : (
+          <div className="space-y-2 text-sm">
+            <p className="text-muted" data-testid="plotted-count">
+              {plotted.length} of {measured.length} newest readings are on the chart{estimated ? `, ${estimated} at a background estimated from the photos’ EXIF (marked as estimates; a typed or calibrated value is used where there is one)` : ''}.
+            </p>
+            <VariantPredictedMeasured rows={perVariant} csvName={`${revisionLabel}-predicted-vs-measured-per-variant`} />
+            {unplotted.length ? (
+              <ul data-testid="unplotted-readings" className="space-y-1">
+                {unplotted.map(({ point, why }) => (
+                  <li key={point.captureSetId} className="flex justify-between gap-3 rounded border border-line px-2 py-1">
+                    <span className="text-ink">
+                      {point.variant || 'reading'} · {formatRatio(point.ambientContrastRatio)}
+                    </span>
+                    <span className="text-xs text-muted">{why}</span>
+                  </li>
+                ))}
+              </ul>
+            ) : null}
+          </div>
+        )}
+      </Panel>
+
     </div>
   );
 }

@@ -55,7 +55,7 @@ export function DataTable({ columns, rows, csvName, empty, testId }: { columns: 
               {columns.map((c) => {
                 const active = sortKey === c.key;
                 return (
-                  <th key={c.key} scope="col" className={clsx('px-3 py-2 align-bottom font-medium', c.numeric && 'text-right')} aria-sort={ariaSortOf(active, desc)}>
+                  <th key={c.key} scope="col" className={clsx('px-2 py-2 align-bottom font-medium first:pl-3 last:pr-3', c.numeric && 'text-right')} aria-sort={ariaSortOf(active, desc)}>
                     <SortButton
                       label={c.label}
                       active={active}
@@ -78,9 +78,9 @@ export function DataTable({ columns, rows, csvName, empty, testId }: { columns: 
               <tr key={r.id} className="border-t border-line hover:bg-raised/60">
                 {columns.map((c, i) => {
                   const cell = r.cells[c.key];
-                  const text = cell?.node ?? cell?.text ?? '';
+                  const text = cell?.node ?? (c.numeric ? <NumericText text={cell?.text ?? ''} /> : (cell?.text ?? ''));
                   return (
-                    <td key={c.key} className={clsx('px-3 py-2 align-top', c.numeric ? 'whitespace-nowrap text-right font-mono tabular-nums' : 'min-w-[6rem] break-words')}>
+                    <td key={c.key} className={clsx('px-2 py-2 align-top first:pl-3 last:pr-3', c.numeric ? 'text-right font-mono tabular-nums' : 'min-w-[5rem] break-words')}>
                       {i === 0 && r.href ? (
                         <Link href={r.href} className="font-medium text-ink hover:text-beam">
                           {text}
@@ -97,5 +97,19 @@ export function DataTable({ columns, rows, csvName, empty, testId }: { columns: 
         </table>
       </div>
     </div>
+  );
+}
+
+/**
+ * A figure stays on one line; a note after it in brackets ("48 % ± 2 % (estimated backgrounds)",
+ * "5 (on, off, ambient)") goes on the next, so a wide note does not widen the column.
+ */
+function NumericText({ text }: { text: string }) {
+  const m = /^(.*?\S)\s+(\(.+\))$/.exec(text);
+  if (!m) return <span className="whitespace-nowrap">{text}</span>;
+  return (
+    <>
+      <span className="whitespace-nowrap">{m[1]}</span> <span className="block font-sans text-xs text-muted">{m[2]}</span>
+    </>
   );
 }

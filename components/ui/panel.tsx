@@ -2,7 +2,8 @@ import clsx from 'clsx';
 
 export function Panel({ title, actions, children, className }: { title?: React.ReactNode; actions?: React.ReactNode; children: React.ReactNode; className?: string }) {
   return (
-    <section className={clsx('rounded-lg border border-line bg-panel', className)}>
+    // min-w-0: in a grid or flex layout a wide table scrolls inside the panel instead of widening the page
+    <section className={clsx('min-w-0 rounded-lg border border-line bg-panel', className)}>
       {title || actions ? (
         <header className="flex items-center justify-between gap-3 border-b border-line px-4 py-2.5">
           <h2 className="text-sm font-semibold tracking-wide text-ink">{title}</h2>

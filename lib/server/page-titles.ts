@@ -5,11 +5,13 @@ import { getRevision } from '../../db/queries/revision-edits';
 import { uuidSchema } from '../schemas/common';
 import { getActor } from './auth/session';
 
-// Each page's <title> names its record (the root layout adds " — Veilmeter"). The record is read
+// Each page's <title> names its record, then " — Veilmeter" as every title does. The record is read
 // with the same lab-scoped queries as the page, so an id of another lab (or none) gives the same
 // "Not found" as a missing one and never its name.
-const NOT_FOUND: Metadata = { title: 'Not found' };
-const titled = (...parts: (string | undefined)[]): Metadata => ({ title: parts.filter(Boolean).join(' · ') });
+// absolute: the root layout's title template does not reach a title set by a nested layout
+const SUFFIX = ' — Veilmeter';
+const NOT_FOUND: Metadata = { title: { absolute: `Not found${SUFFIX}` } };
+const titled = (...parts: (string | undefined)[]): Metadata => ({ title: { absolute: `${parts.filter(Boolean).join(' · ')}${SUFFIX}` } });
 
 /** "<what> · <project>", e.g. "Compare · Visor VX birdbath". */
 export async function projectTitle(projectId: string, what?: string): Promise<Metadata> {
