@@ -5,7 +5,8 @@
  * The rules (docs/method.md §5.1, shown to testers in the README):
  *
  * - **Linear, nothing automatic.** `dcraw_emu -4`: 16-bit output, gamma 1 (linear), no automatic
- *   brightening; highlights clipped (`-H 0`), AHD demosaicing (`-q 3`), sRGB primaries (`-o 1`)
+ *   brightening, the file's own white level kept (`-c 0`: libraw would otherwise lower it to a bright
+ *   photo's own maximum, scaling that photo alone); highlights clipped (`-H 0`), AHD demosaicing (`-q 3`), sRGB primaries (`-o 1`)
  *   through the camera's colour matrix (the DNG's ColorMatrix, or libraw's table for a maker's
  *   format). The engine then reads the values as linear light, like a linear 16-bit TIFF.
  * - **One fixed white balance per capture set, never automatic.** Every raw photo of a set is decoded
@@ -344,9 +345,11 @@ export function parsePpm(buf: Uint8Array): { data: Uint8Array | Uint16Array; wid
 
 function decodeArgs(input: string, output: string, wb: RawWhiteBalance, half: boolean): string[] {
   const mul = wb.multipliers.map((m) => m.toFixed(6));
-  // -4: 16-bit, gamma 1 (linear), no automatic brightening; the preview keeps the 8-bit sRGB curve
+  // -4: 16-bit, gamma 1 (linear), no automatic brightening; the preview keeps the 8-bit sRGB curve.
+  // -c 0: the saturation level stays the file's own white level (libraw otherwise lowers it to the
+  // brightest value in a photo whose data come near it, which scales that one photo alone)
   const tone = half ? ['-h'] : ['-4', '-q', '3'];
-  return [...tone, '-H', '0', '-o', '1', '-r', ...mul, '-Z', output, input];
+  return [...tone, '-c', '0', '-H', '0', '-o', '1', '-r', ...mul, '-Z', output, input];
 }
 
 async function decodeIn(dir: string, input: string, name: string, info: RawInfo, wb: RawWhiteBalance, half: boolean, onStarted?: () => void): Promise<{ data: Uint8Array | Uint16Array; width: number; height: number }> {

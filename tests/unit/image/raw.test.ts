@@ -189,6 +189,19 @@ describe('decoding a DNG with the libraw tools', () => {
     expect(rawFolders().length).toBe(before);
   });
 
+  it('a photo whose data come near the white level is not rescaled to its own maximum', async () => {
+    // a grey at 0.9 of full scale fills the camera's green to 0.9 of the white level, above the 0.75 of
+    // full scale beyond which libraw by default takes a photo's own maximum as its white level
+    const W = 64;
+    const H = 48;
+    const data = new Uint16Array(W * H * 3);
+    for (let p = 0; p < W * H; p++) data.fill(p % W < W / 2 ? 58982 : 19661, 3 * p, 3 * p + 3);
+    const d = await decodeRaw(encodeDng({ data, width: W, height: H }), { name: 'bright.dng', kind: 'dng' });
+    for (const [x, want] of [[10, 58982], [50, 19661]] as const) {
+      for (const v of at(d.raster, x, 20)) expect(Math.abs(v / want - 1), `x ${x}`).toBeLessThan(0.003);
+    }
+  });
+
   it('a fixed white balance given for the set is the one used', async () => {
     const unity = await decodeRaw(encodeDng(patches()), { name: 'patch.dng', kind: 'dng', whiteBalance: { multipliers: [1, 1, 1, 1], source: 'unity' } });
     const grey = at(unity.raster, 10, 20);
@@ -237,5 +250,17 @@ describe('a DNG capture set measured to its linear truth', () => {
     expect(Math.abs((result.transmission as number) / cap.truth.transmission - 1)).toBeLessThan(0.005);
     expect(rawWhiteBalance?.source).toBe('daylight');
     expect(result.exposure).toBeTruthy();
+  }, 120_000);
+
+  it('a bracket of raw photos (the on photo at two exposures) is merged on the exposure tags read from the raw files', async () => {
+    const exposures = { on: [{ exposureTime: 1 / 60, fNumber: 4, iso: 800 }, { exposureTime: 1 / 250, fNumber: 4, iso: 800 }] };
+    const cap = await renderDngCapture({ width: 480, height: 360, seed: 9, noise: null, exposures, displayLevel: 0.6 });
+    const on = (cap.brackets.on as Buffer[]).map((bytes, i) => ({ name: `on-${i}.dng`, bytes }));
+    expect(on).toHaveLength(2);
+    const { result, rawWhiteBalance } = await analyzeFiles({ on, off: { name: 'off.dng', bytes: cap.photos.off as Buffer }, ambient: { name: 'ambient.dng', bytes: cap.photos.ambient as Buffer }, screen: cap.truth.screen, background: cap.truth.background, artifacts: false });
+    expect(result.brackets?.on?.count).toBe(2);
+    expect(Math.abs((result.ambientContrastRatio as number) / cap.truth.ambientContrastRatio - 1)).toBeLessThan(0.005);
+    expect(Math.abs((result.transmission as number) / cap.truth.transmission - 1)).toBeLessThan(0.005);
+    expect(rawWhiteBalance?.source).toBe('daylight');
   }, 120_000);
 });
