@@ -1,4 +1,5 @@
 import { getDb } from '../index';
+import type { UncertainMetric } from '../../lib/photometry/result';
 import { METRIC_LIST, type MetricKey } from '../../lib/targets/metrics';
 import { buildTrends, type RevisionRef, type SetReading, type Trend } from '../../lib/targets/series';
 
@@ -42,7 +43,7 @@ export async function listNewestReadings(labId: string, filter: { projectId?: st
   return rows.map(toSetReading).sort((a, b) => a.createdAt.getTime() - b.createdAt.getTime() || a.captureLabel.localeCompare(b.captureLabel));
 }
 
-export type ReadingsPage = { readings: (SetReading & { revisionLabel: string })[]; total: number };
+export type ReadingsPage = { readings: (SetReading & { revisionLabel: string; uncertainty: Partial<Record<UncertainMetric, number>> })[]; total: number };
 
 /**
  * One page of a project's readings list: the newest reading of each capture set, newest first
@@ -51,17 +52,17 @@ export type ReadingsPage = { readings: (SetReading & { revisionLabel: string })[
 export async function listNewestReadingsPage(labId: string, projectId: string, page: { limit: number; offset: number }): Promise<ReadingsPage> {
   const db = getDb();
   const newest = db
-    .select(db.raw('DISTINCT ON (g.capture_set_id) g.id'), 'g.capture_set_id', 'c.label as capture_label', 'g.revision_id', 'r.label as revision_label', 'c.variant', 'g.created_at', ...METRIC_COLUMNS)
+    .select(db.raw('DISTINCT ON (g.capture_set_id) g.id'), 'g.capture_set_id', 'c.label as capture_label', 'g.revision_id', 'r.label as revision_label', 'c.variant', 'g.created_at', 'g.uncertainty', ...METRIC_COLUMNS)
     .from('readings as g')
     .join('capture_sets as c', 'c.id', 'g.capture_set_id')
     .join('revisions as r', 'r.id', 'g.revision_id')
     .where({ 'g.lab_id': labId, 'g.project_id': projectId })
     .orderBy([{ column: 'g.capture_set_id' }, { column: 'g.created_at', order: 'desc' }, { column: 'g.id', order: 'desc' }]);
   const [rows, count] = await Promise.all([
-    db.select('*').from(newest.as('n')).orderBy([{ column: 'created_at', order: 'desc' }, { column: 'id', order: 'desc' }]).limit(page.limit).offset(page.offset) as Promise<(Row & { revision_label: string })[]>,
+    db.select('*').from(newest.as('n')).orderBy([{ column: 'created_at', order: 'desc' }, { column: 'id', order: 'desc' }]).limit(page.limit).offset(page.offset) as Promise<(Row & { revision_label: string; uncertainty: Partial<Record<UncertainMetric, number>> | null })[]>,
     db('readings').where({ lab_id: labId, project_id: projectId }).countDistinct<{ n: string }[]>('capture_set_id as n').first(),
   ]);
-  return { readings: rows.map((r) => ({ ...toSetReading(r), revisionLabel: r.revision_label })), total: Number(count?.n ?? 0) };
+  return { readings: rows.map((r) => ({ ...toSetReading(r), revisionLabel: r.revision_label, uncertainty: r.uncertainty ?? {} })), total: Number(count?.n ?? 0) };
 }
 
 export async function listRevisionRefs(labId: string, projectId: string): Promise<RevisionRef[]> {

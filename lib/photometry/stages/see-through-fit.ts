@@ -11,7 +11,7 @@ export const FIT_BLOCK = 8;
 /** About this many blocks are sampled over the fit region, however large the photo. */
 export const FIT_TARGET_BLOCKS = 3000;
 /** Fewer usable blocks than this and no line is fitted. */
-export const FIT_MIN_BLOCKS = 60;
+export const FIT_MIN_BLOCKS = 40;
 /**
  * The room's luminance over the fit region must span at least this ratio (95th over 5th percentile
  * of the block means) to tell the slope from the intercept. The veil is read at zero luminance, an
@@ -139,8 +139,11 @@ const overlaps = (a: Rect, b: Rect): boolean => a.x < b.x + b.w && b.x < a.x + a
 
 /** Block positions (top-left, on-photo pixels) over the fit region, about FIT_TARGET_BLOCKS of them on an even grid. */
 export function fitBlocks(region: Rect, exclude: readonly Rect[], B: number): { x: number; y: number }[] {
-  // at least a block apart, so no two blocks share a JPEG coding unit and their noise is independent
-  const step = Math.max(2 * B, Math.floor(Math.sqrt((region.w * region.h) / FIT_TARGET_BLOCKS)));
+  // at least a block apart, so no two blocks share a JPEG coding unit and their noise is independent;
+  // a region too small for FIT_MIN_BLOCKS that way is tiled (its neighbours' noise then correlates a little)
+  const across = (step: number): number => (Math.floor((region.w - B) / step) + 1) * (Math.floor((region.h - B) / step) + 1);
+  const sparse = Math.max(2 * B, Math.floor(Math.sqrt((region.w * region.h) / FIT_TARGET_BLOCKS)));
+  const step = across(sparse) >= 2 * FIT_MIN_BLOCKS ? sparse : B;
   const out: { x: number; y: number }[] = [];
   // the grid is centred in the region, so a small background keeps its blocks away from its edges alike
   const x0 = region.x + Math.floor(((region.w - B) % step) / 2);

@@ -3,6 +3,7 @@
 // unannounced, and the OpenAPI document (lib/server/api-v1/openapi.ts) is generated from the same
 // schemas. Request bodies use the entity schemas of lib/schemas.
 import { z } from 'zod';
+import { UNCERTAIN_METRICS } from '../../photometry/result';
 import { METRIC_KEYS } from '../../targets/metrics';
 import { CAPTURE_PATTERNS, TIFF_ENCODINGS } from '../../schemas/capture-set';
 import { REGION_KINDS, REGION_SOURCES } from '../../schemas/region';
@@ -103,6 +104,9 @@ export const analysisAnswerItem = z.object({
   finishedAt: when.nullable(),
 });
 
+const uncertaintyValues = z
+  .object(Object.fromEntries(UNCERTAIN_METRICS.map((k) => [k, z.number().optional()])) as Record<(typeof UNCERTAIN_METRICS)[number], z.ZodOptional<z.ZodNumber>>)
+  .describe('Standard uncertainty (k = 1) of each figure that has one, on the figure’s own scale (docs/method.md §5.8); readings before engine 1.2.0 have none');
 const metricValues = z.object(Object.fromEntries(METRIC_KEYS.map((k) => [k, nullableNumber])) as Record<(typeof METRIC_KEYS)[number], typeof nullableNumber>);
 
 export const projectsAnswer = z.object({
@@ -143,6 +147,13 @@ export const analysisAnswer = z.object({
           ambientContrastRatio: nullableNumber.optional(),
           michelson: nullableNumber.optional(),
           transmission: nullableNumber.optional(),
+          transmissionOptics: nullableNumber.optional().describe('The optics’ own transmission: the slope of off against ambient (engine 1.2.0 on)'),
+          veil: z
+            .looseObject({ relative: z.number(), cdm2: nullableNumber, rangeRatio: z.number(), source: z.enum(['background', 'outside-screen']) })
+            .nullable()
+            .optional()
+            .describe('The light the optics add: the intercept of off against ambient, over the mean ambient luminance, and in cd/m² when calibrated (engine 1.2.0 on)'),
+          uncertainty: uncertaintyValues.optional(),
           warnings: z.array(z.looseObject({ code: z.string(), message: z.string() })).optional(),
         })
         .describe('The engine’s full reading (docs/method.md §5); further fields may be added'),
@@ -162,6 +173,7 @@ export const readingsAnswer = z.object({
       variant: z.string(),
       createdAt: when,
       values: metricValues,
+      uncertainty: uncertaintyValues,
     }),
   ),
   total: z.number().int().describe('Capture sets with a reading'),

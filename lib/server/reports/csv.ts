@@ -31,7 +31,7 @@ const COLUMNS: Col[] = [
   { header: METRIC_FORMATS.displayDuv.csvHeader, get: (r) => r.displayDuv },
   { header: METRIC_FORMATS.colourUniformityDuv.csvHeader, get: (r) => r.colourUniformityDuv },
   // the standard uncertainty (k = 1) of each figure that has one, on the figure's own scale
-  ...UNCERTAIN_METRICS.map((k) => ({ header: `u_${METRICS[k].column} (standard uncertainty, as stored)`, get: (r: ExportRow) => r.uncertainty[k] ?? null })),
+  ...UNCERTAIN_METRICS.map((k) => ({ header: `u_${METRICS[k].column} (standard uncertainty k = 1; stored scale)`, get: (r: ExportRow) => r.uncertainty[k] ?? null })),
   { header: 'luminance_on (relative, on-photo scale)', get: (r) => r.luminanceOn },
   { header: 'luminance_off (relative, on-photo scale)', get: (r) => r.luminanceOff },
   { header: 'luminance_ambient (relative, on-photo scale)', get: (r) => r.luminanceAmbient },
