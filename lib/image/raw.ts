@@ -234,15 +234,19 @@ const line = (text: string, re: RegExp): string | undefined => re.exec(text)?.[1
 export function parseIdentify(kind: RawKind, verbose: string, sizes: string): RawInfo | null {
   const fields = sizes.trim().split('\n')[0]?.split('\t') ?? [];
   const [, make = '', model = ''] = fields;
-  // the decoder's output size before rotation ("Output size", else "Image size"), turned when the
-  // camera's orientation is a quarter turn (flip 5 or 6, bit 4 set)
-  const size = /^Output size:\s*(\d+)\s*x\s*(\d+)/m.exec(verbose) ?? /^Image size:\s*(\d+)\s*x\s*(\d+)/m.exec(verbose);
-  if (!size) return null;
+  // the decoder's output size, turned when the camera's orientation is a quarter turn (flip 5 or 6,
+  // bit 4 set); some libraw versions print "Output size" already turned, others not: compared with
+  // the sensor's "Image size", a long side running the other way says it is turned already
+  const img = /^Image size:\s*(\d+)\s*x\s*(\d+)/m.exec(verbose);
+  const out = /^Output size:\s*(\d+)\s*x\s*(\d+)/m.exec(verbose) ?? img;
+  if (!out) return null;
   const flipText = line(verbose, /^Image flip:\s*(\d+)/m);
   const flip = flipText === undefined ? 0 : Number(flipText);
-  const quarter = (flip & 4) !== 0;
-  const width = Number(quarter ? size[2] : size[1]);
-  const height = Number(quarter ? size[1] : size[2]);
+  const [ow, oh] = [Number(out[1]), Number(out[2])];
+  const turned = img !== null && ow !== oh && ow > oh !== Number(img[1]) > Number(img[2]);
+  const quarter = (flip & 4) !== 0 && !turned;
+  const width = quarter ? oh : ow;
+  const height = quarter ? ow : oh;
   if (!(width > 0 && height > 0)) return null;
   const exposure: ExposureTags = {};
   const iso = Number(line(verbose, /^ISO speed:\s*([\d.]+)/m));

@@ -138,6 +138,8 @@ describe('parseIdentify and parsePpm', () => {
     // a camera held in portrait: libraw turns the output a quarter turn
     expect(parseIdentify('nef', listing('Image flip: 6'), '')).toMatchObject({ width: 4000, height: 6000 });
     expect(parseIdentify('nef', listing('Image flip: 3'), '')).toMatchObject({ width: 6000, height: 4000 });
+    // a libraw that prints the output size already turned
+    expect(parseIdentify('nef', listing('Image flip: 6').replace('Output size: 6000 x 4000', 'Output size: 4000 x 6000'), '')).toMatchObject({ width: 4000, height: 6000 });
   });
 
   it('long exposures, missing tags and missing colour data', () => {
@@ -200,6 +202,14 @@ describe('decoding a DNG with the libraw tools', () => {
     for (const [x, want] of [[10, 58982], [50, 19661]] as const) {
       for (const v of at(d.raster, x, 20)) expect(Math.abs(v / want - 1), `x ${x}`).toBeLessThan(0.003);
     }
+  });
+
+  it('a camera held in portrait: the size from the header is the decoded size, turned a quarter turn', async () => {
+    const dng = encodeDng(patches(64, 48), { orientation: 6 });
+    const info = await identifyRaw(dng, 'portrait.dng', 'dng');
+    const d = await decodeRaw(dng, { name: 'portrait.dng', kind: 'dng' });
+    expect([info.width, info.height]).toEqual([48, 64]);
+    expect([d.raster.width, d.raster.height]).toEqual([48, 64]);
   });
 
   it('a fixed white balance given for the set is the one used', async () => {
