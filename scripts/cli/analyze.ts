@@ -62,6 +62,9 @@ function table(r: CaptureResult): string {
     ['uniformity (min/max)', fmt(r.uniformity, 3)],
     ['ghost ratio', r.ghost ? `${(100 * r.ghost.ratio).toFixed(2)}% at ${r.ghost.dx},${r.ghost.dy} px (${r.ghost.source})` : 'none found'],
     ['transmission', r.transmission === null ? '—' : `${(100 * r.transmission).toFixed(1)}%`],
+    // engine 1.2.0: the slope and intercept of off against ambient (docs/method.md §5.8), ± their standard uncertainty
+    ['transmission of the optics', typeof r.transmissionOptics === 'number' ? `${(100 * r.transmissionOptics).toFixed(2)}% ± ${(100 * (r.uncertainty?.transmissionOptics ?? 0)).toFixed(2)}` : '—'],
+    ['veil', r.veil ? `${(100 * r.veil.relative).toFixed(2)}% ± ${(100 * (r.uncertainty?.veil ?? 0)).toFixed(2)} of the room's luminance${r.veil.cdm2 === null ? '' : `, ${fmt(r.veil.cdm2, 2)} cd/m²`} (${r.veil.source})` : '—'],
     ['tint Δx, Δy / ΔE00', r.tint ? `${fmt(r.tint.dx, 4)}, ${fmt(r.tint.dy, 4)} / ${fmt(r.tint.deltaE00, 2)}` : '—'],
     ['clipped', `${(100 * r.clippedFraction).toFixed(3)}%`],
   ];

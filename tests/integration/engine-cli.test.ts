@@ -45,10 +45,14 @@ describe('analyze CLI', () => {
     const lines = r.stdout.trim().split('\n');
     expect(lines).toHaveLength(1);
     const j = JSON.parse(lines[0] as string) as Record<string, unknown>;
-    for (const k of ['engineVersion', 'image', 'pattern', 'registration', 'screen', 'luminance', 'ambientContrastRatio', 'michelson', 'ansiContrast', 'uniformity', 'ghost', 'transmission', 'tint', 'clippedFraction', 'warnings']) {
+    for (const k of ['engineVersion', 'image', 'pattern', 'registration', 'screen', 'luminance', 'ambientContrastRatio', 'michelson', 'ansiContrast', 'uniformity', 'ghost', 'transmission', 'tint', 'clippedFraction', 'warnings', 'transmissionOptics', 'veil', 'uncertainty']) {
       expect(j).toHaveProperty(k);
     }
-    expect(j.engineVersion).toBe('1.1.0');
+    expect(j.engineVersion).toBe('1.2.0');
+    // the contract's uncertainty: a standard uncertainty per metric given, on the metric's own scale
+    const u = j.uncertainty as Record<string, number>;
+    expect(u.ambientContrastRatio).toBeGreaterThan(0);
+    expect(u.transmission).toBeGreaterThan(0);
   });
 
   it('prints a readable table without --json', () => {

@@ -30,7 +30,7 @@ describe('the engine recovers the truth of generated full-field captures', () =>
   it('renders and analyses', async () => {
     c = await renderCapture(scene);
     r = await run(c);
-    expect(r.engineVersion).toBe('1.1.0');
+    expect(r.engineVersion).toBe('1.2.0');
   });
 
   it('registers the shifted photos within 1 px and warns `shifted`', () => {
