@@ -4,6 +4,7 @@
  * level, and how much a region's mean moves when the photo it is read from is off by half a pixel.
  * Propagation to ratios follows JCGM 100:2008 (GUM) §5.1.2 for uncorrelated inputs.
  */
+import { percentile } from './percentile';
 import { luminanceTables } from './raster';
 import type { Offset, Plane, PhotoRaster, Rect } from './types';
 
@@ -49,20 +50,21 @@ export function blockScatter(plane: Plane, region: Rect, factor: number, offset:
       means[by * nx + bx] = s / (k * k);
     }
   }
-  const diffs: number[] = [];
+  const diffs = new Float64Array(Math.max(0, ny * (nx - 2)) + Math.max(0, (ny - 2) * nx));
+  let d = 0;
   for (let by = 0; by < ny; by++) {
     for (let bx = 1; bx + 1 < nx; bx++) {
       const p = by * nx + bx;
-      diffs.push((means[p] as number) - 0.5 * ((means[p - 1] as number) + (means[p + 1] as number)));
+      diffs[d++] = (means[p] as number) - 0.5 * ((means[p - 1] as number) + (means[p + 1] as number));
     }
   }
   for (let by = 1; by + 1 < ny; by++) {
     for (let bx = 0; bx < nx; bx++) {
       const p = by * nx + bx;
-      diffs.push((means[p] as number) - 0.5 * ((means[p - nx] as number) + (means[p + nx] as number)));
+      diffs[d++] = (means[p] as number) - 0.5 * ((means[p - nx] as number) + (means[p + nx] as number));
     }
   }
-  if (diffs.length < 10) return { sigma: Number.NaN, block };
+  if (d < 10) return { sigma: Number.NaN, block };
   return { sigma: clippedSigma(diffs) / Math.sqrt(1.5), block };
 }
 
@@ -89,9 +91,8 @@ export function clippedSigma(values: ArrayLike<number>): number {
 }
 
 function robustSigmaAboutZero(values: ArrayLike<number>): number {
-  const abs = Float64Array.from(values, Math.abs).sort();
-  if (abs.length === 0) return Number.NaN;
-  return 1.4826 * (abs[Math.floor((abs.length - 1) / 2)] as number);
+  const abs = Float64Array.from(values, Math.abs);
+  return abs.length === 0 ? Number.NaN : 1.4826 * percentile(abs, 50);
 }
 
 /**

@@ -1,5 +1,6 @@
 import { LUMINANCE_WEIGHTS } from '../luminance';
 import { offsetAt, type Motion } from '../motion';
+import { percentile } from '../percentile';
 import { luminanceTables } from '../raster';
 import type { EngineWarning, VeilResult } from '../result';
 import { robustLine, type LineFit } from '../robust-line';
@@ -158,15 +159,6 @@ export function fitBlocks(region: Rect, exclude: readonly Rect[], B: number): { 
   return out;
 }
 
-function percentileOf(values: Float64Array, p: number): number {
-  const s = Float64Array.from(values).sort();
-  if (s.length === 0) return Number.NaN;
-  const pos = (p / 100) * (s.length - 1);
-  const lo = Math.floor(pos);
-  const hi = Math.min(s.length - 1, lo + 1);
-  return (s[lo] as number) + ((s[hi] as number) - (s[lo] as number)) * (pos - lo);
-}
-
 /**
  * The see-through view is off = T·ambient + veil (docs/method.md §5.8). Over the background region,
  * or the frame outside the screen, its edge zone and the ghost when none is marked, the off photo's
@@ -274,8 +266,8 @@ export function seeThroughFit(
   // noise per unit level from the scatter about the line: residual variance σ² = ν(off + T²·ambient)/B² per block
   const levelSum = meanOff + fit.slope * fit.slope * meanAmb;
   const noise = levelSum > 0 && fit.scale > 0 ? { perLevel: (fit.scale * fit.scale * B * B) / levelSum } : null;
-  const p5 = percentileOf(x, 5);
-  const p95 = percentileOf(x, 95);
+  const p5 = percentile(x, 5);
+  const p95 = percentile(x, 95);
   const rangeRatio = p5 > 0 ? p95 / p5 : p95 > 0 ? Number.POSITIVE_INFINITY : Number.NaN;
   if (!(rangeRatio >= MIN_RANGE_RATIO) || !(meanAmb > 0)) {
     const where = source === 'background' ? 'the background region' : 'the room around the display';
