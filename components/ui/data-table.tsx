@@ -50,12 +50,13 @@ export function DataTable({ columns, rows, csvName, empty, testId }: { columns: 
       {/* a table wider than its panel scrolls inside it, never the page */}
       <div className="overflow-x-auto rounded-md border border-line" data-table-scroll>
         <table className="w-full text-sm" data-testid={testId}>
-          <thead className="bg-raised text-left text-xs uppercase tracking-wider text-muted">
+          {/* headings in their own case: uppercase turns η into a capital eta that reads as H, and widens every column */}
+          <thead className="bg-raised text-left text-xs text-muted">
             <tr>
               {columns.map((c) => {
                 const active = sortKey === c.key;
                 return (
-                  <th key={c.key} scope="col" className={clsx('px-2 py-2 align-bottom font-medium first:pl-3 last:pr-3', c.numeric && 'text-right')} aria-sort={ariaSortOf(active, desc)}>
+                  <th key={c.key} scope="col" className={clsx('px-1.5 py-2 align-bottom font-medium first:pl-3 last:pr-3', c.numeric && 'text-right')} aria-sort={ariaSortOf(active, desc)}>
                     <SortButton
                       label={c.label}
                       active={active}
@@ -80,7 +81,7 @@ export function DataTable({ columns, rows, csvName, empty, testId }: { columns: 
                   const cell = r.cells[c.key];
                   const text = cell?.node ?? (c.numeric ? <NumericText text={cell?.text ?? ''} /> : (cell?.text ?? ''));
                   return (
-                    <td key={c.key} className={clsx('px-2 py-2 align-top first:pl-3 last:pr-3', c.numeric ? 'text-right font-mono tabular-nums' : 'min-w-[5rem] break-words')}>
+                    <td key={c.key} className={clsx('px-1.5 py-2 align-top first:pl-3 last:pr-3', c.numeric ? 'text-right font-mono tabular-nums' : 'min-w-[5rem] break-words')}>
                       {i === 0 && r.href ? (
                         <Link href={r.href} className="font-medium text-ink hover:text-beam">
                           {text}
