@@ -167,3 +167,24 @@ test('a new lab’s first visit: a guide to the capture flow with the first acti
     await expect(page).toHaveTitle('Not found — Veilmeter');
   }
 });
+
+test('the capture set’s edit form offers the revision’s variants, and the page links its PDF report', async ({ page }) => {
+  await signIn(page, 'lead@example.test');
+  const p = await demoPages(page);
+  await page.goto(p.capture);
+  await page.getByText('Edit label, variant, pattern and conditions').click();
+  const form = page.getByRole('form', { name: 'Edit capture set' });
+  const list = await form.getByLabel('Variant (for A/B)').getAttribute('list');
+  expect(list).toBeTruthy();
+  const options = await page.locator(`datalist[id="${list}"] option`).evaluateAll((os) => os.map((o) => (o as HTMLOptionElement).value));
+  expect(options).toEqual(['with polarizer', 'without polarizer']);
+  await expect(form).toContainText('In this revision: with polarizer, without polarizer');
+  const href = await page.getByRole('link', { name: 'PDF report' }).getAttribute('href');
+  expect(href).toBe(`/api${p.capture}/report.pdf`);
+  const res = await page.request.get(href!);
+  expect(res.status()).toBe(200);
+  expect(res.headers()['content-type']).toBe('application/pdf');
+  const body = await res.body();
+  expect(body.subarray(0, 5).toString()).toBe('%PDF-');
+  expect(body.toString('latin1')).toMatch(/\/BaseFont \/[A-Z]{6}\+DejaVuSans/);
+});
