@@ -44,12 +44,23 @@ async function decodeOnly(): Promise<void> {
   await Promise.all(bytes.map((b) => decodeRawOnly(b)));
 }
 
+// what the engine 1.2.0 steps cost inside each analysis, read from its progress reports: the see-through
+// fit (off against ambient, with its four half-pixel refits) and the uncertainty of every figure
+const STEPS = { fit: ['see-through fit', 'uncertainty'], uncertainty: ['uncertainty', 'sharpness, geometry, colour'] } as const;
+type StepTimes = Record<keyof typeof STEPS, number>;
+let lastSteps: StepTimes = { fit: Number.NaN, uncertainty: Number.NaN };
+
 async function analysis(): Promise<void> {
+  const at = new Map<string, number>();
   const { artifacts } = await analyzeFiles({
     on: { name: 'on.jpg', bytes: bytes[0] as Buffer },
     off: { name: 'off.jpg', bytes: bytes[1] as Buffer },
     ambient: { name: 'ambient.jpg', bytes: bytes[2] as Buffer },
+    // the last report of a stage wins: the full set's analysis runs after the on/off part
+    onProgress: (stage) => at.set(stage, performance.now()),
   });
+  const span = ([a, b]: readonly [string, string]): number => ((at.get(b) ?? Number.NaN) - (at.get(a) ?? Number.NaN));
+  lastSteps = { fit: span(STEPS.fit), uncertainty: span(STEPS.uncertainty) };
   if (artifacts) await writeArtifacts(outDir, artifacts);
 }
 
@@ -66,9 +77,11 @@ for (let i = 1; i < WARMUP; i++) {
 }
 const decodeRuns: Run[] = [];
 const analysisRuns: Run[] = [];
+const stepRuns: StepTimes[] = [];
 for (let i = 0; i < RUNS; i++) {
   decodeRuns.push(await timed(decodeOnly));
   analysisRuns.push(await timed(analysis));
+  stepRuns.push(lastSteps);
 }
 const decodes = decodeRuns.map((r) => r.wall);
 const analyses = analysisRuns.map((r) => r.wall);
@@ -80,9 +93,12 @@ const peakRssMb = Math.round(process.resourceUsage().maxRSS / 1024);
 const decodeCpuMs = Math.round(median(decodeRuns.map((r) => r.cpu)));
 const analysisCpuMs = Math.round(median(analysisRuns.map((r) => r.cpu)));
 const coldAnalysisMs = Math.round(cold.wall);
+const step = (k: keyof StepTimes): number => Math.round(median(stepRuns.map((r) => r[k])) * 10) / 10;
+const fitMs = step('fit');
+const uncertaintyMs = step('uncertainty');
 // what the optics readings cost on their own (after the peak RSS is read, so their photos do not count in it)
 const optics = await opticsCosts(bytes[0] as Buffer, bytes[1] as Buffer);
-const figures = { decodeMs, analysisMs, ratio, peakRssMb, decodeCpuMs, analysisCpuMs, coldAnalysisMs, optics };
+const figures = { decodeMs, analysisMs, ratio, peakRssMb, decodeCpuMs, analysisCpuMs, coldAnalysisMs, fitMs, uncertaintyMs, optics };
 
 const machine = `${cpus().length} × ${cpus()[0]?.model.trim() ?? 'cpu'}, ${Math.round(totalmem() / 2 ** 30)} GB, Node ${process.version}, load average ${loadavg()[0]?.toFixed(1)} at the end (other work on the machine slows both figures)`;
 const md = `# Engine benchmark
@@ -99,6 +115,8 @@ Run on ${new Date().toISOString().slice(0, 10)}, ${machine}. Reproduce with \`np
 | CPU time of the decode only (all threads) | ${decodeCpuMs} ms | |
 | CPU time of the full analysis (all threads) | ${analysisCpuMs} ms | |
 | first analysis of the process (cold, before the warm-up) | ${coldAnalysisMs} ms | |
+| of the analysis: see-through fit (transmission of the optics, veil; four half-pixel refits) | ${fitMs} ms | |
+| of the analysis: standard uncertainty of every figure | ${uncertaintyMs} ms | |
 | of the analysis: display colour (every capture; 3 × 3 cells of on and off, sampled rows) | ${optics.colourMs} ms | |
 | of the analysis: field of view (every capture with a profile or EXIF focal length) | ${optics.geometryMs} ms | |
 | slanted-edge sharpness (slanted-edge captures only; four edges, MTF50 ${optics.sharpnessMtf50?.toFixed(3) ?? '—'} cycles/pixel) | ${optics.sharpnessMs} ms | |
@@ -109,4 +127,4 @@ const previous = existsSync(resultsPath) ? readFileSync(resultsPath, 'utf8') : '
 const notesAt = previous.indexOf('\n## Notes');
 await writeFile(resultsPath, notesAt >= 0 ? md + previous.slice(notesAt) : md);
 if (process.argv.includes('--json')) process.stdout.write(`${JSON.stringify(figures)}\n`);
-else process.stdout.write(`decode ${decodeMs} ms · analysis ${analysisMs} ms · ratio ${ratio} · peak RSS ${peakRssMb} MB · CPU time: decode ${decodeCpuMs} ms, analysis ${analysisCpuMs} ms · first (cold) analysis ${coldAnalysisMs} ms\noptics readings: display colour ${optics.colourMs} ms · field of view ${optics.geometryMs} ms · slanted-edge sharpness ${optics.sharpnessMs} ms (slanted-edge captures only)\nall runs: decode ${decodes.map(Math.round).join(', ')}; analysis ${analyses.map(Math.round).join(', ')}\n`);
+else process.stdout.write(`decode ${decodeMs} ms · analysis ${analysisMs} ms · ratio ${ratio} · peak RSS ${peakRssMb} MB · CPU time: decode ${decodeCpuMs} ms, analysis ${analysisCpuMs} ms · first (cold) analysis ${coldAnalysisMs} ms · of it: see-through fit ${fitMs} ms, uncertainty ${uncertaintyMs} ms\noptics readings: display colour ${optics.colourMs} ms · field of view ${optics.geometryMs} ms · slanted-edge sharpness ${optics.sharpnessMs} ms (slanted-edge captures only)\nall runs: decode ${decodes.map(Math.round).join(', ')}; analysis ${analyses.map(Math.round).join(', ')}\n`);
