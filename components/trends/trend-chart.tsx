@@ -3,14 +3,14 @@
 import { useRouter } from 'next/navigation';
 import { useMemo, useState } from 'react';
 import { Area, CartesianGrid, ComposedChart, ErrorBar, Line, ReferenceLine, ResponsiveContainer, Scatter, Tooltip, XAxis, YAxis } from 'recharts';
-import { formatLimit, formatMetricMeanCi, formatMetricValue, formatTick, metricHeading } from '@/lib/format';
+import { formatLimit, formatMetricMeanCi, formatMetricWithU, formatTick, metricHeading } from '@/lib/format';
 import { comparatorWords, type Target } from '@/lib/targets/evaluate';
 import { METRIC_LIST, type MetricKey } from '@/lib/targets/metrics';
 import { trendByVariant, variantColour, variantLabel, type GroupStats, type Trend } from '@/lib/targets/series';
 
 type SeriesCell = { mean: number | null; band: [number, number] | null; ci: [number, number] | null; stats: GroupStats };
 type MeanRow = { x: number; id: string; label: string; series: SeriesCell[] } & Record<string, unknown>;
-type PointRow = { x: number; y: number; capture: string; variant: string; revision: string; colour: string };
+type PointRow = { x: number; y: number; u?: number; capture: string; variant: string; revision: string; colour: string };
 
 // Spreads a revision's captures a little sideways so equal values do not hide each other.
 function jitter(i: number, n: number): number {
@@ -60,7 +60,7 @@ function TrendTooltip({ active, payload, metric, variants, colours }: { active?:
           {row.revision}
           {row.variant ? ` · ${row.variant}` : ''}
         </p>
-        <p className="font-mono">{formatMetricValue(metric, row.y)}</p>
+        <p className="font-mono">{formatMetricWithU(metric, row.y, row.u)}</p>
       </div>
     );
   }
@@ -112,7 +112,7 @@ export function TrendChart({ projectId, trends, targets, initialMetric }: { proj
       return row;
     });
     const points: PointRow[] = trend.revisions.flatMap((r, i) =>
-      r.points.map((p, k) => ({ x: i + jitter(k, r.points.length), y: p.value, capture: p.label, variant: p.variant, revision: r.label, colour: colours[Math.max(0, variants.indexOf(p.variant))] ?? colours[0]! })),
+      r.points.map((p, k) => ({ x: i + jitter(k, r.points.length), y: p.value, u: p.u, capture: p.label, variant: p.variant, revision: r.label, colour: colours[Math.max(0, variants.indexOf(p.variant))] ?? colours[0]! })),
     );
     const ys = [...points.map((p) => p.y), ...means.flatMap((m) => m.series.flatMap((c) => (c.band ? c.band : []))), ...metricTargets.map((t) => t.value)];
     let lo = ys.length ? Math.min(...ys) : 0;

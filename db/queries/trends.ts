@@ -5,7 +5,7 @@ import { buildTrends, type RevisionRef, type SetReading, type Trend } from '../.
 
 const METRIC_COLUMNS = METRIC_LIST.map((m) => `g.${m.column}`);
 
-type Row = { id: string; capture_set_id: string; capture_label: string; revision_id: string; variant: string; created_at: Date; pattern?: string; conditions?: { ambientLux?: unknown; backgroundCdm2?: unknown } | null; background_cdm2?: unknown } & Record<string, unknown>;
+type Row = { id: string; capture_set_id: string; capture_label: string; revision_id: string; variant: string; created_at: Date; pattern?: string; uncertainty?: Partial<Record<string, number>> | null; conditions?: { ambientLux?: unknown; backgroundCdm2?: unknown } | null; background_cdm2?: unknown } & Record<string, unknown>;
 
 const num = (v: unknown): number | null => (typeof v === 'number' && Number.isFinite(v) ? v : null);
 
@@ -13,6 +13,7 @@ export function toSetReading(r: Row): SetReading {
   const values = {} as Record<MetricKey, number | null>;
   for (const m of METRIC_LIST) values[m.key] = num(r[m.column]);
   const out: SetReading = { readingId: r.id, captureSetId: r.capture_set_id, captureLabel: r.capture_label, revisionId: r.revision_id, variant: r.variant, createdAt: r.created_at, values };
+  if (r.uncertainty && Object.keys(r.uncertainty).length > 0) out.uncertainty = r.uncertainty;
   if (r.pattern !== undefined) {
     out.conditions = {
       pattern: r.pattern === 'checkerboard' ? 'checkerboard' : 'full',
@@ -32,7 +33,7 @@ export function toSetReading(r: Row): SetReading {
 export async function listNewestReadings(labId: string, filter: { projectId?: string; revisionId?: string; variant?: string | null }): Promise<SetReading[]> {
   const db = getDb();
   const q = db
-    .select(db.raw('DISTINCT ON (g.capture_set_id) g.id'), 'g.capture_set_id', 'c.label as capture_label', 'g.revision_id', 'c.variant', 'c.pattern', 'c.conditions', 'g.background_cdm2', 'g.created_at', ...METRIC_COLUMNS)
+    .select(db.raw('DISTINCT ON (g.capture_set_id) g.id'), 'g.capture_set_id', 'c.label as capture_label', 'g.revision_id', 'c.variant', 'c.pattern', 'c.conditions', 'g.background_cdm2', 'g.created_at', 'g.uncertainty', ...METRIC_COLUMNS)
     .from('readings as g')
     .join('capture_sets as c', 'c.id', 'g.capture_set_id')
     .where('g.lab_id', labId);

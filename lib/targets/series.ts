@@ -12,6 +12,8 @@ export type SetReading = {
   variant: string;
   createdAt: Date;
   values: Record<MetricKey, number | null>;
+  /** Standard uncertainty of each value that has one (readings of engine 1.2.0 on). */
+  uncertainty?: Partial<Record<string, number>>;
   /** What the capture set states about its shot (targets judge only the sets that meet their condition). */
   conditions?: StatedConditions;
 };
@@ -28,7 +30,7 @@ export type GroupStats = {
   halfWidth: number | null;
 };
 
-export type TrendPoint = { captureSetId: string; label: string; variant: string; value: number };
+export type TrendPoint = { captureSetId: string; label: string; variant: string; value: number; /** its standard uncertainty, when the reading has one */ u?: number };
 
 export type TrendRevision = RevisionRef & { stats: GroupStats; points: TrendPoint[] };
 
@@ -68,7 +70,10 @@ export function buildTrends(revisions: readonly RevisionRef[], readings: readonl
         const points: TrendPoint[] = [];
         for (const r of rs) {
           const v = r.values[metric];
-          if (v !== null && Number.isFinite(v)) points.push({ captureSetId: r.captureSetId, label: r.captureLabel, variant: r.variant, value: v });
+          if (v !== null && Number.isFinite(v)) {
+            const u = r.uncertainty?.[metric];
+            points.push(typeof u === 'number' && Number.isFinite(u) ? { captureSetId: r.captureSetId, label: r.captureLabel, variant: r.variant, value: v, u } : { captureSetId: r.captureSetId, label: r.captureLabel, variant: r.variant, value: v });
+          }
         }
         return { id: rev.id, label: rev.label, position: rev.position, stats: groupStats(points.map((p) => p.value)), points };
       }),

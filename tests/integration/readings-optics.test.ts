@@ -128,6 +128,8 @@ describe('readings of the optics and their uncertainty', () => {
     // trends and the rig API's readings page
     const trend = await m.trends.getProjectTrend(lab.labId, lab.projectId);
     expect(trend?.trends.transmissionOptics.revisions[0]?.points[0]?.value).toBe(row.transmission_optics);
+    // each trend point carries its reading's uncertainty, for the ± beside it
+    expect(trend?.trends.transmissionOptics.revisions[0]?.points[0]?.u).toBe(row.uncertainty.transmissionOptics);
     const page = await m.trends.listNewestReadingsPage(lab.labId, lab.projectId, { limit: 10, offset: 0 });
     expect(page.readings[0]?.values.veil).toBe(row.veil);
     expect(page.readings[0]?.uncertainty.veil).toBe(row.uncertainty.veil);
