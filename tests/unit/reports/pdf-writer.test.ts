@@ -143,6 +143,17 @@ describe('pictures', () => {
     const meta = await sharp(fig.png).metadata();
     expect(meta.format).toBe('png');
     expect(meta.isPalette).toBe(true);
+    // the palette image-q chose is what the PNG holds (no second quantisation), and it keeps the picture:
+    // mean error against the same resize without a palette within 4 of 255 levels per channel
+    const decoded = await sharp(fig.png).removeAlpha().raw().toBuffer({ resolveWithObject: true });
+    const unique = new Set<number>();
+    for (let i = 0; i < decoded.data.length; i += 3) unique.add((decoded.data[i]! << 16) | (decoded.data[i + 1]! << 8) | decoded.data[i + 2]!);
+    expect(unique.size).toBeLessThanOrEqual(fig.colours);
+    expect(fig.colours).toBeLessThanOrEqual(48);
+    const plain = await sharp(jpeg).resize({ width: 640, height: 640, fit: 'inside' }).removeAlpha().raw().toBuffer();
+    let err = 0;
+    for (let i = 0; i < plain.length; i++) err += Math.abs(plain[i]! - decoded.data[i]!);
+    expect(err / plain.length).toBeLessThan(4);
     const w = new ReportWriter('pictures', { compress: true });
     w.figures([
       { ...fig, caption: 'On photo', regions: [{ kind: 'screen', x: 0.3, y: 0.3, w: 0.4, h: 0.3 }, { kind: 'background', x: 0.05, y: 0.05, w: 0.2, h: 0.15 }, { kind: 'ghost', x: 0.32, y: 0.28, w: 0.4, h: 0.3 }] },
