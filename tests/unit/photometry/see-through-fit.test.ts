@@ -4,6 +4,7 @@ import { robustLine } from '../../../lib/photometry/robust-line';
 import { fitBlocks, MIN_RANGE_RATIO } from '../../../lib/photometry/stages/see-through-fit';
 import { blockScatter, clippedSigma, michelsonU, quantisationVariance, ratioU, registrationU } from '../../../lib/photometry/uncertainty';
 import { ISO800, renderRealisticScene, type RealisticSceneOptions } from '../../fixtures/realistic-scene';
+import { renderCapture } from '../../fixtures/capture-generator';
 import { seededRandom } from '../../fixtures/seeded-random';
 
 function normal(rand: () => number): () => number {
@@ -180,5 +181,26 @@ describe('optics-only transmission and veil', () => {
     expect(w?.message).toMatch(/dark and bright objects/);
     // the ratio is still given
     expect(result.transmission).not.toBeNull();
+  }, 60_000);
+});
+
+describe('uncertainty of the other patterns and variants', () => {
+  it('gives the checkerboard contrast and a dark photo\'s uniformity a standard uncertainty', async () => {
+    const board = await renderCapture({ width: 480, height: 360, seed: 5, pattern: 'checkerboard', noise: 0.004 });
+    const ph = (c: typeof board, r: 'on' | 'off' | 'ambient') => ({ name: `${r}.jpg`, bytes: c[r] });
+    const a = (await analyzeFiles({ on: ph(board, 'on'), off: ph(board, 'off'), ambient: ph(board, 'ambient'), pattern: 'checkerboard', screen: board.truth.screen, artifacts: false })).result;
+    const uA = a.uncertainty?.ansiContrast as number;
+    expect(uA).toBeGreaterThan(0);
+    expect(uA).toBeLessThan(0.05 * (a.ansiContrast as number));
+    expect(a.uncertainty?.michelson).toBeGreaterThan(0);
+    // the checkerboard has no 3 × 3 uniformity
+    expect(a.uncertainty?.uniformity).toBeUndefined();
+
+    const dark = await renderCapture({ width: 480, height: 360, seed: 6, withDark: true, noise: 0.004 });
+    const d = (await analyzeFiles({ on: ph(dark, 'on'), off: ph(dark, 'off'), ambient: ph(dark, 'ambient'), dark: { name: 'dark.jpg', bytes: dark.dark as Buffer }, screen: dark.truth.screen, artifacts: false })).result;
+    expect(d.variants.dark).not.toBeNull();
+    const uU = d.uncertainty?.uniformity as number;
+    expect(uU).toBeGreaterThan(0);
+    expect(uU).toBeLessThan(0.05);
   }, 60_000);
 });
