@@ -6,6 +6,7 @@
  */
 import { decodePhoto } from '../lib/image';
 import { renderPattern } from '../lib/patterns';
+import { decodeSrgb, encodeSrgb } from '../lib/patterns/srgb';
 import { alignAndLocate } from '../lib/photometry/stages/align';
 import { normalise } from '../lib/photometry/stages/normalise';
 import { measureDisplayColour, measureGeometry, measureSharpness } from '../lib/photometry/stages/optics';
@@ -40,16 +41,19 @@ export async function opticsCosts(onBytes: Uint8Array, offBytes: Uint8Array, run
   const colourMs = medianMs(() => measureDisplayColour(n, a, 'full', {}, () => 0), runs);
   const geometryMs = medianMs(() => measureGeometry(n, a.screen, { degreesPerPixel: 0.01 }), runs);
 
-  // the off photo with the slanted-edge pattern lit on its screen: white where the pattern is white
+  // the off photo with the slanted-edge pattern's light added on its screen (in linear light, at
+  // half of full scale, then encoded again), one pattern pixel per camera pixel
   const r = off.raster;
+  if (r.bitDepth !== 8 || r.encoding !== 'srgb') throw new Error('the bench photos are 8-bit sRGB JPEGs');
   const s = a.screen;
   const pattern = renderPattern('slanted-edge', s.w, s.h);
   const data = r.data.slice();
+  const toLinear = Float64Array.from({ length: 256 }, (_, c) => decodeSrgb(c / 255));
   for (let y = 0; y < s.h; y++) {
     for (let x = 0; x < s.w; x++) {
-      const code = pattern.data[(y * s.w + x) * 3] as number;
+      const light = 0.5 * (toLinear[pattern.data[(y * s.w + x) * 3] as number] as number);
       const i = ((s.y + y) * r.width + s.x + x) * r.channels;
-      for (let c = 0; c < r.channels; c++) data[i + c] = Math.max(data[i + c] as number, (code * (r.bitDepth === 8 ? 1 : 257)) as number);
+      for (let c = 0; c < r.channels; c++) data[i + c] = Math.min(255, Math.round(255 * encodeSrgb((toLinear[data[i + c] as number] as number) + light)));
     }
   }
   const edgeOn: CapturePhoto = { raster: { ...r, data }, exposure: off.exposure };
