@@ -7,6 +7,7 @@ import { FormStatus, keepValues, SelectField, TextArea } from '@/components/revi
 import { Button } from '@/components/ui/button';
 import { Field } from '@/components/ui/field';
 import type { FormState } from '@/lib/form-state';
+import { CAPTURE_PATTERNS, PATTERN_NAMES } from '@/lib/schemas/capture-set';
 
 type Values = { label?: string; variant?: string; pattern?: string; tiffEncoding?: string; ambientLux?: number; backgroundCdm2?: number; displayLevel?: string; notes?: string };
 
@@ -27,11 +28,7 @@ function CaptureSetFields({ errors: e, values: v, variants = [] }: { errors: Rec
         label="Pattern on the display"
         name="pattern"
         defaultValue={v.pattern}
-        options={[
-          { value: 'full', label: 'Full-field white' },
-          { value: 'checkerboard', label: '4 × 4 checkerboard' },
-          { value: 'slanted-edge', label: 'Slanted edge (sharpness)' },
-        ]}
+        options={CAPTURE_PATTERNS.map((p) => ({ value: p, label: PATTERN_NAMES[p].choice }))}
         errors={e.pattern}
       />
       <Field label="Ambient illuminance (lx)" name="ambientLux" inputMode="decimal" placeholder="if measured" defaultValue={v.ambientLux} errors={e.ambientLux} />

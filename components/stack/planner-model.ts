@@ -250,4 +250,6 @@ export type MeasuredPoint = {
   ambientContrastRatio: number | null;
   ghostRatio: number | null;
   transmission: number | null;
+  /** How the orientation marker arrived at the camera (capture sets of pattern orientation). */
+  orientation?: { orientation: 'normal' | 'mirrored' | 'upside-down-mirrored' | 'rotated-180'; mirrored: boolean; margin: number } | null;
 };

@@ -29,7 +29,7 @@ import {
 import { VariantPredictedMeasured, VariantStacksEditor } from './variant-stacks';
 import { WhatIfSliders } from './what-if-sliders';
 import { TradeOffChart } from './trade-off-chart';
-import { fromVariantDrafts, placeMeasured, plannerVariants, predictedAgainstMeasuredByVariant, toVariantDrafts, tradeOffPoints, type TradeOffPoint, type VariantDraft } from './workbench-model';
+import { fromVariantDrafts, placeMeasured, plannerVariants, predictedAgainstMeasuredByVariant, toVariantDrafts, tradeOffPoints, type HandednessCheck, type TradeOffPoint, type VariantDraft } from './workbench-model';
 import { median } from './planner-model';
 
 const TEMPLATES = listStackTemplates();
@@ -58,7 +58,33 @@ function handednessText(p: StackPrediction): string {
     : `Mirrored (${n} reflection${n === 1 ? '' : 's'}): show a flipped image`;
 }
 
-function PredictionFigures({ shown, base }: { shown: StackPrediction; base: StackPrediction | null }) {
+const sideOf = (mirrored: boolean | 'mixed', turned: boolean | 'mixed'): string =>
+  mirrored === 'mixed' ? 'mixed: some sets mirrored, some not' : `${mirrored ? 'mirrored' : 'not mirrored'}${turned === true ? ', turned 180°' : turned === 'mixed' ? ', some turned' : ''}`;
+
+/** Per variant, what the orientation marker showed through the optics beside what its stack predicts. */
+function MeasuredHandedness({ checks }: { checks: { variant: string; handedness: HandednessCheck }[] }) {
+  const shown = checks.filter((c) => c.handedness.measured);
+  if (shown.length === 0) {
+    return <dd className="mt-1 text-xs text-muted">Not measured yet: analyse a capture set with the orientation marker (pattern “orientation”) to check it.</dd>;
+  }
+  return (
+    <>
+      {shown.map(({ variant, handedness: h }) => (
+        <dd key={variant} className="mt-1 text-xs" data-testid="measured-handedness">
+          <span className="text-muted">Measured{variant ? ` (${variant})` : ''}, {h.measured!.sets} set{h.measured!.sets === 1 ? '' : 's'}: </span>
+          <span className="text-ink">{sideOf(h.measured!.mirrored, h.measured!.turned)}</span>
+          {h.agrees === null ? null : h.agrees ? (
+            <span className="ml-1 text-pass">— as the stack predicts</span>
+          ) : (
+            <span className="ml-1 text-fail">— the stack predicts {h.predicted === 'mirrored' ? 'a mirrored' : 'an upright'} image: count the reflections again</span>
+          )}
+        </dd>
+      ))}
+    </>
+  );
+}
+
+function PredictionFigures({ shown, base, checks }: { shown: StackPrediction; base: StackPrediction | null; checks: { variant: string; handedness: HandednessCheck }[] }) {
   // The stack's own value is repeated only where a slider has moved the figure.
   const ref = (a: string, b: string | undefined) => (base && b !== undefined && a !== b ? b : null);
   const eta = formatPercent(shown.eta);
@@ -83,6 +109,7 @@ function PredictionFigures({ shown, base }: { shown: StackPrediction; base: Stac
         <dd className="mt-0.5 text-sm text-ink" data-testid="pred-handedness">
           {handednessText(shown)}
         </dd>
+        <MeasuredHandedness checks={checks} />
       </div>
     </dl>
   );
@@ -348,7 +375,7 @@ export function StackWorkbench({
         <Panel title="Planner" actions={whatIfActive ? <span className="text-xs text-glow">what-if active</span> : null}>
           {shown && stack ? (
             <div className="space-y-5">
-              <PredictionFigures shown={shown} base={whatIfActive ? prediction : null} />
+              <PredictionFigures shown={shown} base={whatIfActive ? prediction : null} checks={perVariant} />
               <div>
                 <h3 className="mb-1 text-xs uppercase tracking-wider text-muted">Ambient contrast ratio against the background</h3>
                 <ContrastCurveChart

@@ -2,6 +2,7 @@
 // stack of each variant, and predicted against measured per variant. The component only holds
 // state and draws; the tests call these directly.
 import { predictedContrastRatio, type StackPrediction } from '@/lib/optics';
+import type { Handedness } from '@/lib/optics/handedness';
 import { stackElementSchema, stackSchema, variantStacksSchema, type Stack, type StackElement, type VariantChange, type VariantStacks } from '@/lib/schemas/stack';
 import { formatLuminance } from '@/lib/format';
 import { summarise } from '@/lib/stats';
@@ -118,7 +119,31 @@ export type PredictedMeasured = {
   /** The stack fitted to these readings: the display at the eye and the η that explain them. */
   fit: MeasuredFit;
   etaPredicted: number | null;
+  /** The stack's predicted handedness, and what the orientation marker showed (null: no clear reading). */
+  handedness: HandednessCheck;
 };
+
+/** Orientation readings clearer than this margin count (lib/photometry/stages/orientation.ts). */
+export const ORIENTATION_CLEAR_MARGIN = 0.1;
+
+export type HandednessCheck = {
+  predicted: Handedness | null;
+  /** The clear orientation readings: how many, and what they say (mixed when they disagree). */
+  measured: { sets: number; mirrored: boolean | 'mixed'; turned: boolean | 'mixed' } | null;
+  /** True when every clear reading agrees with the prediction, false when one does not, null when either is missing. */
+  agrees: boolean | null;
+};
+
+/** The predicted handedness against the orientation marker's clear readings of one group. */
+export function handednessCheck(predicted: Handedness | null, readings: readonly MeasuredPoint[]): HandednessCheck {
+  const clear = readings.flatMap((r) => (r.orientation && r.orientation.margin >= ORIENTATION_CLEAR_MARGIN ? [r.orientation] : []));
+  if (clear.length === 0) return { predicted, measured: null, agrees: null };
+  const all = <T,>(f: (o: (typeof clear)[number]) => T): T | 'mixed' => (clear.every((o) => f(o) === f(clear[0]!)) ? f(clear[0]!) : 'mixed');
+  const mirrored = all((o) => o.mirrored);
+  const turned = all((o) => o.orientation === 'rotated-180' || o.orientation === 'upside-down-mirrored');
+  const agrees = predicted === null ? null : mirrored === 'mixed' ? false : mirrored === (predicted === 'mirrored');
+  return { predicted, measured: { sets: clear.length, mirrored, turned }, agrees };
+}
 
 const finite = (xs: (number | null)[]): number[] => xs.filter((x): x is number => x !== null && Number.isFinite(x));
 
@@ -147,6 +172,7 @@ export function predictedAgainstMeasured(variant: string, stack: Stack | null, r
     stackError,
     fit: fitFromReadings(readings, display?.kind === 'display' ? display.luminance : null),
     etaPredicted: prediction?.eta ?? null,
+    handedness: handednessCheck(prediction?.handedness ?? null, readings),
   };
 }
 

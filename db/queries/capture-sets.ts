@@ -1,5 +1,5 @@
 import { getDb } from '../index';
-import type { Conditions, TiffEncodingSetting } from '../../lib/schemas/capture-set';
+import type { CapturePatternKey, Conditions, TiffEncodingSetting } from '../../lib/schemas/capture-set';
 import { PHOTO_ROLES } from '../../lib/schemas/upload';
 import { recordAudit } from './audit';
 
@@ -13,7 +13,7 @@ export type CaptureSet = {
   projectName: string;
   label: string;
   variant: string;
-  pattern: 'full' | 'checkerboard' | 'slanted-edge';
+  pattern: CapturePatternKey;
   /** How the set's 16-bit TIFFs are read (lib/schemas/capture-set.ts). */
   tiffEncoding: TiffEncodingSetting;
   conditions: Conditions;
@@ -35,7 +35,7 @@ export type CaptureSetSummary = CaptureSet & {
 };
 
 type Row = {
-  id: string; revision_id: string; revision_label: string; project_id: string; project_name: string; label: string; variant: string; pattern: 'full' | 'checkerboard' | 'slanted-edge'; tiff_encoding?: TiffEncodingSetting;
+  id: string; revision_id: string; revision_label: string; project_id: string; project_name: string; label: string; variant: string; pattern: CapturePatternKey; tiff_encoding?: TiffEncodingSetting;
   conditions: Conditions | null; notes: string; created_at: Date; updated_at: Date;
   photo_count?: string | number; roles?: string[] | null; latest_status?: string | null; latest_acr?: number | null; latest_ghost?: number | null; latest_transmission?: number | null; latest_uniformity?: number | null; latest_reading_at?: Date | null;
 };
@@ -106,7 +106,7 @@ export async function listRevisionVariants(labId: string, revisionId: string): P
   return rows.map((r) => r.variant).sort((a, b) => a.localeCompare(b));
 }
 
-export type CaptureSetWrite = { label?: string; variant?: string; pattern?: 'full' | 'checkerboard' | 'slanted-edge'; tiffEncoding?: TiffEncodingSetting; notes?: string } & Partial<Conditions>;
+export type CaptureSetWrite = { label?: string; variant?: string; pattern?: CapturePatternKey; tiffEncoding?: TiffEncodingSetting; notes?: string } & Partial<Conditions>;
 
 function conditionsOf(input: Partial<Conditions>, previous: Conditions = { displayLevel: '' }): Conditions {
   const out: Conditions = { ...previous };

@@ -87,8 +87,14 @@ export type PlannerReading = {
   ambientContrastRatio: number | null;
   ghostRatio: number | null;
   transmission: number | null;
+  /** What the display showed: a screen lit all over (full, checkerboard) or a marker or square that darkens part of it. */
+  pattern: string;
+  /** How the orientation marker arrived (capture sets of pattern orientation, engine 1.2.0 on). */
+  orientation: MeasuredOrientation | null;
   createdAt: Date;
 };
+
+export type MeasuredOrientation = { orientation: 'normal' | 'mirrored' | 'upside-down-mirrored' | 'rotated-180'; mirrored: boolean; margin: number };
 
 type ReadingRow = {
   capture_set_id: string;
@@ -100,8 +106,16 @@ type ReadingRow = {
   ambient_contrast_ratio: number | null;
   ghost_ratio: number | null;
   transmission: number | null;
+  orientation: { orientation?: unknown; mirrored?: unknown; margin?: unknown } | null;
+  pattern: string | null;
   created_at: Date;
 };
+
+const ORIENTATIONS = ['normal', 'mirrored', 'upside-down-mirrored', 'rotated-180'] as const;
+function orientationOf(o: ReadingRow['orientation']): MeasuredOrientation | null {
+  if (!o || typeof o.mirrored !== 'boolean' || typeof o.margin !== 'number' || !ORIENTATIONS.includes(o.orientation as (typeof ORIENTATIONS)[number])) return null;
+  return { orientation: o.orientation as MeasuredOrientation['orientation'], mirrored: o.mirrored, margin: o.margin };
+}
 
 const num = (v: number | string | null): number | null => (v === null ? null : Number.isFinite(Number(v)) ? Number(v) : null);
 
@@ -138,6 +152,8 @@ export async function listMeasuredForPlanner(labId: string, projectId: string): 
       'g.variant',
       'g.background_cdm2',
       getDb().raw(`g.result->'absoluteLuminance' AS abs`),
+      getDb().raw(`g.result->'orientation' AS orientation`),
+      getDb().raw(`g.result->>'pattern' AS pattern`),
       'g.ambient_contrast_ratio',
       'g.ghost_ratio',
       'g.transmission',
@@ -158,6 +174,8 @@ export async function listMeasuredForPlanner(labId: string, projectId: string): 
       ambientContrastRatio: num(r.ambient_contrast_ratio),
       ghostRatio: num(r.ghost_ratio),
       transmission: num(r.transmission),
+      pattern: r.pattern ?? 'full',
+      orientation: orientationOf(r.orientation),
       createdAt: r.created_at,
     }))
     .sort((a, b) => a.createdAt.getTime() - b.createdAt.getTime());

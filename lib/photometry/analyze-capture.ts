@@ -15,6 +15,7 @@ import { uncertainties } from './stages/uncertainty';
 import { registrationBound } from './uncertainty';
 import { normalise, type CaptureRoleInput, type Normalised } from './stages/normalise';
 import { checkOpticsOptions, opticsReadings, type OpticsOptions } from './stages/optics';
+import { readOrientation } from './stages/orientation';
 import { uniformity } from './uniformity';
 import { ENGINE_VERSION } from './version';
 import { warpPlane } from './warp';
@@ -261,6 +262,7 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
   progress('sharpness, geometry, colour', 0.82);
 
   const optics = opticsReadings(n, a, pattern, input.optics ?? {}, warnings, (darkSmall) => darkRoomShare(darkSmall, a.offSmall, a.mask, n.factor), memo);
+  const orientation = readOrientation(n, a, pattern, warnings);
 
   progress('maps', 0.85);
   const off = a.motion.off as Motion;
@@ -306,6 +308,7 @@ export function analyzeCaptureDetailed(input: CaptureInput): CaptureAnalysis {
     sharpness: optics.sharpness,
     geometry: optics.geometry,
     displayColour: optics.displayColour,
+    ...(pattern === 'orientation' ? { orientation } : {}),
   };
   const brackets: Partial<Record<PhotoRole, BracketSummary>> = {};
   for (const role of n.roles) {

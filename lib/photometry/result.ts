@@ -23,6 +23,7 @@ export const WARNING_CODES = [
   'sharpness-unmeasured',
   'see-through-range-small',
   'see-through-unfitted',
+  'orientation-unclear',
 ] as const;
 
 export type WarningCode = (typeof WARNING_CODES)[number];
@@ -182,6 +183,18 @@ export interface CaptureResult {
   geometry?: GeometryResult | null;
   /** The display's chromaticity, CCT and colour uniformity (engine 1.2.0 on). */
   displayColour?: DisplayColourResult | null;
+  /** How the orientation marker arrived at the camera, with pattern orientation (engine 1.2.0 on). */
+  orientation?: OrientationResult | null;
+}
+
+/** The orientation marker as seen through the optics: mirrored or not, turned or not, and how clearly. */
+export interface OrientationResult {
+  orientation: 'normal' | 'mirrored' | 'upside-down-mirrored' | 'rotated-180';
+  /** An odd number of reflections on the way: the image is mirror-reversed. */
+  mirrored: boolean;
+  /** Best correlation minus the runner-up (0..2): under 0.1 the photo does not tell. */
+  margin: number;
+  scores: Record<'normal' | 'mirrored' | 'upside-down-mirrored' | 'rotated-180', number>;
 }
 
 /** Downsampled planes behind the artifacts. */

@@ -48,4 +48,4 @@ export interface ExposureTags {
 }
 
 export type PhotoRole = 'on' | 'off' | 'ambient' | 'dark';
-export type Pattern = 'full' | 'checkerboard' | 'slanted-edge';
+export type Pattern = 'full' | 'checkerboard' | 'slanted-edge' | 'orientation';

@@ -2,7 +2,16 @@ import { z } from 'zod';
 import { isRawFormat } from '../image/raw-formats';
 import { optionalStrictNumber, safe } from './common';
 
-export const CAPTURE_PATTERNS = ['full', 'checkerboard', 'slanted-edge'] as const;
+export const CAPTURE_PATTERNS = ['full', 'checkerboard', 'slanted-edge', 'orientation'] as const;
+export type CapturePatternKey = (typeof CAPTURE_PATTERNS)[number];
+
+/** How each pattern is named: in a sentence ("full-white pattern") and as a choice in a form. */
+export const PATTERN_NAMES: Record<CapturePatternKey, { phrase: string; choice: string; short: string }> = {
+  full: { phrase: 'full-white pattern', choice: 'Full-field white', short: 'full white' },
+  checkerboard: { phrase: '4 × 4 checkerboard', choice: '4 × 4 checkerboard', short: 'checkerboard' },
+  'slanted-edge': { phrase: 'slanted-edge pattern', choice: 'Slanted edge (sharpness)', short: 'slanted edge' },
+  orientation: { phrase: 'orientation marker', choice: 'Orientation marker (handedness)', short: 'orientation' },
+};
 
 /**
  * How the set's 16-bit TIFFs are read: 'auto' lets each photo follow what its file says (see

@@ -3,7 +3,7 @@
 // bounds cannot be shown to meet it and is left out (docs/method.md §7).
 import { formatIlluminance, formatLuminance } from '../format';
 
-export type CapturePattern = 'full' | 'checkerboard' | 'slanted-edge';
+export type CapturePattern = 'full' | 'checkerboard' | 'slanted-edge' | 'orientation';
 
 export type TargetCondition = {
   ambientLuxMin?: number;
@@ -30,7 +30,7 @@ export function toCondition(raw: unknown): TargetCondition {
     const v = o[k];
     if (typeof v === 'number' && Number.isFinite(v)) out[k] = v;
   }
-  if (o.pattern === 'full' || o.pattern === 'checkerboard' || o.pattern === 'slanted-edge') out.pattern = o.pattern;
+  if (o.pattern === 'full' || o.pattern === 'checkerboard' || o.pattern === 'slanted-edge' || o.pattern === 'orientation') out.pattern = o.pattern;
   return out;
 }
 
@@ -56,7 +56,7 @@ export function meetsCondition(c: TargetCondition, s: StatedConditions | undefin
   return { ok: true };
 }
 
-export const PATTERN_WORDS: Record<CapturePattern, string> = { full: 'full-white', checkerboard: 'checkerboard', 'slanted-edge': 'slanted-edge' };
+export const PATTERN_WORDS: Record<CapturePattern, string> = { full: 'full-white', checkerboard: 'checkerboard', 'slanted-edge': 'slanted-edge', orientation: 'orientation' };
 
 function range(min: number | undefined, max: number | undefined, fmt: (v: number) => string): string | null {
   if (has(min) && has(max)) return `${fmt(min).replace(/ [^ ]+$/, '')}–${fmt(max)}`;

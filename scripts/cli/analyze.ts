@@ -137,7 +137,7 @@ async function run(args: string[], out: NodeJS.WritableStream): Promise<void> {
   const off = role('off');
   if (!on || !off) throw new EngineInputError('bad-argument', 'both --on FILE and --off FILE are required');
   const pattern = str('pattern') as Pattern;
-  if (pattern !== 'full' && pattern !== 'checkerboard' && pattern !== 'slanted-edge') throw new EngineInputError('bad-argument', `--pattern must be full, checkerboard or slanted-edge, got "${pattern}"`);
+  if (pattern !== 'full' && pattern !== 'checkerboard' && pattern !== 'slanted-edge' && pattern !== 'orientation') throw new EngineInputError('bad-argument', `--pattern must be full, checkerboard, slanted-edge or orientation, got "${pattern}"`);
   const go = str('ghost-offset');
   let ghostOffset: Offset | 'none' | null = null;
   if (go === 'none') ghostOffset = 'none';
@@ -195,10 +195,11 @@ libraw-bin), all of them with one fixed white balance: the first raw photo's day
   --dark FILE             display on, room dark: the ghost and uniformity are then measured on it
 
 Measurement:
-  --pattern full|checkerboard|slanted-edge
+  --pattern full|checkerboard|slanted-edge|orientation
                           what the display showed: full-field white (default), the 4 × 4
-                          checkerboard (adds the checkerboard contrast) or the slanted-edge square
-                          (adds the sharpness: MTF50 and the MTF curve)
+                          checkerboard (adds the checkerboard contrast), the slanted-edge square
+                          (adds the sharpness: MTF50 and the MTF curve) or the orientation marker
+                          (adds how the optics turned or mirrored the image)
   --screen x,y,w,h        the virtual image's rectangle in pixels of the on photo (default: detected
                           from on − off)
   --background x,y,w,h    a see-through rectangle away from the screen, for transmission and tint

@@ -19,7 +19,7 @@ const MEASUREMENTS: { what: string; kind: PatternKind; note: string }[] = [
   { what: 'ANSI contrast', kind: 'checkerboard', note: 'Capture set pattern “checkerboard”' },
   { what: 'Sharpness (MTF50)', kind: 'slanted-edge', note: 'Capture set pattern “slanted-edge”' },
   { what: 'Camera linearity check', kind: 'grey-steps', note: 'Confirms the camera’s response before trusting ratios' },
-  { what: 'Image handedness', kind: 'orientation', note: 'Normal, mirrored or rotated, compared with the stack' },
+  { what: 'Image handedness', kind: 'orientation', note: 'Capture set pattern “orientation”: normal, mirrored or turned, set beside the planner’s prediction' },
 ];
 
 const one = (v: string | string[] | undefined) => (Array.isArray(v) ? v[0] : v);

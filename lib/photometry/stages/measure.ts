@@ -126,7 +126,9 @@ export function contrastFigures(n: Normalised, t: RegionTotals, pattern: Pattern
   const lOff = meanOf(t, 'off', (idx.off as Index).screen);
   const lAmb = n.photos.ambient ? meanOf(t, 'ambient', (idx.ambient as Index).screen) : Number.NaN;
   const lDark = n.photos.dark ? meanOf(t, 'dark', (idx.dark as Index).screen) : Number.NaN;
-  const acr = lOff > 0 ? contrastRatio(lOn, lOff) : Number.NaN;
+  // a screen lit all over (full, checkerboard) gives the ambient contrast ratio; the slanted-edge square
+  // and the orientation marker darken part of it, so their on/off ratio is not the display's contrast
+  const acr = lOff > 0 && (pattern === 'full' || pattern === 'checkerboard') ? contrastRatio(lOn, lOff) : Number.NaN;
   let mich: number | null = null;
   let ansi: number | null = null;
   let checker: CaptureResult['checkerboard'] = null;

@@ -86,7 +86,7 @@ export function normalise(
   memo: AnalysisMemo | null,
 ): Normalised {
   const pattern = input.pattern ?? 'full';
-  if (pattern !== 'full' && pattern !== 'checkerboard' && pattern !== 'slanted-edge') throw new EngineInputError('bad-argument', `unknown pattern "${String(pattern)}": use full, checkerboard or slanted-edge`);
+  if (pattern !== 'full' && pattern !== 'checkerboard' && pattern !== 'slanted-edge' && pattern !== 'orientation') throw new EngineInputError('bad-argument', `unknown pattern "${String(pattern)}": use full, checkerboard, slanted-edge or orientation`);
   if (input.calibration !== undefined && input.calibration !== null && !(Number.isFinite(input.calibration) && input.calibration > 0)) {
     throw new EngineInputError('bad-argument', 'the calibration factor must be a positive number');
   }

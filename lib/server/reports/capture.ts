@@ -8,6 +8,7 @@ import { ReportWriter } from '../../reports/pdf';
 import type { ReportOptions } from './build';
 import { captureFigures } from './figures';
 import { opticsSection } from './optics-section';
+import { PATTERN_NAMES } from '../../schemas/capture-set';
 
 /**
  * The PDF of one capture set: its conditions, the newest reading's figures and warnings, the on
@@ -24,7 +25,7 @@ export async function captureReport(labId: string, captureSetId: string, opts: R
     c.ambientLux !== undefined ? `${c.ambientLux} lx ambient` : null,
     c.backgroundCdm2 !== undefined ? `${c.backgroundCdm2} cd/m² background` : null,
     c.displayLevel ? `display ${c.displayLevel}` : null,
-    set.pattern === 'full' ? 'full-white pattern' : set.pattern === 'slanted-edge' ? 'slanted-edge pattern' : '4 × 4 checkerboard',
+    PATTERN_NAMES[set.pattern].phrase,
   ].filter(Boolean);
 
   const w = new ReportWriter(`${set.projectName} ${set.revisionLabel} ${set.label}`, { compress: opts.compress });

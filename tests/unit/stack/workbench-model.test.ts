@@ -6,6 +6,7 @@ import {
   applyVariantChange,
   backgroundOf,
   fromVariantDrafts,
+  handednessCheck,
   placeMeasured,
   plannerVariants,
   predictedAgainstMeasuredByVariant,
@@ -140,5 +141,36 @@ describe('the trade-off view', () => {
       expect(yes.acr).toBeGreaterThan(no.acr);
     }
     expect(tradeOffPoints(null, 1000)).toEqual([]);
+  });
+});
+
+describe('measured orientation beside the predicted handedness', () => {
+  const seen = (orientation: 'normal' | 'mirrored' | 'upside-down-mirrored' | 'rotated-180', margin = 0.5) => ({ orientation, mirrored: orientation === 'mirrored' || orientation === 'upside-down-mirrored', margin });
+
+  it('agrees when every clear reading has the predicted handedness, and says so per variant', () => {
+    // each plane reflection reverses handedness (common practice): the templates' own counts decide
+    const birdbath = getStackTemplate('birdbath').stack;
+    const predicted = predictStack(birdbath).handedness;
+    const asPredicted = predicted === 'mirrored' ? 'mirrored' : 'normal';
+    const other = predicted === 'mirrored' ? 'normal' : 'mirrored';
+    const rows = predictedAgainstMeasuredByVariant(birdbath, {}, [
+      point({ captureSetId: 'a', orientation: seen(asPredicted) }),
+      point({ captureSetId: 'b', orientation: seen(asPredicted, 0.3) }),
+      point({ captureSetId: 'c', variant: 'fold mirror', orientation: seen(other) }),
+      point({ captureSetId: 'd' }),
+    ]);
+    const base = rows.find((r) => r.variant === '')!;
+    expect(base.handedness).toEqual({ predicted, measured: { sets: 2, mirrored: predicted === 'mirrored', turned: false }, agrees: true });
+    const fold = rows.find((r) => r.variant === 'fold mirror')!;
+    expect(fold.handedness.agrees).toBe(false);
+  });
+
+  it('leaves out unclear readings, reports a half turn, and calls disagreeing sets mixed', () => {
+    expect(handednessCheck('kept', [point({ orientation: seen('mirrored', 0.05) })])).toEqual({ predicted: 'kept', measured: null, agrees: null });
+    expect(handednessCheck('kept', [point({ orientation: seen('rotated-180') })])).toEqual({ predicted: 'kept', measured: { sets: 1, mirrored: false, turned: true }, agrees: true });
+    const mixed = handednessCheck('mirrored', [point({ orientation: seen('mirrored') }), point({ orientation: seen('normal') })]);
+    expect(mixed.measured?.mirrored).toBe('mixed');
+    expect(mixed.agrees).toBe(false);
+    expect(handednessCheck(null, [point({ orientation: seen('normal') })]).agrees).toBeNull();
   });
 });

@@ -21,6 +21,7 @@ import { ENGINE_VERSION } from '@/lib/photometry/version';
 import { can } from '@/lib/auth/permissions';
 import { requireActor } from '@/lib/server/auth/session';
 import { uuidSchema } from '@/lib/schemas/common';
+import { PATTERN_NAMES } from '@/lib/schemas/capture-set';
 
 export default async function CapturePage({ params, searchParams }: { params: Promise<{ captureId: string }>; searchParams: Promise<{ analysis?: string }> }) {
   const { captureId } = await params;
@@ -53,7 +54,7 @@ export default async function CapturePage({ params, searchParams }: { params: Pr
     c.ambientLux !== undefined ? `${c.ambientLux} lx ambient` : null,
     c.backgroundCdm2 !== undefined ? `${c.backgroundCdm2} cd/m² background` : null,
     c.displayLevel ? `display ${c.displayLevel}` : null,
-    set.pattern === 'full' ? 'full-white pattern' : set.pattern === 'slanted-edge' ? 'slanted-edge pattern' : '4 × 4 checkerboard',
+    PATTERN_NAMES[set.pattern].phrase,
     set.tiffEncoding === 'linear' ? '16-bit TIFFs read as linear' : set.tiffEncoding === 'srgb' ? '16-bit TIFFs read as sRGB' : null,
   ].filter(Boolean);
 

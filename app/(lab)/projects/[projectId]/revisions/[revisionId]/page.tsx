@@ -20,6 +20,7 @@ import { formatIlluminance, formatMetricMeanCi, formatMetricSpread, formatMetric
 import { checkTargetsOn, revisionVerdictText } from '@/lib/targets/evaluate';
 import { METRICS, type MetricKey } from '@/lib/targets/metrics';
 import { revisionStatistics } from '@/lib/targets/series';
+import { PATTERN_NAMES } from '@/lib/schemas/capture-set';
 
 const STATUS_TEXT: Record<string, string> = { queued: 'Queued', running: 'Running', done: 'Measured', failed: 'Failed' };
 
@@ -160,7 +161,7 @@ export default async function RevisionPage({ params }: { params: Promise<{ proje
               cells: {
                 label: { text: s.label },
                 variant: { text: s.variant || '—', sort: s.variant },
-                pattern: { text: s.pattern === 'full' ? 'full white' : s.pattern === 'slanted-edge' ? 'slanted edge' : 'checkerboard' },
+                pattern: { text: PATTERN_NAMES[s.pattern].short },
                 photos: { text: `${s.photoCount} (${s.roles.join(', ') || 'none'})`, sort: s.photoCount },
                 lux: { text: formatIlluminance(s.conditions.ambientLux), sort: s.conditions.ambientLux ?? null },
                 status: { text: s.latestStatus ? (STATUS_TEXT[s.latestStatus] ?? s.latestStatus) : 'not analysed', sort: s.latestStatus },

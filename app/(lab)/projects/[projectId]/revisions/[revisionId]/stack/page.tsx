@@ -22,6 +22,8 @@ export async function generateMetadata({ params }: { params: Promise<{ projectId
 
 type Params = { projectId: string; revisionId: string };
 
+const litAllOver = (pattern: string) => pattern === 'full' || pattern === 'checkerboard';
+
 export default async function StackPage({ params }: { params: Promise<Params> }) {
   const { projectId, revisionId } = await params;
   const actor = await requireActor();
@@ -38,9 +40,11 @@ export default async function StackPage({ params }: { params: Promise<Params> })
       variant: r.variant,
       backgroundCdm2: r.backgroundCdm2,
       photoBackground: r.photoBackground,
-      ambientContrastRatio: r.ambientContrastRatio,
-      ghostRatio: r.ghostRatio,
+      // a marker or square darkens part of the screen: its contrast and ghost are not the stack's
+      ambientContrastRatio: litAllOver(r.pattern) ? r.ambientContrastRatio : null,
+      ghostRatio: litAllOver(r.pattern) ? r.ghostRatio : null,
       transmission: r.transmission,
+      orientation: r.orientation,
     }));
   const rows = buildComparisonRows(revisions, readings);
 
