@@ -74,7 +74,7 @@ describe('analyze CLI', () => {
     ['a camera that moved too far', ['--on', 'moved-on.jpg', '--off', 'moved-off.jpg'], /moved .* reshoot/],
     ['a missing --off', ['--on', 'on.jpg'], /--off FILE/],
     ['an unknown option', ['--on', 'on.jpg', '--off', 'off.jpg', '--colour'], /colour/],
-    ['a bad pattern', ['--on', 'on.jpg', '--off', 'off.jpg', '--pattern', 'stripes'], /full or checkerboard/],
+    ['a bad pattern', ['--on', 'on.jpg', '--off', 'off.jpg', '--pattern', 'stripes'], /full, checkerboard, slanted-edge or orientation/],
     ['a bad calibration', ['--on', 'on.jpg', '--off', 'off.jpg', '--calibration=abc'], /positive number/],
   ];
   it.each(bad)('exits 2 with one line and no stack trace for %s', (_name, args, message) => {
