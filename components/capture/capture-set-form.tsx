@@ -61,8 +61,8 @@ function TiffEncodingField({ value, errors }: { value?: string; errors?: string[
       />
       <div className="text-xs text-muted sm:col-span-2" data-testid="tiff-encoding-help">
         <p>
-          Choose <strong className="text-ink">linear 16-bit</strong> when the photos are 16-bit TIFFs converted from camera raw with no gamma curve (a raw converter’s “linear” output): their values are then proportional to light, the
-          most faithful input there is. JPEG, PNG, WebP and 8-bit files are always read as sRGB-encoded; declaring them linear is refused.
+          Choose <strong className="text-ink">linear 16-bit</strong> when the photos are 16-bit TIFFs converted from camera raw with no gamma curve (a raw converter’s “linear” output): their values are then proportional to light. Camera raw
+          files are better still: upload them as they are (no conversion), and they are always read as linear. JPEG, PNG, WebP and 8-bit files are always read as sRGB-encoded; declaring them linear is refused.
         </p>
         <p className="mt-1">
           <strong className="text-ink">As each file says</strong> reads a 16-bit TIFF as linear when it carries a colour profile with straight (gamma 1.0) tone curves, or no colour profile at all; a TIFF with an sRGB, Adobe RGB or other gamma
