@@ -1,8 +1,9 @@
 import { getDb } from '../index';
 import type { UncertainMetric } from '../../lib/photometry/result';
+import type { ReadingFigures } from './readings';
 
 /** One row of a readings export: the newest reading of a capture set with its context. */
-export type ExportRow = {
+export type ExportRow = ReadingFigures & {
   readingId: string;
   projectName: string;
   revisionLabel: string;
@@ -15,22 +16,6 @@ export type ExportRow = {
   backgroundCdm2: number | null;
   engineVersion: string;
   createdAt: Date;
-  ambientContrastRatio: number | null;
-  michelson: number | null;
-  ansiContrast: number | null;
-  uniformity: number | null;
-  ghostRatio: number | null;
-  transmission: number | null;
-  tintDeltaE00: number | null;
-  transmissionOptics: number | null;
-  veil: number | null;
-  veilCdm2: number | null;
-  mtf50: number | null;
-  mtf50PerDegree: number | null;
-  displayDuv: number | null;
-  colourUniformityDuv: number | null;
-  /** Standard uncertainty of each metric that has one. */
-  uncertainty: Partial<Record<UncertainMetric, number>>;
   luminanceOn: number | null;
   luminanceOff: number | null;
   luminanceAmbient: number | null;

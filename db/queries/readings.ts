@@ -14,14 +14,8 @@ export type ReadingArtifacts = {
   };
 };
 
-export type Reading = {
-  id: string;
-  analysisId: string;
-  captureSetId: string;
-  revisionId: string;
-  projectId: string;
-  variant: string;
-  engineVersion: string;
+/** A reading's figures, as the readings table keeps them (stored scale: ratios, fractions, ΔE00, cy/px). */
+export type ReadingFigures = {
   ambientContrastRatio: number | null;
   michelson: number | null;
   ansiContrast: number | null;
@@ -38,6 +32,16 @@ export type Reading = {
   colourUniformityDuv: number | null;
   /** Standard uncertainty of each metric that has one (engine 1.2.0 on; older readings: none). */
   uncertainty: Partial<Record<UncertainMetric, number>>;
+};
+
+export type Reading = ReadingFigures & {
+  id: string;
+  analysisId: string;
+  captureSetId: string;
+  revisionId: string;
+  projectId: string;
+  variant: string;
+  engineVersion: string;
   clippedFraction: number | null;
   warningCount: number;
   result: CaptureResult;

@@ -1,5 +1,6 @@
 import { chromaticity, D65_XY, linearRgbToXyz } from './color';
 import { luminanceTables } from './raster';
+import type { DisplayColourResult } from './result';
 import type { Offset, PhotoRaster, Rect } from './types';
 
 /**
@@ -162,20 +163,8 @@ export function sampledRgbMeans(raster: PhotoRaster, rects: readonly Rect[], off
   });
 }
 
-export interface DisplayColour {
-  x: number;
-  y: number;
-  /** CIE 1976 u′, v′. */
-  u: number;
-  v: number;
-  /** Correlated colour temperature, K (McCamy), or null off the locus or outside 2000–10 000 K. */
-  cct: number | null;
-  /** Δu′v′ from the reference white. */
-  duvFromWhite: number;
-  whiteRef: 'D65' | 'display';
-  /** Largest Δu′v′ between any two cells of the screen's 3 × 3 grid; null without the grid. */
-  uniformityDuv: number | null;
-}
+/** The display's colour through the optics: the result's shape (lib/photometry/result.ts). */
+export type DisplayColour = DisplayColourResult;
 
 const r5 = (v: number): number => Math.round(v * 1e5) / 1e5;
 

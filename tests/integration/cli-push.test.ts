@@ -10,7 +10,7 @@ import addFormats from 'ajv-formats';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { renderCapture, type RenderedCapture } from '../fixtures/capture-generator';
 import { createTestLab } from '../fixtures/test-lab';
-import { removeWorkerBuild, spawnReady, workerArgs } from '../fixtures/worker-process';
+import { removeWorkerBuild, spawnReady, stopWorkers, workerArgs } from '../fixtures/worker-process';
 import { isolateRun } from '../fixtures/isolated-run';
 
 const root = join(import.meta.dirname, '..', '..');
@@ -84,9 +84,7 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await server?.close();
-  for (const w of workers) if (w.pid && w.exitCode === null) process.kill(-w.pid, 'SIGTERM');
-  await new Promise((r) => setTimeout(r, 300));
-  for (const w of workers) if (w.pid && w.exitCode === null) process.kill(-w.pid, 'SIGKILL');
+  await stopWorkers(workers);
   await getAnalysisQueue().close().catch(() => undefined);
   if (lab) {
     await getDb()('labs').where({ id: lab.labId }).delete();

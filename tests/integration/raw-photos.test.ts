@@ -11,7 +11,8 @@ import { renderDngCapture, type DngCapture } from '../fixtures/dng-writer';
 import { isolateRun } from '../fixtures/isolated-run';
 import { jar, sessionToken } from '../fixtures/request-context';
 import { createTestLab } from '../fixtures/test-lab';
-import { removeWorkerBuild, spawnReady, workerArgs } from '../fixtures/worker-process';
+import { removeWorkerBuild, spawnReady, stopWorkers, workerArgs } from '../fixtures/worker-process';
+import { call, captureRoutes, type Handler } from '../fixtures/capture-routes';
 
 const root = join(import.meta.dirname, '..', '..');
 // the CLI runs compiled, as `npx veilmeter` runs it, built into a folder of this file's own
@@ -27,21 +28,7 @@ const { getAnalysis } = await import('../../db/queries/analyses');
 const { getReadingForAnalysis } = await import('../../db/queries/readings');
 const { createApiToken } = await import('../../db/queries/api-tokens');
 const { getAnalysisQueue } = await import('../../lib/server/queue/producer');
-const createSet = await import('../../app/api/captures/route');
-const uploadPhoto = await import('../../app/api/captures/[captureId]/photos/route');
-const regions = await import('../../app/api/captures/[captureId]/regions/route');
-const onePhoto = await import('../../app/api/captures/[captureId]/photos/[photoId]/route');
-const analyses = await import('../../app/api/captures/[captureId]/analyses/route');
-const rigCreateSet = await import('../../app/api/v1/captures/route');
-const rigUpload = await import('../../app/api/v1/captures/[captureId]/photos/route');
-const rigRegions = await import('../../app/api/v1/captures/[captureId]/regions/route');
-const rigAnalyses = await import('../../app/api/v1/captures/[captureId]/analyses/route');
-
-type Handler = (req: Request, ctx: never) => Promise<Response>;
-async function call(h: Handler, method: string, url: string, params: Record<string, string>, body?: BodyInit, headers: Record<string, string> = {}): Promise<{ status: number; json: Record<string, unknown> }> {
-  const res = await h(new Request(url, { method, body, headers }), { params: Promise.resolve(params) } as never);
-  return { status: res.status, json: (await res.json()) as Record<string, unknown> };
-}
+const { createSet, uploadPhoto, regions, onePhoto, analyses, rigCreateSet, rigUpload, rigRegions, rigAnalyses } = await captureRoutes();
 
 let lab: { labId: string; userId: string; projectId: string; revisionId: string };
 let token = '';
@@ -125,9 +112,7 @@ beforeAll(async () => {
 }, 120_000);
 
 afterAll(async () => {
-  for (const w of workers) if (w.pid && w.exitCode === null) process.kill(-w.pid, 'SIGTERM');
-  await sleep(300);
-  for (const w of workers) if (w.pid && w.exitCode === null) process.kill(-w.pid, 'SIGKILL');
+  await stopWorkers(workers);
   await getAnalysisQueue().close().catch(() => undefined);
   if (lab) {
     await getDb()('labs').where({ id: lab.labId }).delete();

@@ -9,7 +9,7 @@ import { renderCapture } from '../fixtures/capture-generator';
 import { insertReading } from '../fixtures/readings-fixture';
 import { signInAs as signInWithVersion } from '../fixtures/request-context';
 import { addCaptureSet, createTestLab } from '../fixtures/test-lab';
-import { removeWorkerBuild, spawnReady, workerArgs } from '../fixtures/worker-process';
+import { removeWorkerBuild, spawnReady, stopWorkers, workerArgs } from '../fixtures/worker-process';
 import { isolateRun } from '../fixtures/isolated-run';
 
 const { tmp, prefix } = isolateRun('reanalyse');
@@ -102,9 +102,7 @@ beforeAll(async () => {
 }, 120_000);
 
 afterAll(async () => {
-  for (const w of workers) if (w.pid && w.exitCode === null) process.kill(-w.pid, 'SIGTERM');
-  await sleep(300);
-  for (const w of workers) if (w.pid && w.exitCode === null) process.kill(-w.pid, 'SIGKILL');
+  await stopWorkers(workers);
   await getAnalysisQueue().close().catch(() => undefined);
   const db = getDb();
   for (const lab of [a, b]) if (lab) await db('labs').where({ id: lab.labId }).delete();
