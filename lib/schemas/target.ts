@@ -4,6 +4,9 @@ import { METRIC_KEYS } from '../targets/metrics';
 import { fromShown } from '../format/metrics';
 import { optionalStrictNumber, safe, strictNumber } from './common';
 
+// the patterns a target's figures come from (the orientation marker gives a handedness, nothing to target)
+const TARGET_PATTERNS = ['full', 'checkerboard', 'slanted-edge'] as const satisfies readonly (typeof CAPTURE_PATTERNS)[number][];
+
 const blank = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? undefined : v);
 
 // read strictly: "0x10" is not 16, and blank or null is "no bound", never 0
@@ -36,7 +39,7 @@ const targetFields = z.object({
   ambientLuxMax: bound('The highest ambient illuminance', 200_000),
   backgroundCdm2Min: bound('The lowest background luminance', 100_000),
   backgroundCdm2Max: bound('The highest background luminance', 100_000),
-  pattern: z.preprocess(blank, z.enum(CAPTURE_PATTERNS, { message: 'Pick full white, checkerboard or slanted edge' }).optional()),
+  pattern: z.preprocess(blank, z.enum(TARGET_PATTERNS, { message: 'Pick full white, checkerboard or slanted edge' }).optional()),
   variants: variantsField.default([]),
   isDefault: z.preprocess((v) => v === true || v === 'true' || v === 'on', z.boolean()).default(false),
 });

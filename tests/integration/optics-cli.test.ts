@@ -63,6 +63,6 @@ describe('analyze CLI: sharpness, field of view and display colour', () => {
     expect(bad.stderr).toMatch(/--display-resolution needs/);
     const pattern = cli('--on', join(dir, 'on.tif'), '--off', join(dir, 'off.tif'), '--pattern', 'edge');
     expect(pattern.status).toBe(2);
-    expect(pattern.stderr).toMatch(/full, checkerboard or slanted-edge/);
+    expect(pattern.stderr).toMatch(/full, checkerboard, slanted-edge or orientation/);
   });
 });

@@ -100,7 +100,7 @@ describe('structured conditions', () => {
     const r = formSchema.safeParse({ projectId: fx.projectId, metric: 'transmission', comparator: '>=', value: '130', valueIn: 'shown', ambientLuxMin: '700', ambientLuxMax: '300', pattern: 'stripes' });
     expect(r.success).toBe(false);
     const fields = Object.fromEntries((r.error?.issues ?? []).map((i) => [String(i.path[0]), i.message]));
-    expect(fields.pattern).toMatch(/full white or checkerboard/);
+    expect(fields.pattern).toMatch(/full white, checkerboard or slanted edge/);
     // the object-level checks run once the fields themselves parse
     const r2 = formSchema.safeParse({ projectId: fx.projectId, metric: 'transmission', comparator: '>=', value: '130', valueIn: 'shown', ambientLuxMin: '700', ambientLuxMax: '300' });
     const f2 = Object.fromEntries((r2.error?.issues ?? []).map((i) => [String(i.path[0]), i.message]));
