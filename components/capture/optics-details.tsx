@@ -1,7 +1,8 @@
 import type { CaptureResult } from '@/lib/photometry/result';
+import { MetricRowsTable, type MetricRow } from './metric-rows-table';
 import { MtfChart } from './mtf-chart';
 
-type Row = { key: string; label: string; value: string; unit: string; definition: string };
+type Row = MetricRow;
 
 const fix = (v: number | null | undefined, digits: number) => (typeof v === 'number' && Number.isFinite(v) ? v.toFixed(digits) : '—');
 
@@ -10,25 +11,6 @@ const SOURCE: Record<NonNullable<CaptureResult['geometry']>['source'], string> =
   'exif-focal-sensor': 'from the EXIF focal length and sensor size',
   'exif-35mm': 'from the EXIF 35 mm equivalent focal length',
 };
-
-function RowsTable({ rows, testId }: { rows: Row[]; testId: string }) {
-  return (
-    <table className="w-full text-sm" data-testid={testId}>
-      <tbody>
-        {rows.map((m) => (
-          <tr key={m.key} className="border-t border-line align-top" data-metric={m.key}>
-            <th scope="row" className="py-1.5 pr-3 text-left font-medium text-ink">
-              {m.label}
-            </th>
-            <td className="whitespace-nowrap py-1.5 pr-2 text-right font-mono tabular-nums text-ink">{m.value}</td>
-            <td className="whitespace-nowrap py-1.5 pr-3 text-xs text-muted">{m.unit}</td>
-            <td className="py-1.5 text-xs text-muted">{m.definition}</td>
-          </tr>
-        ))}
-      </tbody>
-    </table>
-  );
-}
 
 /**
  * Sharpness (the MTF curve and MTF50), field of view and the display's colour of one reading
@@ -75,7 +57,7 @@ export function OpticsDetails({ result }: { result: CaptureResult }) {
       {s ? (
         <section>
           <h3 className="mb-2 text-xs font-semibold uppercase tracking-[0.16em] text-muted">Sharpness (slanted edge)</h3>
-          <RowsTable
+          <MetricRowsTable
             testId="sharpness"
             rows={[
               { key: 'mtf50', label: 'MTF50', value: fix(s.mtf50, 3), unit: 'cycles/pixel', definition: 'Spatial frequency where the contrast of fine detail falls to half, per camera pixel.' },
@@ -89,13 +71,13 @@ export function OpticsDetails({ result }: { result: CaptureResult }) {
       {g ? (
         <section>
           <h3 className="mb-2 text-xs font-semibold uppercase tracking-[0.16em] text-muted">Field of view</h3>
-          <RowsTable testId="geometry" rows={geometry} />
+          <MetricRowsTable testId="geometry" rows={geometry} />
         </section>
       ) : null}
       {c ? (
         <section>
           <h3 className="mb-2 text-xs font-semibold uppercase tracking-[0.16em] text-muted">Display colour</h3>
-          <RowsTable testId="display-colour" rows={colour} />
+          <MetricRowsTable testId="display-colour" rows={colour} />
         </section>
       ) : null}
     </div>

@@ -8,6 +8,7 @@ import { formatMetricValue, formatMetricWithU, METRIC_FORMATS } from '@/lib/form
 import { DASH, fixed, isNum } from '@/lib/format/numbers';
 import { formatLuminance, formatSig } from '@/lib/format/quantities';
 import type { MetricKey } from '@/lib/targets/metrics';
+import { MetricRowsTable } from './metric-rows-table';
 
 /** One row of the panel: a name, the figure (± its standard uncertainty when known), its unit and what it is. */
 export type Metric = { key: string; label: string; value: string; unit: string; definition: string };
@@ -192,22 +193,7 @@ export function ReadingsPanel({ reading, analyses, captureSetId, selectedId }: {
           ) : (
             <p className="text-sm text-pass">No warnings.</p>
           )}
-          <div className="overflow-x-auto" data-table-scroll>
-          <table className="w-full text-sm" data-testid="metrics">
-            <tbody>
-              {metrics(reading).map((m) => (
-                <tr key={m.key} className="border-t border-line align-top" data-metric={m.key}>
-                  <th scope="row" className="py-1.5 pr-3 text-left font-medium text-ink">
-                    {m.label}
-                  </th>
-                  <td className="whitespace-nowrap py-1.5 pr-2 text-right font-mono tabular-nums text-ink">{m.value}</td>
-                  <td className="whitespace-nowrap py-1.5 pr-3 text-xs text-muted">{m.unit}</td>
-                  <td className="py-1.5 text-xs text-muted">{m.definition}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-          </div>
+          <MetricRowsTable rows={metrics(reading)} testId="metrics" />
           {reading.artifacts.logContrastKey ? (
             <div className="grid gap-4 md:grid-cols-2">
               <figure>
