@@ -1,33 +1,27 @@
 // A linear 16-bit TIFF triplet through the web routes and the rig API (a real bearer token), analysed
 // by a real worker process, must read exactly what the CLI reads with --linear16 on the same files,
 // and match the generator's linear truth within 0.5%.
-import { spawnSync, type ChildProcess } from 'node:child_process';
-import { rmSync, writeFileSync } from 'node:fs';
-import { join, relative } from 'node:path';
+import { spawnSync } from 'node:child_process';
+import { writeFileSync } from 'node:fs';
+import { join } from 'node:path';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { renderCapture, type RenderedCapture } from '../fixtures/capture-generator';
-import { jar, sessionToken } from '../fixtures/request-context';
-import { createTestLab } from '../fixtures/test-lab';
+import { jar } from '../fixtures/request-context';
 import { encodeTiff16 } from '../fixtures/tiff16';
-import { removeWorkerBuild, spawnReady, stopWorkers, workerArgs } from '../fixtures/worker-process';
+import { webLabHarness, type WebLab } from '../fixtures/web-lab';
 import { call, captureRoutes, type Handler } from '../fixtures/capture-routes';
 import { isolateRun } from '../fixtures/isolated-run';
 
 const root = join(import.meta.dirname, '..', '..');
-// the CLI runs compiled, as `npx veilmeter` runs it, built into a folder of this file's own
-const cliDir = join(root, '.build', `cli-linear-${process.pid}`);
 // environment first: lib/env.ts reads it once, at first use
-const { tmp, prefix } = isolateRun('linear');
+const { tmp, prefix, storageDir } = isolateRun('linear');
 
 vi.mock('server-only', () => ({}));
 vi.mock('next/headers', () => import('../fixtures/request-context').then((m) => m.nextHeaders));
 
-const { getDb, closeDb } = await import('../../db/index');
-const { getAnalysis } = await import('../../db/queries/analyses');
+const { getDb } = await import('../../db/index');
 const { getReadingForAnalysis } = await import('../../db/queries/readings');
-const { createApiToken } = await import('../../db/queries/api-tokens');
-const { getAnalysisQueue } = await import('../../lib/server/queue/producer');
 const { createSet, uploadPhoto, regions, analyses, rigCreateSet, rigUpload, rigRegions, rigAnalyses } = await captureRoutes();
 
 /** sRGB-encoded 16-bit codes to linear 16-bit codes (IEC 61966-2-1 decoding, published). */
@@ -42,21 +36,12 @@ async function toLinearTiff(srgbTiff: Buffer): Promise<Buffer> {
   return encodeTiff16(codes.map((c) => table[c] as number), info.width, info.height);
 }
 
-let lab: { labId: string; userId: string; projectId: string; revisionId: string };
+const harness = webLabHarness({ tmp, prefix, storageDir }, { name: 'Linear path', project: 'Linear bench', revision: 'L1', tokenName: 'linear rig', cliTag: 'linear' });
+const cliDir = harness.cliDir;
+let lab: WebLab;
 let token = '';
-const workers: ChildProcess[] = [];
-const logs: string[] = [];
-const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
-async function waitDone(analysisId: string, timeoutMs = 90_000) {
-  const t0 = Date.now();
-  for (;;) {
-    const a = await getAnalysis(lab.labId, analysisId);
-    if (a && (a.status === 'done' || a.status === 'failed')) return a;
-    if (Date.now() - t0 > timeoutMs) throw new Error(`analysis ${analysisId} still ${a?.status}/${a?.stage}\n${logs.slice(-20).join('')}`);
-    await sleep(200);
-  }
-}
+const waitDone = (analysisId: string) => harness.waitDone(analysisId);
 
 type Scene = { capture: RenderedCapture; files: Record<'on' | 'off' | 'ambient', Buffer>; paths: Record<'on' | 'off' | 'ambient', string> };
 async function scene(seed: number, tag: string): Promise<Scene> {
@@ -99,29 +84,13 @@ function engineKeys(result: Record<string, unknown>): Record<string, unknown> {
 }
 
 beforeAll(async () => {
-  const b = spawnSync(process.execPath, ['scripts/build-worker.mjs', '--outdir', relative(root, cliDir)], { cwd: root, encoding: 'utf8', timeout: 60_000 });
-  if (b.status !== 0) throw new Error(`CLI build failed: ${b.stderr}`);
-  lab = await createTestLab(getDb(), { tag: prefix, name: 'Linear path', project: 'Linear bench', revision: 'L1' });
-  // a confirmed address and the user's current session version, as a real sign-in gives
-  await getDb()('users').where({ id: lab.userId }).update({ email_verified_at: new Date() });
-  const { session_version: sv } = await getDb()('users').where({ id: lab.userId }).first<{ session_version: number }>('session_version');
-  jar.set('next-auth.session-token', await sessionToken(lab.userId, sv));
-  token = (await createApiToken(lab.labId, lab.userId, 'linear rig', ['read', 'capture:write'])).token;
-  const env = { ...process.env, QUEUE_PREFIX: prefix, STORAGE_DIR: join(tmp, 'storage'), STORAGE_DRIVER: 'local', WORKER_CONCURRENCY: '1' };
-  await spawnReady(workerArgs('--sweep-every=1', '--sweep-grace=1'), { env, what: 'worker', log: logs, track: workers });
-});
+  await harness.setUp();
+  lab = harness.lab;
+  token = harness.token;
+}, 150_000);
 
 afterAll(async () => {
-  await stopWorkers(workers);
-  await getAnalysisQueue().close().catch(() => undefined);
-  if (lab) {
-    await getDb()('labs').where({ id: lab.labId }).delete();
-    await getDb()('users').where({ id: lab.userId }).delete();
-  }
-  await closeDb();
-  rmSync(tmp, { recursive: true, force: true });
-  rmSync(cliDir, { recursive: true, force: true });
-  removeWorkerBuild();
+  await harness.tearDown();
 });
 
 describe('linear 16-bit TIFFs through the web and the rig API', () => {

@@ -3,49 +3,33 @@
 // checks the header only, the worker decodes with libraw's tools, the reading matches what the CLI
 // reads from the same files and the scene's linear truth within 0.5%. A damaged raw file is
 // refused at upload with one line and leaves nothing behind.
-import { spawnSync, type ChildProcess } from 'node:child_process';
-import { readdirSync, rmSync, writeFileSync } from 'node:fs';
-import { join, relative } from 'node:path';
+import { spawnSync } from 'node:child_process';
+import { readdirSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { renderDngCapture, type DngCapture } from '../fixtures/dng-writer';
 import { isolateRun } from '../fixtures/isolated-run';
-import { jar, sessionToken } from '../fixtures/request-context';
-import { createTestLab } from '../fixtures/test-lab';
-import { removeWorkerBuild, spawnReady, stopWorkers, workerArgs } from '../fixtures/worker-process';
+import { jar } from '../fixtures/request-context';
+import { webLabHarness, type WebLab } from '../fixtures/web-lab';
 import { call, captureRoutes, type Handler } from '../fixtures/capture-routes';
 
 const root = join(import.meta.dirname, '..', '..');
-// the CLI runs compiled, as `npx veilmeter` runs it, built into a folder of this file's own
-const cliDir = join(root, '.build', `cli-raw-${process.pid}`);
 // environment first: lib/env.ts reads it once, at first use
 const { tmp, prefix, storageDir } = isolateRun('raw');
 
 vi.mock('server-only', () => ({}));
 vi.mock('next/headers', () => import('../fixtures/request-context').then((m) => m.nextHeaders));
 
-const { getDb, closeDb } = await import('../../db/index');
-const { getAnalysis } = await import('../../db/queries/analyses');
 const { getReadingForAnalysis } = await import('../../db/queries/readings');
-const { createApiToken } = await import('../../db/queries/api-tokens');
-const { getAnalysisQueue } = await import('../../lib/server/queue/producer');
 const { createSet, uploadPhoto, regions, onePhoto, analyses, rigCreateSet, rigUpload, rigRegions, rigAnalyses } = await captureRoutes();
 
-let lab: { labId: string; userId: string; projectId: string; revisionId: string };
+const harness = webLabHarness({ tmp, prefix, storageDir }, { name: 'Raw path', project: 'Raw bench', revision: 'R1', tokenName: 'raw rig', cliTag: 'raw' });
+const cliDir = harness.cliDir;
+let lab: WebLab;
 let token = '';
-const workers: ChildProcess[] = [];
-const logs: string[] = [];
-const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 const ROLES = ['on', 'off', 'ambient'] as const;
 
-async function waitDone(analysisId: string, timeoutMs = 120_000) {
-  const t0 = Date.now();
-  for (;;) {
-    const a = await getAnalysis(lab.labId, analysisId);
-    if (a && (a.status === 'done' || a.status === 'failed')) return a;
-    if (Date.now() - t0 > timeoutMs) throw new Error(`analysis ${analysisId} still ${a?.status}/${a?.stage}\n${logs.slice(-20).join('')}`);
-    await sleep(200);
-  }
-}
+const waitDone = (analysisId: string) => harness.waitDone(analysisId);
 
 type Scene = { capture: DngCapture; paths: Record<(typeof ROLES)[number], string> };
 async function scene(seed: number, tag: string): Promise<Scene> {
@@ -99,29 +83,13 @@ const storedFiles = (): string[] => {
 };
 
 beforeAll(async () => {
-  const b = spawnSync(process.execPath, ['scripts/build-worker.mjs', '--outdir', relative(root, cliDir)], { cwd: root, encoding: 'utf8', timeout: 90_000 });
-  if (b.status !== 0) throw new Error(`CLI build failed: ${b.stderr}`);
-  lab = await createTestLab(getDb(), { tag: prefix, name: 'Raw path', project: 'Raw bench', revision: 'R1' });
-  // a confirmed address and the user's current session version, as a real sign-in gives
-  await getDb()('users').where({ id: lab.userId }).update({ email_verified_at: new Date() });
-  const { session_version: sv } = await getDb()('users').where({ id: lab.userId }).first<{ session_version: number }>('session_version');
-  jar.set('next-auth.session-token', await sessionToken(lab.userId, sv));
-  token = (await createApiToken(lab.labId, lab.userId, 'raw rig', ['read', 'capture:write'])).token;
-  const env = { ...process.env, QUEUE_PREFIX: prefix, STORAGE_DIR: storageDir, STORAGE_DRIVER: 'local', WORKER_CONCURRENCY: '1' };
-  await spawnReady(workerArgs('--sweep-every=1', '--sweep-grace=1'), { env, what: 'worker', log: logs, track: workers });
-}, 120_000);
+  await harness.setUp();
+  lab = harness.lab;
+  token = harness.token;
+}, 150_000);
 
 afterAll(async () => {
-  await stopWorkers(workers);
-  await getAnalysisQueue().close().catch(() => undefined);
-  if (lab) {
-    await getDb()('labs').where({ id: lab.labId }).delete();
-    await getDb()('users').where({ id: lab.userId }).delete();
-  }
-  await closeDb();
-  rmSync(tmp, { recursive: true, force: true });
-  rmSync(cliDir, { recursive: true, force: true });
-  removeWorkerBuild();
+  await harness.tearDown();
 });
 
 describe('camera raw photos through the web and the rig API', () => {
