@@ -99,6 +99,8 @@ test.describe('at 1440 px wide', () => {
   });
 
   test('each page has its own title; an id of another lab or none names nothing', async ({ page }) => {
+    // ten page loads, the compare page's statistics among them: more than the default minute on a busy machine
+    test.setTimeout(150_000);
     await signIn(page, 'lead@example.test');
     await expect(page).toHaveTitle('Projects — Veilmeter');
     const p = await demoPages(page);
