@@ -1,4 +1,5 @@
 import FFT from 'fft.js';
+import { percentile } from './percentile';
 import type { Plane } from './types';
 
 /**
@@ -71,12 +72,6 @@ function fitLine(ys: Float64Array, xs: Float64Array, n: number): { a: number; b:
   return { a: (sx - b * sy) / n, b };
 }
 
-/** Median of the first n values (copied). */
-function median(v: Float64Array, n: number): number {
-  const s = Float64Array.from(v.subarray(0, n)).sort();
-  return n % 2 ? (s[(n - 1) >> 1] as number) : ((s[n / 2 - 1] as number) + (s[n / 2] as number)) / 2;
-}
-
 /** Fits a line to per-row positions, drops rows far from it (beyond 4 robust sigmas, at least 0.5 px) and fits again. */
 function robustLine(ys: Float64Array, xs: Float64Array, n: number): { a: number; b: number; kept: number } | null {
   const first = fitLine(ys, xs, n);
@@ -84,7 +79,7 @@ function robustLine(ys: Float64Array, xs: Float64Array, n: number): { a: number;
   const res = new Float64Array(n);
   for (let i = 0; i < n; i++) res[i] = Math.abs((xs[i] as number) - first.a - first.b * (ys[i] as number));
   // 1.4826·MAD: the normal distribution's sigma from the median absolute deviation (common practice)
-  const limit = Math.max(0.5, 4 * 1.4826 * median(res, n));
+  const limit = Math.max(0.5, 4 * 1.4826 * percentile(res, 50));
   const ky = new Float64Array(n);
   const kx = new Float64Array(n);
   let m = 0;
